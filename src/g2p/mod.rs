@@ -1,2 +1,3 @@
 //! (being written)
 pub mod lts;
+pub mod hybrid;
