@@ -180,9 +180,9 @@ fn impossible_feature_change_is_rejected_with_nearest_phones() {
     // naming the line and offering T (the alveolar stop) among the nearest phones (common practice).
     let text = "id = \"x\"\ntitle = \"x\"\nphoneset = \"en-arpa\"\nsource = \"test\"\n\n[[rule]]\nid = \"stop\"\nrule = \"TH -> [manner=stop]\"\nmode = \"optional\"\nweight = 0.5\n";
     match RuleSet::parse(text, "x.toml", &arpa()) {
-        Err(VariantsError::NoPhoneWithFeatures { file, line, from, nearest, .. }) => {
-            assert_eq!((file.as_str(), line, from.as_str()), ("x.toml", 8, "TH"));
-            assert!(nearest.iter().any(|n| n == "T"), "{nearest:?}");
+        Err(VariantsError::NoPhoneWithFeatures(e)) => {
+            assert_eq!((e.file.as_str(), e.line, e.from.as_str()), ("x.toml", 8, "TH"));
+            assert!(e.nearest.iter().any(|n| n == "T"), "{:?}", e.nearest);
         }
         other => panic!("expected NoPhoneWithFeatures, got {other:?}"),
     }

@@ -6,7 +6,7 @@
 use crate::phoneset::{PhoneClass, PhoneId, Phoneset, StressLevel};
 
 use super::bits::PhoneBits;
-use super::error::VariantsError;
+use super::error::{NoPhoneWithFeatures, VariantsError};
 use super::syntax::{Bundle, Change, Element, RuleAst, Segment, Span, Target, Term};
 
 /// Stress codes used by compiled matchers: none (consonants, unmarked), primary, secondary, unstressed.
@@ -98,8 +98,17 @@ pub struct Rule {
     pub source: String,
     pub(crate) target: Option<Vec<Matcher>>,
     pub(crate) action: Action,
+    /// Left context, nearest element first (matched leftwards).
     pub(crate) left: Vec<Pattern>,
     pub(crate) right: Vec<Pattern>,
+}
+
+/// The compiled pieces of one rule (the left context still in reading order).
+pub(crate) struct Parts {
+    pub target: Option<Vec<Matcher>>,
+    pub action: Action,
+    pub left: Vec<Pattern>,
+    pub right: Vec<Pattern>,
 }
 
 /// Compiles rule text; `locate` turns a character offset in the text into (line, column).
@@ -259,7 +268,7 @@ impl Compiler<'_> {
             let Some(result) = result else {
                 let span = sets.first().map_or(Span { start: 0, end: 0 }, |s| s.2);
                 let (line, column) = (self.locate)(span.start);
-                return Err(VariantsError::NoPhoneWithFeatures {
+                return Err(VariantsError::NoPhoneWithFeatures(Box::new(NoPhoneWithFeatures {
                     file: self.file.to_string(),
                     line,
                     column,
@@ -268,7 +277,7 @@ impl Compiler<'_> {
                     features: features.iter().map(|(n, v)| format!("{n}={v}")).collect::<Vec<_>>().join(", "),
                     phoneset: self.set.id().to_string(),
                     nearest: super::nearest_phones(self.set, &features, 3),
-                });
+                })));
             };
             if let Some(slot) = map.get_mut(usize::from(id)) {
                 *slot = Some(result);
@@ -278,7 +287,7 @@ impl Compiler<'_> {
     }
 
     /// Compiles one parsed rule.
-    pub fn rule(&self, ast: &RuleAst) -> Result<(Option<Vec<Matcher>>, Action, Vec<Pattern>, Vec<Pattern>), VariantsError> {
+    pub fn rule(&self, ast: &RuleAst) -> Result<Parts, VariantsError> {
         let left = ast.left.iter().map(|e| self.pattern(e)).collect::<Result<Vec<_>, _>>()?;
         let right = ast.right.iter().map(|e| self.pattern(e)).collect::<Result<Vec<_>, _>>()?;
         let target = match &ast.target {
@@ -303,7 +312,7 @@ impl Compiler<'_> {
             }
             (Some(t), Change::Features(sets)) => Action::Map(self.feature_map(t, sets)?),
         };
-        Ok((target, action, left, right))
+        Ok(Parts { target, action, left, right })
     }
 }
 

@@ -27,25 +27,8 @@ pub enum VariantsError {
         message: String,
     },
     /// A feature change leads to a feature bundle no phone of the phoneset has.
-    #[error("{file}:{line}:{column}: changing {from} by {change} gives {{{features}}}, which no phone in phoneset {phoneset} has; nearest by feature distance: {}; restrict the target or name the result phone", nearest.join(", "))]
-    NoPhoneWithFeatures {
-        /// File name.
-        file: String,
-        /// 1-based line.
-        line: usize,
-        /// 1-based character column of the change.
-        column: usize,
-        /// The phone the change was applied to.
-        from: String,
-        /// The change as written.
-        change: String,
-        /// The resulting bundle, `name=value` joined by commas.
-        features: String,
-        /// Phoneset id.
-        phoneset: String,
-        /// Nearest phone symbols, closest first.
-        nearest: Vec<String>,
-    },
+    #[error("{0}")]
+    NoPhoneWithFeatures(Box<NoPhoneWithFeatures>),
     /// A rule-set or profile id that is neither shipped nor a readable file.
     #[error("unknown {kind} `{id}`; shipped ones are: {}; or give a path to a .toml file", known.join(", "))]
     Unknown {
@@ -56,6 +39,37 @@ pub enum VariantsError {
         /// Shipped ids.
         known: Vec<String>,
     },
+}
+
+/// Details of [`VariantsError::NoPhoneWithFeatures`].
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct NoPhoneWithFeatures {
+    /// File name.
+    pub file: String,
+    /// 1-based line.
+    pub line: usize,
+    /// 1-based character column of the change.
+    pub column: usize,
+    /// The phone the change was applied to.
+    pub from: String,
+    /// The change as written.
+    pub change: String,
+    /// The resulting bundle, `name=value` joined by commas.
+    pub features: String,
+    /// Phoneset id.
+    pub phoneset: String,
+    /// Nearest phone symbols, closest first.
+    pub nearest: Vec<String>,
+}
+
+impl std::fmt::Display for NoPhoneWithFeatures {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(
+            f,
+            "{}:{}:{}: changing {} by [{}] gives {{{}}}, which no phone in phoneset {} has; nearest by feature distance: {}; restrict the target or name the result phone",
+            self.file, self.line, self.column, self.from, self.change, self.features, self.phoneset, self.nearest.join(", ")
+        )
+    }
 }
 
 impl VariantsError {

@@ -7,7 +7,7 @@ use std::collections::{HashMap, HashSet};
 
 use rayon::prelude::*;
 
-use crate::lexicon::normalize::normalize_key;
+use crate::lexicon::normalize_key;
 use crate::lexicon::{Lexicon, Status};
 use crate::phoneset::{PhoneToken, Phoneset, Pronunciation};
 

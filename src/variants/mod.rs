@@ -27,7 +27,7 @@ pub mod syntax;
 mod view;
 
 pub use compile::{Mode, Rule, CLASS_WORDS};
-pub use error::VariantsError;
+pub use error::{NoPhoneWithFeatures, VariantsError};
 pub use generate::{FiredRule, Generation, Generator, Options, Skipped, Variant, MIN_PROBABILITY_FLOOR};
 pub use profile::{Profile, ProfileUse};
 pub use ruleset::RuleSet;
@@ -37,5 +37,26 @@ use crate::phoneset::{Phone, PhoneId, Phoneset};
 
 /// The (name, value) features of a phone.
 fn phone_features(phone: &Phone) -> Vec<(String, String)> {
-    todo_features(phone)
+    phone.features.clone()
+}
+
+/// The phone with exactly these features, if the phoneset has one.
+fn find_phone_with(set: &Phoneset, features: &[(String, String)]) -> Option<PhoneId> {
+    set.find_by_features(&features.to_vec())
+}
+
+/// The `n` phones nearest to a feature bundle (share of mismatching features), closest first.
+fn nearest_phones(set: &Phoneset, features: &[(String, String)], n: usize) -> Vec<String> {
+    let mut scored: Vec<(usize, &str)> = set
+        .phones()
+        .iter()
+        .map(|p| {
+            let own = phone_features(p);
+            let missing = features.iter().filter(|f| !own.contains(f)).count();
+            let extra = own.iter().filter(|f| !features.contains(f)).count();
+            (missing + extra, p.symbol.as_str())
+        })
+        .collect();
+    scored.sort();
+    scored.into_iter().take(n).map(|(_, s)| s.to_string()).collect()
 }

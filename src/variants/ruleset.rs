@@ -152,7 +152,7 @@ impl RuleSet {
             let locate = |offset: usize| src.position_in_string(span.clone(), offset);
             let ast = parse_rule(entry.rule.get_ref()).map_err(|e| VariantsError::at(file, locate(e.column), e.message))?;
             let compiler = Compiler { set: phoneset, file, locate: &locate };
-            let (target, action, left, right) = compiler.rule(&ast)?;
+            let parts = compiler.rule(&ast)?;
             rules.push(Rule {
                 id: entry.id.get_ref().clone(),
                 mode,
@@ -160,10 +160,10 @@ impl RuleSet {
                 text: entry.rule.get_ref().clone(),
                 line: src.position(span.start).0,
                 source: entry.source.clone(),
-                target,
-                action,
-                left: left.into_iter().rev().collect(),
-                right,
+                target: parts.target,
+                action: parts.action,
+                left: parts.left.into_iter().rev().collect(),
+                right: parts.right,
             });
         }
         Ok(RuleSet { id: parsed.id, title: parsed.title, source: parsed.source, note: parsed.note, phoneset: phoneset.id().to_string(), rules })

@@ -4,7 +4,7 @@
 //! cost is `Phoneset::distance` (R. A. Wagner & M. J. Fischer, "The string-to-string correction
 //! problem", 1974). Owns the plain data and a plain-text rendering; must not draw to a terminal.
 
-use crate::phoneset::{Phone, PhoneClass, Phoneset, Pronunciation};
+use crate::phoneset::{Phone, PhoneClass, PhoneToken, Phoneset, Pronunciation};
 
 use super::compile::{stress_code, STRESS_NONE, STRESS_PRIMARY, STRESS_SECONDARY};
 
@@ -66,6 +66,10 @@ fn stress_name(code: u8) -> Option<String> {
         STRESS_SECONDARY => Some("secondary".into()),
         _ => Some("unstressed".into()),
     }
+}
+
+fn phone_at(p: &Pronunciation, i: Option<usize>) -> Option<&PhoneToken> {
+    i.and_then(|i| p.phones.get(i))
 }
 
 fn class_name(p: &Phone) -> String {
@@ -153,7 +157,6 @@ pub fn feature_view(set: &Phoneset, canonical: &Pronunciation, variant: &Pronunc
             Column { canonical: c, variant: v, edit }
         })
         .collect();
-    let phone_at = |p: &Pronunciation, i: Option<usize>| i.and_then(|i| p.phones.get(i));
     let mut names: Vec<String> = Vec::new();
     for &(i, j) in &path {
         for t in [phone_at(canonical, i), phone_at(variant, j)].into_iter().flatten() {
