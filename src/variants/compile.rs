@@ -150,24 +150,14 @@ impl Compiler<'_> {
         }
     }
 
-    fn known_values(&self, feature: &str) -> Vec<String> {
-        let mut values: Vec<String> =
-            self.set.phones().iter().filter_map(|p| p.feature(feature).map(str::to_string)).collect();
-        values.sort();
-        values.dedup();
-        values
-    }
-
     fn check_feature(&self, name: &str, values: &[String], span: Span) -> Result<(), VariantsError> {
-        let known = self.known_values(name);
-        if known.is_empty() {
-            let mut names: Vec<String> = self.set.phones().iter().flat_map(super::phone_features).map(|(n, _)| n).collect();
-            names.sort();
-            names.dedup();
+        let schema = self.set.schema();
+        let Some(def) = schema.feature(name) else {
+            let names: Vec<&str> = schema.features().iter().map(|f| f.name.as_str()).collect();
             return Err(self.err(span, format!("unknown feature `{name}`; features of {} are: {}", self.set.id(), names.join(", "))));
-        }
-        match values.iter().find(|v| !known.contains(v)) {
-            Some(bad) => Err(self.err(span, format!("`{bad}` is not a value of `{name}`; values are: {}", known.join(", ")))),
+        };
+        match values.iter().find(|v| !def.has_value(v)) {
+            Some(bad) => Err(self.err(span, format!("`{bad}` is not a value of `{name}`; values are: {}", def.values.join(", ")))),
             None => Ok(()),
         }
     }
@@ -326,7 +316,7 @@ fn class_test(word: &str) -> Option<fn(&Phoneset, PhoneId) -> bool> {
         "monophthong" => |s, id| matches!(s.phone(id).class, PhoneClass::Vowel),
         "diphthong" => |s, id| matches!(s.phone(id).class, PhoneClass::Diphthong),
         "nucleus" => |s, id| s.phone(id).is_nucleus(),
-        "syllabic" => |s, id| s.phone(id).syllabic,
+        "syllabic" => |s, id| s.phone(id).syllabic && matches!(s.phone(id).class, PhoneClass::Consonant),
         _ => return None,
     })
 }

@@ -33,30 +33,28 @@ pub use profile::{Profile, ProfileUse};
 pub use ruleset::RuleSet;
 pub use view::{feature_view, Column, Edit, FeatureRow, FeatureView};
 
-use crate::phoneset::{Phone, PhoneId, Phoneset};
+use crate::phoneset::{Features, Phone, PhoneId, Phoneset};
 
-/// The (name, value) features of a phone.
+/// The (name, value) features of a phone, defaults filled in; a syllabic phone also carries
+/// `syllabic=yes` so that feature changes keep it syllabic.
 fn phone_features(phone: &Phone) -> Vec<(String, String)> {
-    phone.features.clone()
+    let mut out: Vec<(String, String)> = phone.features.iter().map(|(n, v)| (n.to_string(), v.to_string())).collect();
+    if phone.syllabic && matches!(phone.class, crate::phoneset::PhoneClass::Consonant) {
+        out.push(("syllabic".into(), "yes".into()));
+    }
+    out
+}
+
+fn to_features(pairs: &[(String, String)]) -> Features {
+    pairs.iter().fold(Features::new(), |f, (n, v)| f.with(n, v))
 }
 
 /// The phone with exactly these features, if the phoneset has one.
 fn find_phone_with(set: &Phoneset, features: &[(String, String)]) -> Option<PhoneId> {
-    set.find_by_features(&features.to_vec())
+    set.find_by_features(&to_features(features))
 }
 
-/// The `n` phones nearest to a feature bundle (share of mismatching features), closest first.
+/// The `n` phones nearest to a feature bundle by feature distance, closest first.
 fn nearest_phones(set: &Phoneset, features: &[(String, String)], n: usize) -> Vec<String> {
-    let mut scored: Vec<(usize, &str)> = set
-        .phones()
-        .iter()
-        .map(|p| {
-            let own = phone_features(p);
-            let missing = features.iter().filter(|f| !own.contains(f)).count();
-            let extra = own.iter().filter(|f| !features.contains(f)).count();
-            (missing + extra, p.symbol.as_str())
-        })
-        .collect();
-    scored.sort();
-    scored.into_iter().take(n).map(|(_, s)| s.to_string()).collect()
+    set.nearest_by_features(&to_features(features), n).into_iter().map(|(id, _)| set.phone(id).symbol.clone()).collect()
 }
