@@ -1,12 +1,9 @@
-//! Small file helpers shared by the queue store and the journal: reading lines with a length
-//! cap (so a hostile file cannot make us allocate without bound) and replacing a file atomically
-//! (temporary file in the same folder, fsync, rename, fsync of the folder).
+//! Reading queue and journal files line by line with a length cap, so a hostile file cannot make
+//! us allocate without bound. Writing goes through [`crate::safe_io`].
 //!
 //! Owns no format; callers decide what a line means.
 
-use std::fs::{self, File, OpenOptions};
-use std::io::{self, BufRead, Read, Write};
-use std::path::Path;
+use std::io::{self, BufRead, Read};
 
 /// Longest line we accept in a queue or journal file (1 MiB).
 pub const MAX_LINE: usize = 1 << 20;
@@ -65,45 +62,6 @@ pub fn read_lines(reader: impl Read) -> Result<Vec<RawLine>, LineError> {
     }
 }
 
-/// Replace `path` with `bytes` so that a crash leaves either the old or the new file whole.
-pub fn atomic_write(path: &Path, bytes: &[u8]) -> io::Result<()> {
-    let dir = match path.parent() {
-        Some(d) if !d.as_os_str().is_empty() => d,
-        _ => Path::new("."),
-    };
-    let name = path.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default();
-    let tmp = dir.join(format!(".{name}.tmp{}", std::process::id()));
-    {
-        let mut file = File::create(&tmp)?;
-        file.write_all(bytes)?;
-        file.sync_all()?;
-    }
-    fs::rename(&tmp, path)?;
-    sync_dir(dir)
-}
-
-/// Flush a folder's entry table so a rename or a new file in it survives a crash.
-pub fn sync_dir(dir: &Path) -> io::Result<()> {
-    // Opening a directory for reading works on Unix; elsewhere it may fail and the rename is
-    // as durable as the platform makes it.
-    match File::open(dir) {
-        Ok(d) => d.sync_all().or(Ok(())),
-        Err(_) => Ok(()),
-    }
-}
-
-/// Open `path` for appending, creating it (and syncing its folder) if it is new.
-pub fn open_append(path: &Path) -> io::Result<File> {
-    let existed = path.exists();
-    let file = OpenOptions::new().create(true).append(true).open(path)?;
-    if !existed {
-        if let Some(dir) = path.parent() {
-            sync_dir(if dir.as_os_str().is_empty() { Path::new(".") } else { dir })?;
-        }
-    }
-    Ok(file)
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -121,15 +79,5 @@ mod tests {
     fn overlong_line_is_refused() {
         let long = vec![b'x'; MAX_LINE + 10];
         assert!(matches!(read_lines(&long[..]), Err(LineError::TooLong(1))));
-    }
-
-    #[test]
-    fn atomic_write_replaces() {
-        let dir = tempfile::tempdir().unwrap();
-        let p = dir.path().join("f.txt");
-        atomic_write(&p, b"one").unwrap();
-        atomic_write(&p, b"two").unwrap();
-        assert_eq!(fs::read_to_string(&p).unwrap(), "two");
-        assert_eq!(fs::read_dir(dir.path()).unwrap().count(), 1);
     }
 }

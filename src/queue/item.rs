@@ -110,6 +110,10 @@ pub struct Item {
     /// Pronunciations on offer, best first.
     #[serde(default)]
     pub candidates: Vec<Candidate>,
+    /// Where the item was queued from ("words:new-words.txt", "corpus:queries.txt",
+    /// "variants:PROFILE", "audit"); progress is counted per origin.
+    #[serde(default)]
+    pub origin: String,
 }
 
 impl Item {
@@ -127,6 +131,7 @@ impl Item {
             count: 0,
             context: String::new(),
             candidates: Vec::new(),
+            origin: String::new(),
         }
     }
 
@@ -161,6 +166,9 @@ impl Item {
         self.count = self.count.saturating_add(other.count);
         if self.context.is_empty() {
             self.context = other.context;
+        }
+        if self.origin.is_empty() {
+            self.origin = other.origin;
         }
         for cand in other.candidates {
             match self.candidates.iter_mut().find(|c| c.pronunciation == cand.pronunciation) {

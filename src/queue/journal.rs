@@ -8,14 +8,13 @@
 //! anywhere else is corruption and refuses to load. Records are never rewritten: undoing is a
 //! [`Record::Revoke`], and merging into the lexicon is marked by a [`Record::Applied`].
 
-use std::fs::File;
-use std::io::Write;
 use std::path::{Path, PathBuf};
 
 use serde::{Deserialize, Serialize};
 
 use super::error::QueueError;
-use super::fileio::{open_append, read_lines};
+use super::fileio::read_lines;
+use crate::safe_io::append_synced;
 
 /// What the reviewer decided about one item.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
@@ -115,7 +114,6 @@ impl std::fmt::Display for JournalWarning {
 #[derive(Debug)]
 pub struct Journal {
     path: PathBuf,
-    file: File,
     records: Vec<Logged>,
 }
 
@@ -215,8 +213,7 @@ impl Journal {
             f.set_len(good_end).map_err(|e| QueueError::io(path, e))?;
             f.sync_all().map_err(|e| QueueError::io(path, e))?;
         }
-        let file = open_append(path).map_err(|e| QueueError::io(path, e))?;
-        Ok((Journal { path: path.to_path_buf(), file, records }, warnings))
+        Ok((Journal { path: path.to_path_buf(), records }, warnings))
     }
 
     /// The records read or written so far, oldest first.
@@ -236,8 +233,7 @@ impl Journal {
         let line = Line { seq, record, crc };
         let mut text = serde_json::to_string(&line).map_err(|e| QueueError::io(&self.path, e.into()))?;
         text.push('\n');
-        self.file.write_all(text.as_bytes()).map_err(|e| QueueError::io(&self.path, e))?;
-        self.file.sync_data().map_err(|e| QueueError::io(&self.path, e))?;
+        append_synced(&self.path, text.as_bytes()).map_err(|e| QueueError::io(&self.path, e))?;
         self.records.push(Logged { seq, record: line.record });
         Ok(seq)
     }

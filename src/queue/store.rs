@@ -10,7 +10,8 @@ use std::path::{Path, PathBuf};
 use serde::{Deserialize, Serialize};
 
 use super::error::QueueError;
-use super::fileio::{atomic_write, read_lines};
+use super::fileio::read_lines;
+use crate::safe_io::atomic_write;
 use super::item::Item;
 
 /// Format version written in the header line.
@@ -154,7 +155,7 @@ impl Queue {
             text.push_str(&serde_json::to_string(item).map_err(|e| QueueError::io(path, e.into()))?);
             text.push('\n');
         }
-        atomic_write(path, text.as_bytes()).map_err(|e| QueueError::io(path, e))
+        atomic_write(path, text.as_bytes(), false).map_err(|e| QueueError::io(path, e))
     }
 }
 
