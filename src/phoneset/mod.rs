@@ -74,6 +74,7 @@
 mod build;
 mod distance;
 mod error;
+mod mapping;
 mod phone;
 mod phonotactics;
 mod pronunciation;
@@ -87,6 +88,7 @@ use std::io::Read;
 use std::path::Path;
 
 pub use error::{CheckProblem, Located, PhonesetError};
+pub use mapping::{map_pronunciation, MappingError};
 pub use phone::{Features, Phone, PhoneClass};
 pub use phonotactics::{PhonotacticConstraint, PhonotacticViolation};
 pub use pronunciation::{PhoneToken, Pronunciation, PronunciationError, TokenProblem, TokenProblemKind};
@@ -102,10 +104,14 @@ pub type PhoneId = u16;
 pub const MAX_FILE_BYTES: u64 = 4 * 1024 * 1024;
 
 /// The shipped phonesets: (id, TOML text).
-const SHIPPED: &[(&str, &str)] = &[("en-arpa", include_str!("../../phonesets/en-arpa.toml"))];
+const SHIPPED: &[(&str, &str)] = &[
+    ("en-arpa", include_str!("../../phonesets/en-arpa.toml")),
+    ("ipa-broad", include_str!("../../phonesets/ipa-broad.toml")),
+    ("es-ipa", include_str!("../../phonesets/es-ipa.toml")),
+];
 
 /// The ids of the shipped phonesets.
-const SHIPPED_IDS: &[&str] = &["en-arpa"];
+const SHIPPED_IDS: &[&str] = &["en-arpa", "ipa-broad", "es-ipa"];
 
 /// A checked phoneset: phones with features, stress marks, constraints, and lookup tables.
 #[derive(Debug, Clone)]
@@ -290,3 +296,6 @@ impl Phoneset {
         self.stress.mark_for(level)
     }
 }
+
+#[cfg(test)]
+mod tests;
