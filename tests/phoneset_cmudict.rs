@@ -15,17 +15,31 @@ fn phone_classes_match_cmudict_phones() {
     let mut listed = Vec::new();
     for line in PHONES.lines().filter(|l| !l.trim().is_empty()) {
         let (phone, class) = line.split_once('\t').expect("phone<TAB>class");
-        let id = set.lookup(phone).unwrap_or_else(|| panic!("{phone} missing from en-arpa"));
+        let id = set
+            .lookup(phone)
+            .unwrap_or_else(|| panic!("{phone} missing from en-arpa"));
         let ours = set.phone(id).class;
         // cmudict.phones: "vowel" for vowels (ER included); stop, fricative, ... for consonants.
         let is_vowel = class == "vowel";
-        assert_eq!(matches!(ours, PhoneClass::Vowel | PhoneClass::Diphthong), is_vowel, "{phone} is a {class} in CMUdict");
+        assert_eq!(
+            matches!(ours, PhoneClass::Vowel | PhoneClass::Diphthong),
+            is_vowel,
+            "{phone} is a {class} in CMUdict"
+        );
         assert_eq!(set.phone(id).is_nucleus(), is_vowel, "{phone}");
-        assert!(!set.phone(id).is_allophone(), "{phone} is a CMUdict phoneme");
+        assert!(
+            !set.phone(id).is_allophone(),
+            "{phone} is a CMUdict phoneme"
+        );
         listed.push(phone);
     }
     // The phonemes of en-arpa are exactly CMUdict's 39; the rest are marked allophones.
-    let ours: Vec<&str> = set.phones().iter().filter(|p| !p.is_allophone()).map(|p| p.symbol.as_str()).collect();
+    let ours: Vec<&str> = set
+        .phones()
+        .iter()
+        .filter(|p| !p.is_allophone())
+        .map(|p| p.symbol.as_str())
+        .collect();
     listed.sort_unstable();
     let mut sorted = ours.clone();
     sorted.sort_unstable();
@@ -52,7 +66,9 @@ fn every_cmudict_pronunciation_parses_strictly() {
     for (n, line) in DICT.lines().enumerate() {
         // cmudict.dict format: `word PH PH ...`, an optional `# comment` at the end.
         let body = line.split('#').next().unwrap_or("").trim();
-        let Some((_, pron)) = body.split_once(' ') else { continue };
+        let Some((_, pron)) = body.split_once(' ') else {
+            continue;
+        };
         if let Err(e) = set.parse(pron) {
             panic!("cmudict.dict line {}: {e}", n + 1);
         }

@@ -27,8 +27,14 @@ fn nfc(s: &str) -> String {
 /// Phones panphon's segment table does not list, with the reason.
 const NOT_IN_PANPHON: &[(&str, &str)] = &[
     ("ⱱ", "labiodental flap: not in panphon 0.22.2 ipa_bases.csv"),
-    ("ɚ", "rhotic vowel: panphon builds it from ə and a diacritic, no base row"),
-    ("ɝ", "rhotic vowel: panphon builds it from ɜ and a diacritic, no base row"),
+    (
+        "ɚ",
+        "rhotic vowel: panphon builds it from ə and a diacritic, no base row",
+    ),
+    (
+        "ɝ",
+        "rhotic vowel: panphon builds it from ɜ and a diacritic, no base row",
+    ),
 ];
 
 /// Single feature values where panphon 0.22.2 contradicts itself, skipped for that segment:
@@ -46,7 +52,11 @@ fn panphon_rows() -> HashMap<String, Vec<HashMap<String, String>>> {
     let mut rows: HashMap<String, Vec<HashMap<String, String>>> = HashMap::new();
     for line in lines.filter(|l| !l.trim().is_empty()) {
         let cells: Vec<&str> = line.split(',').collect();
-        let row = header.iter().zip(&cells).map(|(h, c)| (h.to_string(), c.to_string())).collect();
+        let row = header
+            .iter()
+            .zip(&cells)
+            .map(|(h, c)| (h.to_string(), c.to_string()))
+            .collect();
         rows.entry(nfc(cells[0])).or_default().push(row);
     }
     rows
@@ -68,7 +78,13 @@ fn panphon_rows() -> HashMap<String, Vec<HashMap<String, String>>> {
 ///   because panphon codes central vowels both ways (ə ɨ ɜ ɐ +back, ʉ −back);
 /// - rounding → round.
 fn expectations(p: &Phone) -> Vec<(&'static str, &'static [&'static str])> {
-    let pm = |b: bool| -> &'static [&'static str] { if b { &["+"] } else { &["-"] } };
+    let pm = |b: bool| -> &'static [&'static str] {
+        if b {
+            &["+"]
+        } else {
+            &["-"]
+        }
+    };
     let f = |name: &str| p.feature(name).unwrap_or("");
     let mut out = vec![("syl", pm(p.syllabic))];
     match p.class {
@@ -86,22 +102,45 @@ fn expectations(p: &Phone) -> Vec<(&'static str, &'static [&'static str])> {
             match place {
                 "bilabial" | "labiodental" => out.push(("cor", &["-"])),
                 "dental" => out.extend([("cor", pm(true)), ("ant", pm(true)), ("distr", pm(true))]),
-                "alveolar" => out.extend([("cor", pm(true)), ("ant", pm(true)), ("distr", pm(false))]),
-                "postalveolar" => out.extend([("cor", pm(true)), ("ant", pm(false)), ("distr", pm(true))]),
-                "retroflex" => out.extend([("cor", pm(true)), ("ant", pm(false)), ("distr", &["-", "0"])]),
+                "alveolar" => {
+                    out.extend([("cor", pm(true)), ("ant", pm(true)), ("distr", pm(false))])
+                }
+                "postalveolar" => {
+                    out.extend([("cor", pm(true)), ("ant", pm(false)), ("distr", pm(true))])
+                }
+                "retroflex" => out.extend([
+                    ("cor", pm(true)),
+                    ("ant", pm(false)),
+                    ("distr", &["-", "0"]),
+                ]),
                 "palatal" => out.extend([("hi", pm(true)), ("back", pm(false))]),
                 "velar" => out.extend([("hi", pm(true)), ("back", &["+", "0"])]),
                 "uvular" => out.extend([("hi", pm(false)), ("lo", pm(false)), ("back", pm(true))]),
                 "pharyngeal" => out.push(("lo", pm(true))),
-                "glottal" => out.extend([("cor", pm(false)), ("hi", pm(false)), ("lo", pm(false)), ("back", pm(false))]),
-                other => panic!("place {other} of {} has no panphon correspondence", p.symbol),
+                "glottal" => out.extend([
+                    ("cor", pm(false)),
+                    ("hi", pm(false)),
+                    ("lo", pm(false)),
+                    ("back", pm(false)),
+                ]),
+                other => panic!(
+                    "place {other} of {} has no panphon correspondence",
+                    p.symbol
+                ),
             }
         }
         PhoneClass::Vowel => {
-            out.extend([("voi", pm(true)), ("nas", pm(false)), ("lat", pm(false)), ("cont", pm(true))]);
+            out.extend([
+                ("voi", pm(true)),
+                ("nas", pm(false)),
+                ("lat", pm(false)),
+                ("cont", pm(true)),
+            ]);
             match f("height") {
                 "close" | "near-close" => out.extend([("hi", pm(true)), ("lo", pm(false))]),
-                "close-mid" | "mid" | "open-mid" => out.extend([("hi", pm(false)), ("lo", pm(false))]),
+                "close-mid" | "mid" | "open-mid" => {
+                    out.extend([("hi", pm(false)), ("lo", pm(false))])
+                }
                 "near-open" => out.push(("hi", pm(false))),
                 "open" => out.extend([("hi", pm(false)), ("lo", pm(true))]),
                 other => panic!("height {other} of {}", p.symbol),
@@ -128,7 +167,11 @@ fn ipa_broad_features_agree_with_panphon() {
         // Syllabic consonants: panphon lists the base; syllabicity is checked on our side.
         let base = p.ipa.trim_end_matches(SYLLABIC);
         let Some(candidates) = rows.get(base) else {
-            assert!(NOT_IN_PANPHON.iter().any(|(s, _)| *s == p.ipa), "{} is not in panphon and not exempted", p.ipa);
+            assert!(
+                NOT_IN_PANPHON.iter().any(|(s, _)| *s == p.ipa),
+                "{} is not in panphon and not exempted",
+                p.ipa
+            );
             continue;
         };
         let mut expected = expectations(p);
@@ -136,9 +179,17 @@ fn ipa_broad_features_agree_with_panphon() {
             assert!(p.syllabic, "{} has the syllabic mark", p.ipa);
             expected.retain(|(f, _)| *f != "syl");
         }
-        expected.retain(|(f, _)| !PANPHON_SLIPS.iter().any(|(seg, feat, _)| *seg == base && feat == f));
+        expected.retain(|(f, _)| {
+            !PANPHON_SLIPS
+                .iter()
+                .any(|(seg, feat, _)| *seg == base && feat == f)
+        });
         // panphon 0.22.2 lists ɘ ɵ ɞ twice with different values; one agreeing row suffices.
-        let agrees = |row: &HashMap<String, String>| expected.iter().all(|(f, ok)| ok.contains(&row[*f].as_str()));
+        let agrees = |row: &HashMap<String, String>| {
+            expected
+                .iter()
+                .all(|(f, ok)| ok.contains(&row[*f].as_str()))
+        };
         if !candidates.iter().any(agrees) {
             let row = &candidates[0];
             let wrong: Vec<String> = expected
@@ -150,14 +201,21 @@ fn ipa_broad_features_agree_with_panphon() {
         }
         checked += 1;
     }
-    assert!(disagreements.is_empty(), "disagreements with panphon:\n{}", disagreements.join("\n"));
+    assert!(
+        disagreements.is_empty(),
+        "disagreements with panphon:\n{}",
+        disagreements.join("\n")
+    );
     // The pulmonic chart has 59 consonant symbols and 28 vowels; nearly all are in panphon.
     assert!(checked >= 95, "only {checked} phones compared");
 }
 
 /// panphon's IPA → X-SAMPA table (first two columns).
 fn xsampa_table() -> HashMap<String, String> {
-    let mut reader = csv::ReaderBuilder::new().has_headers(true).flexible(true).from_reader(XSAMPA.as_bytes());
+    let mut reader = csv::ReaderBuilder::new()
+        .has_headers(true)
+        .flexible(true)
+        .from_reader(XSAMPA.as_bytes());
     let mut table = HashMap::new();
     for record in reader.records() {
         let record = record.expect("readable csv row");
@@ -205,15 +263,26 @@ fn xsampa_agrees_with_panphon_table() {
                 Some(xs) => {
                     checked += 1;
                     if xs != p.xsampa {
-                        wrong.push(format!("{sid} {} ({}): ours {} vs panphon {xs}", p.symbol, p.ipa, p.xsampa));
+                        wrong.push(format!(
+                            "{sid} {} ({}): ours {} vs panphon {xs}",
+                            p.symbol, p.ipa, p.xsampa
+                        ));
                     }
                 }
                 // ⱱ: X-SAMPA (Wells 1995) has no symbol; the file documents its own choice.
-                None => assert_eq!(p.ipa, "ⱱ", "{sid} {}: IPA {} not in panphon's table", p.symbol, p.ipa),
+                None => assert_eq!(
+                    p.ipa, "ⱱ",
+                    "{sid} {}: IPA {} not in panphon's table",
+                    p.symbol, p.ipa
+                ),
             }
         }
     }
-    assert!(wrong.is_empty(), "X-SAMPA disagreements:\n{}", wrong.join("\n"));
+    assert!(
+        wrong.is_empty(),
+        "X-SAMPA disagreements:\n{}",
+        wrong.join("\n")
+    );
     assert!(checked > 150, "{checked}");
 }
 

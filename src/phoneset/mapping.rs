@@ -68,21 +68,38 @@ struct Pivot {
 /// let back = map_pronunciation(&ipa, &arpa, &mapped).unwrap();
 /// assert_eq!(back.render(&arpa), "HH AH L OW1"); // unstressed has no IPA mark
 /// ```
-pub fn map_pronunciation(from: &Phoneset, to: &Phoneset, pron: &Pronunciation) -> Result<Pronunciation, MappingError> {
+pub fn map_pronunciation(
+    from: &Phoneset,
+    to: &Phoneset,
+    pron: &Pronunciation,
+) -> Result<Pronunciation, MappingError> {
     let mut pivot = Vec::new();
     for (index, token) in pron.phones.iter().enumerate() {
-        let phone = from.get(token.phone).ok_or_else(|| MappingError::BadId { from: from.id.clone(), index, id: token.phone })?;
+        let phone = from.get(token.phone).ok_or_else(|| MappingError::BadId {
+            from: from.id.clone(),
+            index,
+            id: token.phone,
+        })?;
         pivot.extend(phone.ipa.chars().map(|ch| Pivot { ch, source: index }));
     }
     let mut out: Vec<(PhoneToken, usize)> = Vec::new(); // produced token, first source index
     let mut at = 0;
     while at < pivot.len() {
-        let (id, len) = longest_match(to, &pivot, at).ok_or_else(|| unmappable(from, to, pron, pivot.get(at).map_or(0, |p| p.source)))?;
-        out.push((PhoneToken { phone: id, stress: None }, pivot.get(at).map_or(0, |p| p.source)));
+        let (id, len) = longest_match(to, &pivot, at)
+            .ok_or_else(|| unmappable(from, to, pron, pivot.get(at).map_or(0, |p| p.source)))?;
+        out.push((
+            PhoneToken {
+                phone: id,
+                stress: None,
+            },
+            pivot.get(at).map_or(0, |p| p.source),
+        ));
         at += len;
     }
     for (index, token) in pron.phones.iter().enumerate() {
-        let Some(level) = token.stress.and_then(|l| target_level(to, l)) else { continue };
+        let Some(level) = token.stress.and_then(|l| target_level(to, l)) else {
+            continue;
+        };
         let first_nucleus = out
             .iter_mut()
             .filter(|(_, src)| *src == index)
@@ -91,7 +108,9 @@ pub fn map_pronunciation(from: &Phoneset, to: &Phoneset, pron: &Pronunciation) -
             t.stress = Some(level);
         }
     }
-    Ok(Pronunciation { phones: out.into_iter().map(|(t, _)| t).collect() })
+    Ok(Pronunciation {
+        phones: out.into_iter().map(|(t, _)| t).collect(),
+    })
 }
 
 /// The longest target phone whose IPA spells `pivot[at..]`'s prefix without ending inside a
@@ -118,7 +137,8 @@ fn target_level(to: &Phoneset, level: StressLevel) -> Option<StressLevel> {
     if to.mark_for(level).is_some() {
         return Some(level);
     }
-    (level == StressLevel::Secondary && to.mark_for(StressLevel::Unstressed).is_some()).then_some(StressLevel::Unstressed)
+    (level == StressLevel::Secondary && to.mark_for(StressLevel::Unstressed).is_some())
+        .then_some(StressLevel::Unstressed)
 }
 
 fn unmappable(from: &Phoneset, to: &Phoneset, pron: &Pronunciation, index: usize) -> MappingError {
@@ -128,10 +148,19 @@ fn unmappable(from: &Phoneset, to: &Phoneset, pron: &Pronunciation, index: usize
             let mut scored: Vec<(f32, &str)> = to
                 .phones
                 .iter()
-                .map(|q| (super::distance::phone_distance(&to.schema, p, q), q.symbol.as_str()))
+                .map(|q| {
+                    (
+                        super::distance::phone_distance(&to.schema, p, q),
+                        q.symbol.as_str(),
+                    )
+                })
                 .collect();
             scored.sort_by(|a, b| a.0.total_cmp(&b.0));
-            scored.into_iter().take(3).map(|(_, s)| s.to_string()).collect()
+            scored
+                .into_iter()
+                .take(3)
+                .map(|(_, s)| s.to_string())
+                .collect()
         }
         _ => Vec::new(),
     };

@@ -8,7 +8,8 @@ fn arpa() -> Phoneset {
 }
 
 fn id(set: &Phoneset, s: &str) -> PhoneId {
-    set.lookup(s).unwrap_or_else(|| panic!("{s} in {}", set.id()))
+    set.lookup(s)
+        .unwrap_or_else(|| panic!("{s} in {}", set.id()))
 }
 
 fn token_error(set: &Phoneset, text: &str) -> TokenProblem {
@@ -55,14 +56,22 @@ fn shipped_sets_load() {
         let set = Phoneset::shipped(sid).unwrap_or_else(|e| panic!("{e}"));
         assert_eq!(set.id(), *sid);
     }
-    assert!(matches!(Phoneset::shipped("xx"), Err(PhonesetError::UnknownShipped { .. })));
+    assert!(matches!(
+        Phoneset::shipped("xx"),
+        Err(PhonesetError::UnknownShipped { .. })
+    ));
 }
 
 #[test]
 fn en_arpa_has_the_39_phonemes_and_marked_allophones() {
     // The 39 phones of CMUdict (cmudict.phones, common practice for US ARPAbet lexicons).
     let set = arpa();
-    let phonemes: Vec<&str> = set.phones().iter().filter(|p| !p.is_allophone()).map(|p| p.symbol.as_str()).collect();
+    let phonemes: Vec<&str> = set
+        .phones()
+        .iter()
+        .filter(|p| !p.is_allophone())
+        .map(|p| p.symbol.as_str())
+        .collect();
     assert_eq!(phonemes.len(), 39);
     for a in ["DX", "Q", "EL", "EM", "EN", "RT", "RD", "AX"] {
         assert!(set.phone(id(&set, a)).is_allophone(), "{a}");
@@ -94,7 +103,11 @@ fn unknown_symbol_names_index_column_and_suggestions() {
     assert_eq!(token_error(&set, "K aa1 T").suggestions[0], "AA1");
     // A stressed unknown token gets vowel suggestions first.
     let e = token_error(&set, "K AXE1");
-    assert!(e.suggestions.iter().all(|s| s.ends_with('1')), "{:?}", e.suggestions);
+    assert!(
+        e.suggestions.iter().all(|s| s.ends_with('1')),
+        "{:?}",
+        e.suggestions
+    );
 }
 
 #[test]
@@ -109,7 +122,10 @@ fn columns_count_characters_not_bytes() {
 fn stress_problems_are_specific() {
     let set = arpa();
     let e = token_error(&set, "T1 AA1");
-    assert_eq!(e.kind, TokenProblemKind::StressOnNonNucleus { mark: "1".into() });
+    assert_eq!(
+        e.kind,
+        TokenProblemKind::StressOnNonNucleus { mark: "1".into() }
+    );
     assert_eq!(e.suggestions, ["T"]);
     let e = token_error(&set, "T AA3");
     assert!(matches!(&e.kind, TokenProblemKind::UndeclaredMark { mark, .. } if mark == "3"));
@@ -117,10 +133,16 @@ fn stress_problems_are_specific() {
     let e = token_error(&set, "T AA");
     assert_eq!(e.kind, TokenProblemKind::MissingStress);
     // An undeclared mark on a consonant is a stress-on-consonant problem.
-    assert!(matches!(token_error(&set, "T7 AA1").kind, TokenProblemKind::StressOnNonNucleus { .. }));
+    assert!(matches!(
+        token_error(&set, "T7 AA1").kind,
+        TokenProblemKind::StressOnNonNucleus { .. }
+    ));
     // Spanish declares no secondary stress.
     let es = Phoneset::shipped("es-ipa").unwrap();
-    assert!(matches!(token_error(&es, "k a2 s a0").kind, TokenProblemKind::UndeclaredMark { .. }));
+    assert!(matches!(
+        token_error(&es, "k a2 s a0").kind,
+        TokenProblemKind::UndeclaredMark { .. }
+    ));
     assert_eq!(set.parse("  "), Err(PronunciationError::Empty));
 }
 
@@ -149,7 +171,11 @@ fn suggestions_use_ipa_xsampa_and_features() {
     let x = set.suggest("x", 3);
     assert_eq!(x.len(), 3);
     for s in &x {
-        assert_eq!(set.phone(id(&set, s)).feature("manner"), Some("fricative"), "{x:?}");
+        assert_eq!(
+            set.phone(id(&set, s)).feature("manner"),
+            Some("fricative"),
+            "{x:?}"
+        );
     }
     assert!(set.suggest("QQQQQQ", 3).len() <= 1);
 }
@@ -168,7 +194,9 @@ fn distance_is_a_bounded_symmetric_premetric() {
                 if a != b {
                     // Distinct phones differ unless they share a bundle as allophones.
                     let (pa, pb) = (set.phone(a), set.phone(b));
-                    let same = pa.features == pb.features && pa.targets == pb.targets && pa.syllabic == pb.syllabic;
+                    let same = pa.features == pb.features
+                        && pa.targets == pb.targets
+                        && pa.syllabic == pb.syllabic;
                     assert_eq!(d == 0.0, same, "{} {}", pa.symbol, pb.symbol);
                 }
             }
@@ -200,13 +228,26 @@ fn feature_lookups() {
     let set = arpa();
     let t = set.phone(id(&set, "T")).features.clone();
     assert_eq!(set.find_by_features(&t), Some(id(&set, "T")));
-    assert_eq!(set.find_by_features(&t.clone().with("voicing", "voiced")), Some(id(&set, "D")));
-    assert_eq!(set.find_by_features(&t.clone().with("place", "uvular")), None);
+    assert_eq!(
+        set.find_by_features(&t.clone().with("voicing", "voiced")),
+        Some(id(&set, "D"))
+    );
+    assert_eq!(
+        set.find_by_features(&t.clone().with("place", "uvular")),
+        None
+    );
     // Defaulted features may be left out of a query.
-    let partial = Features::new().with("place", "velar").with("manner", "stop").with("voicing", "voiced").with("nasal", "nasal");
+    let partial = Features::new()
+        .with("place", "velar")
+        .with("manner", "stop")
+        .with("voicing", "voiced")
+        .with("nasal", "nasal");
     assert_eq!(set.find_by_features(&partial), Some(id(&set, "NG")));
     let n = set.phone(id(&set, "N")).features.clone();
-    assert_eq!(set.find_by_features(&n.clone().with("syllabic", "yes")), Some(id(&set, "EN")));
+    assert_eq!(
+        set.find_by_features(&n.clone().with("syllabic", "yes")),
+        Some(id(&set, "EN"))
+    );
     assert_eq!(set.find_by_features(&n.with("class", "vowel")), None);
     assert_eq!(set.find_by_features(&Features::new()), None);
     let near = set.nearest_by_features(&set.phone(id(&set, "IY")).features.clone(), 2);
@@ -218,13 +259,23 @@ fn feature_lookups() {
 fn phonotactic_violations() {
     let set = arpa();
     let v = set.phonotactic_violations(&set.parse("NG AA1 HH").unwrap());
-    let got: Vec<(&str, usize)> = v.iter().map(|v| (v.constraint_id.as_str(), v.position)).collect();
-    assert_eq!(got, [("en-no-initial-velar-nasal", 0), ("en-no-final-h", 2)]);
-    assert!(set.phonotactic_violations(&set.parse("HH AE1 NG").unwrap()).is_empty());
+    let got: Vec<(&str, usize)> = v
+        .iter()
+        .map(|v| (v.constraint_id.as_str(), v.position))
+        .collect();
+    assert_eq!(
+        got,
+        [("en-no-initial-velar-nasal", 0), ("en-no-final-h", 2)]
+    );
+    assert!(set
+        .phonotactic_violations(&set.parse("HH AE1 NG").unwrap())
+        .is_empty());
     let es = Phoneset::shipped("es-ipa").unwrap();
     let v = es.phonotactic_violations(&es.parse("s k u0 e1 l a0").unwrap());
     assert_eq!(v[0].constraint_id, "es-no-initial-s-cluster");
-    assert!(es.phonotactic_violations(&es.parse("e0 s k u e1 l a0").unwrap_or_default()).is_empty());
+    assert!(es
+        .phonotactic_violations(&es.parse("e0 s k u e1 l a0").unwrap_or_default())
+        .is_empty());
     for c in set.constraints() {
         assert!(!c.source.is_empty() && !c.message.is_empty());
     }
@@ -235,7 +286,12 @@ fn mapping_round_trips_every_en_arpa_phone_through_ipa() {
     let arpa = arpa();
     let ipa = Phoneset::shipped("ipa-broad").unwrap();
     for (i, p) in arpa.phones().iter().enumerate() {
-        let one = Pronunciation { phones: vec![PhoneToken { phone: i as PhoneId, stress: None }] };
+        let one = Pronunciation {
+            phones: vec![PhoneToken {
+                phone: i as PhoneId,
+                stress: None,
+            }],
+        };
         let there = map_pronunciation(&arpa, &ipa, &one).unwrap_or_else(|e| panic!("{e}"));
         let mapped: Vec<&Phone> = there.phones.iter().map(|t| ipa.phone(t.phone)).collect();
         // The mapped phones describe the same sounds: same features (targets for diphthongs).
@@ -263,9 +319,15 @@ fn mapping_carries_stress_and_reports_gaps() {
     // Secondary stress falls back to unstressed in Spanish, which declares no secondary.
     let p = arpa.parse("S IY2 M AH0").unwrap();
     let err = map_pronunciation(&arpa, &es, &p).unwrap_err();
-    assert!(matches!(&err, MappingError::Unmappable { index: 3, symbol, nearest, .. } if symbol == "AH" && !nearest.is_empty()), "{err}");
+    assert!(
+        matches!(&err, MappingError::Unmappable { index: 3, symbol, nearest, .. } if symbol == "AH" && !nearest.is_empty()),
+        "{err}"
+    );
     let p = arpa.parse("S IY2 M IY0").unwrap();
-    assert_eq!(map_pronunciation(&arpa, &es, &p).unwrap().render(&es), "s i0 m i0");
+    assert_eq!(
+        map_pronunciation(&arpa, &es, &p).unwrap().render(&es),
+        "s i0 m i0"
+    );
 }
 
 #[test]
@@ -278,65 +340,122 @@ fn self_check_accepts_the_minimal_file() {
 fn self_check_rejects_duplicate_symbols_with_lines() {
     let text = format!("{TINY}\n[[phone]]\nsymbol = \"p\"\nipa = \"b\"\nxsampa = \"b\"\nclass = \"consonant\"\nfeatures = {{ place = \"bilabial\", manner = \"stop\", voicing = \"voiced\" }}\n");
     let p = problems(&text);
-    assert_eq!(p[0].problem, CheckProblem::DuplicateSymbol { symbol: "p".into(), first_line: 10 });
+    assert_eq!(
+        p[0].problem,
+        CheckProblem::DuplicateSymbol {
+            symbol: "p".into(),
+            first_line: 10
+        }
+    );
     assert_eq!((p[0].line, p[0].column), (24, 10));
 }
 
 #[test]
 fn self_check_rejects_bad_features() {
-    let unknown = TINY.replace("voicing = \"voiceless\"", "voicing = \"voiceless\", aspiration = \"yes\"");
-    assert!(matches!(&problems(&unknown)[0].problem, CheckProblem::UnknownFeature { feature, .. } if feature == "aspiration"));
+    let unknown = TINY.replace(
+        "voicing = \"voiceless\"",
+        "voicing = \"voiceless\", aspiration = \"yes\"",
+    );
+    assert!(
+        matches!(&problems(&unknown)[0].problem, CheckProblem::UnknownFeature { feature, .. } if feature == "aspiration")
+    );
     let value = TINY.replace("place = \"bilabial\"", "place = \"labial\"");
     let p = problems(&value);
     assert!(matches!(&p[0].problem, CheckProblem::UnknownValue { value, .. } if value == "labial"));
     assert_eq!((p[0].line, p[0].column), (14, 22));
     let missing = TINY.replace(", voicing = \"voiceless\"", "");
-    assert!(matches!(&problems(&missing)[0].problem, CheckProblem::MissingFeature { feature, .. } if feature == "voicing"));
-    let wrong_class = TINY.replace("rounding = \"unrounded\"", "rounding = \"unrounded\", place = \"velar\"");
-    assert!(matches!(&problems(&wrong_class)[0].problem, CheckProblem::FeatureNotForClass { .. }));
+    assert!(
+        matches!(&problems(&missing)[0].problem, CheckProblem::MissingFeature { feature, .. } if feature == "voicing")
+    );
+    let wrong_class = TINY.replace(
+        "rounding = \"unrounded\"",
+        "rounding = \"unrounded\", place = \"velar\"",
+    );
+    assert!(matches!(
+        &problems(&wrong_class)[0].problem,
+        CheckProblem::FeatureNotForClass { .. }
+    ));
 }
 
 #[test]
 fn self_check_rejects_same_bundle_unless_allophone() {
     let twin = "\n[[phone]]\nsymbol = \"P\"\nipa = \"p\"\nxsampa = \"p\"\nclass = \"consonant\"\nfeatures = { place = \"bilabial\", manner = \"stop\", voicing = \"voiceless\" }\n";
     let p = problems(&format!("{TINY}{twin}"));
-    assert!(matches!(&p[0].problem, CheckProblem::SameBundle { symbol, other, .. } if symbol == "P" && other == "p"));
+    assert!(
+        matches!(&p[0].problem, CheckProblem::SameBundle { symbol, other, .. } if symbol == "P" && other == "p")
+    );
     let ok = format!("{TINY}{twin}allophone_of = [\"p\"]\n");
     assert!(Phoneset::from_toml_str(&ok, "t").is_ok());
     let bad_base = format!("{TINY}{twin}allophone_of = [\"pp\"]\n");
-    assert!(problems(&bad_base).iter().any(|l| matches!(l.problem, CheckProblem::BadAllophoneBase { .. })));
+    assert!(problems(&bad_base)
+        .iter()
+        .any(|l| matches!(l.problem, CheckProblem::BadAllophoneBase { .. })));
 }
 
 #[test]
 fn self_check_rejects_missing_transcriptions() {
     let p = problems(&TINY.replace("xsampa = \"p\"\n", ""));
-    assert_eq!(p[0].problem, CheckProblem::MissingField { phone: "p".into(), field: "xsampa" });
+    assert_eq!(
+        p[0].problem,
+        CheckProblem::MissingField {
+            phone: "p".into(),
+            field: "xsampa"
+        }
+    );
     let p = problems(&TINY.replace("ipa = \"a\"", "ipa = \" \""));
-    assert_eq!(p[0].problem, CheckProblem::MissingField { phone: "a".into(), field: "ipa" });
+    assert_eq!(
+        p[0].problem,
+        CheckProblem::MissingField {
+            phone: "a".into(),
+            field: "ipa"
+        }
+    );
 }
 
 #[test]
 fn self_check_rejects_bad_stress_marks() {
-    let is_mark = |text: &str| problems(text).iter().any(|l| matches!(l.problem, CheckProblem::BadStressMark { .. }));
+    let is_mark = |text: &str| {
+        problems(text)
+            .iter()
+            .any(|l| matches!(l.problem, CheckProblem::BadStressMark { .. }))
+    };
     assert!(is_mark(&TINY.replace("mark = \"0\"", "mark = \"p\"")));
     assert!(is_mark(&TINY.replace("mark = \"0\"", "mark = \"1\"")));
     assert!(is_mark(&TINY.replace("mark = \"0\"", "mark = \"\"")));
-    assert!(is_mark(&TINY.replace("level = \"unstressed\"", "level = \"tertiary\"")));
+    assert!(is_mark(
+        &TINY.replace("level = \"unstressed\"", "level = \"tertiary\"")
+    ));
     // `a1` would read both as a + mark 1 and as a symbol of its own.
     let ambiguous = TINY.replace("symbol = \"p\"", "symbol = \"a1\"");
     assert!(is_mark(&ambiguous));
-    assert!(is_mark(&TINY.replace("marks = [{ mark = \"1\", level = \"primary\" }, { mark = \"0\", level = \"unstressed\" }]", "marks = []")));
+    assert!(is_mark(&TINY.replace(
+        "marks = [{ mark = \"1\", level = \"primary\" }, { mark = \"0\", level = \"unstressed\" }]",
+        "marks = []"
+    )));
 }
 
 #[test]
 fn self_check_rejects_bad_schema_and_constraints() {
     let p = problems(&TINY.replace("schema = \"ipa-chart\"", "schema = \"nope\""));
     assert!(matches!(p[0].problem, CheckProblem::UnknownSchema { .. }));
-    let constraint = |pattern: &str| format!("{TINY}\n[[constraint]]\nid = \"c\"\npattern = \"{pattern}\"\nmessage = \"m\"\nsource = \"common practice\"\n");
+    let constraint = |pattern: &str| {
+        format!("{TINY}\n[[constraint]]\nid = \"c\"\npattern = \"{pattern}\"\nmessage = \"m\"\nsource = \"common practice\"\n")
+    };
     assert!(Phoneset::from_toml_str(&constraint("# [place=bilabial] a"), "t").is_ok());
-    for bad in ["# zz", "p # a", "[place=labial]", "[colour=red]", "[place=bilabial", "#", "[]"] {
+    for bad in [
+        "# zz",
+        "p # a",
+        "[place=labial]",
+        "[colour=red]",
+        "[place=bilabial",
+        "#",
+        "[]",
+    ] {
         let p = problems(&constraint(bad));
-        assert!(matches!(p[0].problem, CheckProblem::BadConstraint { .. }), "{bad}");
+        assert!(
+            matches!(p[0].problem, CheckProblem::BadConstraint { .. }),
+            "{bad}"
+        );
     }
 }
 
@@ -360,26 +479,41 @@ class = "vowel"
 features = { height = "high" }
 "#;
     let p = problems(inline);
-    assert!(matches!(&p[0].problem, CheckProblem::BadFeature { feature, .. } if feature == "height"));
+    assert!(
+        matches!(&p[0].problem, CheckProblem::BadFeature { feature, .. } if feature == "height")
+    );
     let fixed = inline.replace("scale = [1.0, 1.0]", "scale = [1.0, 0.0]");
     let set = Phoneset::from_toml_str(&fixed, "t").unwrap();
     assert_eq!(set.schema().name(), "two-way");
     let shadow = fixed.replace("schema = \"two-way\"", "schema = \"ipa-chart\"");
-    assert!(matches!(problems(&shadow)[0].problem, CheckProblem::SchemaShadowsShipped { .. }));
+    assert!(matches!(
+        problems(&shadow)[0].problem,
+        CheckProblem::SchemaShadowsShipped { .. }
+    ));
 }
 
 #[test]
 fn malformed_and_huge_files_error_cleanly() {
     match Phoneset::from_toml_str("id = \"x\"\nname = [", "bad.toml") {
-        Err(PhonesetError::Syntax { line, file, .. }) => assert_eq!((line, file.as_str()), (2, "bad.toml")),
+        Err(PhonesetError::Syntax { line, file, .. }) => {
+            assert_eq!((line, file.as_str()), (2, "bad.toml"))
+        }
         other => panic!("{other:?}"),
     }
-    match Phoneset::from_toml_str(&TINY.replace("class = \"vowel\"", "class = \"vowel\"\ncolour = \"red\""), "t") {
-        Err(PhonesetError::Syntax { message, line, .. }) => assert!(message.contains("colour") && line > 0, "{message}"),
+    match Phoneset::from_toml_str(
+        &TINY.replace("class = \"vowel\"", "class = \"vowel\"\ncolour = \"red\""),
+        "t",
+    ) {
+        Err(PhonesetError::Syntax { message, line, .. }) => {
+            assert!(message.contains("colour") && line > 0, "{message}")
+        }
         other => panic!("{other:?}"),
     }
     let huge = "#".repeat(MAX_FILE_BYTES as usize + 1);
-    assert!(matches!(Phoneset::from_toml_str(&huge, "h"), Err(PhonesetError::TooLarge { .. })));
+    assert!(matches!(
+        Phoneset::from_toml_str(&huge, "h"),
+        Err(PhonesetError::TooLarge { .. })
+    ));
     let nested = format!("id = {}{}", "[".repeat(10_000), "]".repeat(10_000));
     assert!(Phoneset::from_toml_str(&nested, "n").is_err());
 }
@@ -389,12 +523,28 @@ fn load_refuses_large_and_non_utf8_files() {
     let dir = tempfile::tempdir().unwrap();
     let big = dir.path().join("big.toml");
     std::fs::write(&big, vec![b'#'; MAX_FILE_BYTES as usize + 10]).unwrap();
-    assert!(matches!(Phoneset::load(&big), Err(PhonesetError::TooLarge { .. })));
+    assert!(matches!(
+        Phoneset::load(&big),
+        Err(PhonesetError::TooLarge { .. })
+    ));
     let latin1 = dir.path().join("latin1.toml");
     std::fs::write(&latin1, b"id = \"x\"\nname = \"caf\xe9\"\n").unwrap();
-    assert!(matches!(Phoneset::load(&latin1), Err(PhonesetError::Syntax { line: 2, column: 12, .. })));
+    assert!(matches!(
+        Phoneset::load(&latin1),
+        Err(PhonesetError::Syntax {
+            line: 2,
+            column: 12,
+            ..
+        })
+    ));
     let good = dir.path().join("tiny.toml");
     std::fs::write(&good, TINY).unwrap();
-    assert_eq!(Phoneset::resolve("tiny.toml", dir.path()).unwrap().id(), "tiny");
-    assert_eq!(Phoneset::resolve("es-ipa", dir.path()).unwrap().id(), "es-ipa");
+    assert_eq!(
+        Phoneset::resolve("tiny.toml", dir.path()).unwrap().id(),
+        "tiny"
+    );
+    assert_eq!(
+        Phoneset::resolve("es-ipa", dir.path()).unwrap().id(),
+        "es-ipa"
+    );
 }
