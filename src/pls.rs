@@ -183,14 +183,44 @@ fn to_ipa(entry: &Entry, set: &Phoneset, onsets: &HashSet<Vec<String>>) -> Resul
         }
         previous_nucleus = Some(v);
     }
+    // A "." (the IPA syllable break) separates two phones wherever the reader would otherwise
+    // read them as one longer phone; such places are syllable or morpheme boundaries in practice.
+    let table = ipa_table(set);
+    let all: Vec<char> = phones.iter().flat_map(|p| p.1.chars()).collect();
     let mut out = String::new();
+    let mut at = 0;
     for (i, p) in phones.iter().enumerate() {
         if let Some(mark) = marks[i] {
             out.push(mark);
         }
         out.push_str(&p.1);
+        let ipa: Vec<char> = p.1.chars().collect();
+        if i + 1 < phones.len() && marks[i + 1].is_none() && would_merge(&all[at..], &ipa, &table) {
+            out.push('.');
+        }
+        at += ipa.len();
     }
     Ok(out)
+}
+
+/// The phones' IPA as character sequences, longest first, phonemes before allophones: the order
+/// in which the reader tries them.
+fn ipa_table(set: &Phoneset) -> Vec<(Vec<char>, usize, bool)> {
+    let mut table: Vec<(Vec<char>, usize, bool)> = set
+        .phones()
+        .iter()
+        .enumerate()
+        .map(|(i, p)| (p.ipa.chars().collect::<Vec<char>>(), i, p.is_allophone()))
+        .filter(|(ipa, _, _)| !ipa.is_empty())
+        .collect();
+    table.sort_by(|a, b| b.0.len().cmp(&a.0.len()).then(a.2.cmp(&b.2)));
+    table
+}
+
+/// True when the reader, at the start of `rest`, would take something other than `ipa` (for
+/// example ɔ followed by ɪ read as the diphthong ɔɪ, or t followed by ʃ read as the affricate).
+fn would_merge(rest: &[char], ipa: &[char], table: &[(Vec<char>, usize, bool)]) -> bool {
+    table.iter().find(|(t, _, _)| rest.starts_with(t)).is_some_and(|(t, _, _)| t.len() != ipa.len())
 }
 
 fn escape(text: &str) -> String {
@@ -236,6 +266,14 @@ pub fn read_pls(bytes: &[u8], set: &Phoneset, source: &str) -> Result<PlsImport,
     let mut stack: Vec<String> = Vec::new();
     let (mut graphemes, mut phonemes): (Vec<String>, Vec<(String, usize)>) = (Vec::new(), Vec::new());
     let mut buf = Vec::new();
+    // Line numbers are counted incrementally: (offset, line) of the last position asked for.
+    let mut counted = (0usize, 1usize);
+    let mut line_at = |offset: usize| {
+        let offset = offset.min(bytes.len()).max(counted.0);
+        counted.1 += bytes[counted.0..offset].iter().filter(|&&b| b == b'\n').count();
+        counted.0 = offset;
+        counted.1
+    };
     loop {
         let offset = reader.buffer_position() as usize;
         let event = reader.read_event_into(&mut buf).map_err(|e| at(offset, format!("malformed XML: {e}")))?;
@@ -258,7 +296,7 @@ pub fn read_pls(bytes: &[u8], set: &Phoneset, source: &str) -> Result<PlsImport,
             }
             Event::Text(t) => {
                 let text = t.unescape().map_err(|e| at(offset, format!("bad text: {e}")))?.into_owned();
-                let line = bytes[..offset.min(bytes.len())].iter().filter(|&&b| b == b'\n').count() + 1;
+                let line = line_at(offset);
                 match stack.last().map(String::as_str) {
                     Some("grapheme") => graphemes.push(text),
                     Some("phoneme") => phonemes.push((text, line)),
@@ -321,15 +359,9 @@ fn read_phoneme(text: &str, alphabet: Alphabet, set: &Phoneset) -> Result<String
 /// Segments IPA into phone symbols by longest match over the phoneset's phonemes (allophones are
 /// tried after phonemes of the same length).
 fn segment_ipa(text: &str, set: &Phoneset) -> Result<String, String> {
-    let chars: Vec<char> = text.chars().filter(|c| !c.is_whitespace() && *c != '.').collect();
-    let mut table: Vec<(Vec<char>, usize, bool)> = set
-        .phones()
-        .iter()
-        .enumerate()
-        .map(|(i, p)| (p.ipa.chars().collect::<Vec<char>>(), i, p.is_allophone()))
-        .filter(|(ipa, _, _)| !ipa.is_empty())
-        .collect();
-    table.sort_by(|a, b| b.0.len().cmp(&a.0.len()).then(a.2.cmp(&b.2)));
+    let chars: Vec<char> = text.chars().collect();
+    let is_boundary = |c: char| c.is_whitespace() || c == '.';
+    let table = ipa_table(set);
     let unstressed = set.mark_for(StressLevel::Unstressed).map(str::to_string);
     let mut out: Vec<String> = Vec::new();
     let mut pending: Option<StressLevel> = None;
@@ -338,8 +370,11 @@ fn segment_ipa(text: &str, set: &Phoneset) -> Result<String, String> {
         match chars[i] {
             'ˈ' | '\'' => pending = Some(StressLevel::Primary),
             'ˌ' => pending = Some(StressLevel::Secondary),
+            c if is_boundary(c) => {}
             _ => {
-                let Some((ipa, id, _)) = table.iter().find(|(ipa, _, _)| chars[i..].starts_with(ipa)) else {
+                // A phone never spans a syllable break or a space.
+                let end = chars[i..].iter().position(|&c| is_boundary(c)).map_or(chars.len(), |n| i + n);
+                let Some((ipa, id, _)) = table.iter().find(|(ipa, _, _)| chars[i..end].starts_with(ipa)) else {
                     return Err(format!("IPA {:?} at character {} matches no phone of {}", chars[i], i + 1, set.id()));
                 };
                 let phone = set.phone(*id as crate::phoneset::PhoneId);
@@ -385,6 +420,8 @@ mod tests {
     fn round_trip_through_ipa_and_symbols() {
         let set = arpa();
         let entries = vec![
+            Entry::new("drawing", "D R AO1 IH0 NG"),
+            Entry::new("courtship", "K AO1 R T SH IH2 P"),
             Entry::new("ferry", "F EH1 R IY0"),
             Entry::new("harbour", "HH AA1 R B ER0"),
             Entry::new("timetable", "T AY1 M T EY2 B AH0 L"),
