@@ -391,6 +391,18 @@ impl NgramModel {
         }
     }
 
+    /// For every symbol, an upper bound of its log-probability in any context: the larger of
+    /// its unigram value and its largest explicit value (back-off weights are ≤ 0).
+    pub fn upper_bounds(&self) -> Vec<f32> {
+        let mut bounds = self.unigram.clone();
+        for (&s, &lp) in self.symbols.iter().zip(&self.logps) {
+            if let Some(b) = bounds.get_mut(s as usize) {
+                *b = b.max(lp);
+            }
+        }
+        bounds
+    }
+
     /// Model order (history length + 1).
     pub fn order(&self) -> usize {
         self.order
