@@ -13,5 +13,6 @@ pub mod lexicon;
 pub mod phoneset;
 pub mod project;
 pub mod queue;
+pub mod safe_io;
 pub mod tui;
 pub mod variants;

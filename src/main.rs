@@ -1,1 +1,42 @@
-fn main(){}
+//! The `orthoepy` command line: argument parsing and dispatch only. Every command lives in
+//! `cli/<command>.rs`; the logic lives in the library.
+
+mod cli;
+
+use clap::{Parser, Subcommand};
+use std::process::ExitCode;
+
+/// A workbench for pronunciation lexicons: import, audit, guess, propose variants, review, export.
+#[derive(Debug, Parser)]
+#[command(name = "orthoepy", version, about, long_about = None, propagate_version = true)]
+struct Cli {
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Debug, Subcommand)]
+enum Command {
+    Import(cli::import::Args),
+    Export(cli::export::Args),
+    Find(cli::find::Args),
+    Stats(cli::stats::Args),
+    Variants(cli::variants::Args),
+}
+
+fn main() -> ExitCode {
+    let cli = Cli::parse();
+    let result = match cli.command {
+        Command::Import(args) => cli::import::run(args),
+        Command::Export(args) => cli::export::run(args),
+        Command::Find(args) => cli::find::run(args),
+        Command::Stats(args) => cli::stats::run(args),
+        Command::Variants(args) => cli::variants::run(args),
+    };
+    match result {
+        Ok(code) => code,
+        Err(err) => {
+            eprintln!("error: {err:#}");
+            ExitCode::from(2)
+        }
+    }
+}

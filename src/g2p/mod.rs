@@ -8,6 +8,8 @@ mod decode;
 mod em;
 mod graphone;
 mod hash;
+pub mod hybrid;
+pub mod lts;
 mod model;
 mod model_file;
 mod ngram;

@@ -1,1 +1,16 @@
-//! (being written)
+//! The lexicon: entries, the CSV store, headword normalisation, the FST index and plain-text
+//! interchange.
+//!
+//! This module owns everything about headwords and rows; it treats a pronunciation as phone tokens
+//! separated by spaces and leaves their meaning to [`crate::phoneset`].
+
+mod entry;
+mod index;
+mod normalize;
+pub mod plain;
+mod store;
+
+pub use entry::{join_phones, Entry, Status, UnknownStatus};
+pub use index::{EntryId, IndexError, IndexOptions, LexiconIndex};
+pub use normalize::{normalize_headword, normalize_key, HeadwordError, HeadwordPolicy};
+pub use store::{LexiconError, LoadMode, Lexicon, ParseProblem, COLUMNS, MAX_LEXICON_BYTES};

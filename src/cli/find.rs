@@ -1,0 +1,112 @@
+//! `orthoepy find`: look words up in the lexicon index.
+
+use super::{DataFormat, ProjectArgs};
+use orthoepy::lexicon::{Entry, EntryId, Lexicon, LexiconIndex};
+use std::path::PathBuf;
+use std::process::ExitCode;
+
+/// Look up headwords: exactly, by prefix, by spelling distance, or by sound.
+///
+/// Exit status is 0 when something was found and 1 when nothing was.
+///
+/// Examples:
+///   orthoepy find ferry
+///   orthoepy find --prefix harb
+///   orthoepy find --fuzzy 2 ferie
+///   orthoepy find --sounds-like pier          (words pronounced like "pier")
+///   orthoepy find --phones "P IH1 R"          (words with this pronunciation)
+#[derive(Debug, clap::Args)]
+#[command(verbatim_doc_comment)]
+pub struct Args {
+    /// Words (or, with --phones, pronunciations) to look for.
+    #[arg(required = true)]
+    queries: Vec<String>,
+    /// The CSV store (default: the project's lexicon).
+    #[arg(short, long)]
+    lexicon: Option<PathBuf>,
+    /// List headwords starting with the query.
+    #[arg(long, conflicts_with_all = ["fuzzy", "sounds_like", "phones"])]
+    prefix: bool,
+    /// List headwords within K edits of the query.
+    #[arg(long, value_name = "K", conflicts_with_all = ["sounds_like", "phones"])]
+    fuzzy: Option<u32>,
+    /// List words pronounced like the query word (stress ignored unless --exact-stress).
+    #[arg(long, conflicts_with = "phones")]
+    sounds_like: bool,
+    /// Treat each query as a pronunciation and list the words that have it.
+    #[arg(long)]
+    phones: bool,
+    /// With --sounds-like/--phones, require stress marks to match too.
+    #[arg(long)]
+    exact_stress: bool,
+    /// At most this many headwords per query.
+    #[arg(long, default_value_t = 50)]
+    limit: usize,
+    /// Output format.
+    #[arg(long, value_enum, default_value = "text")]
+    format: DataFormat,
+    #[command(flatten)]
+    project: ProjectArgs,
+}
+
+#[derive(serde::Serialize)]
+struct Found<'a> {
+    query: &'a str,
+    entries: Vec<&'a Entry>,
+}
+
+pub fn run(args: Args) -> anyhow::Result<ExitCode> {
+    let (lexicon, _) = args.project.load_lexicon(args.lexicon.as_deref())?;
+    let index = lexicon.index();
+    let mut results = Vec::new();
+    for query in &args.queries {
+        let ids = matches(&args, &lexicon, &index, query)?;
+        results.push(Found { query, entries: ids.into_iter().filter_map(|i| lexicon.entries().get(i)).collect() });
+    }
+    let any = results.iter().any(|r| !r.entries.is_empty());
+    match args.format {
+        DataFormat::Json => super::print_json(&results)?,
+        DataFormat::Text => {
+            for found in &results {
+                if found.entries.is_empty() {
+                    eprintln!("{}: not found", found.query);
+                }
+                for e in &found.entries {
+                    println!("{}\t{}\t{}\t{}", e.word, e.pronunciation, e.status, e.source);
+                }
+            }
+        }
+    }
+    Ok(if any { ExitCode::SUCCESS } else { ExitCode::from(1) })
+}
+
+fn matches(args: &Args, lexicon: &Lexicon, index: &LexiconIndex, query: &str) -> anyhow::Result<Vec<EntryId>> {
+    let flatten = |hits: Vec<(String, Vec<EntryId>)>| hits.into_iter().flat_map(|(_, ids)| ids).collect();
+    let by_sound = |pron: &str| -> Vec<EntryId> {
+        if args.exact_stress {
+            index.sounds_like(pron).to_vec()
+        } else {
+            index.sounds_like_unstressed(pron).to_vec()
+        }
+    };
+    Ok(if args.prefix {
+        flatten(index.prefix(query, args.limit))
+    } else if let Some(k) = args.fuzzy {
+        flatten(index.fuzzy(query, k, args.limit)?)
+    } else if args.phones {
+        by_sound(query)
+    } else if args.sounds_like {
+        let own = index.lookup(query);
+        let mut ids: Vec<EntryId> = own
+            .iter()
+            .filter_map(|&i| lexicon.entries().get(i))
+            .flat_map(|e| by_sound(&e.pronunciation))
+            .filter(|i| !own.contains(i))
+            .collect();
+        ids.sort_unstable();
+        ids.dedup();
+        ids
+    } else {
+        index.lookup(query).to_vec()
+    })
+}

@@ -1,0 +1,83 @@
+//! `orthoepy import`: read an external lexicon layout into a CSV store.
+
+use anyhow::Context;
+use orthoepy::lexicon::plain::read_plain;
+use orthoepy::lexicon::Lexicon;
+use std::path::PathBuf;
+use std::process::ExitCode;
+
+/// Layouts `import` reads.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
+pub enum ImportLayout {
+    /// `word PH PH ...` per line, optional `(2)` variant suffix, `#` comments.
+    Plain,
+}
+
+/// Read a lexicon in another layout and write it as a CSV store.
+///
+/// Every line that splits into a headword and phones is kept, even with phones outside the
+/// phoneset or odd stress (run `orthoepy audit` next); each line that cannot be read is reported
+/// as FILE:LINE:COLUMN.
+///
+/// Example: orthoepy import plain cmudict.dict -o lexicon.csv --phoneset en-arpa
+#[derive(Debug, clap::Args)]
+#[command(verbatim_doc_comment)]
+pub struct Args {
+    /// The layout of the input file.
+    #[arg(value_enum)]
+    layout: ImportLayout,
+    /// The file to read.
+    file: PathBuf,
+    /// The CSV store to write.
+    #[arg(short, long, value_name = "LEXICON.csv")]
+    output: PathBuf,
+    /// Phoneset the pronunciations are meant to be in (a shipped id or a TOML path).
+    #[arg(long, value_name = "NAME", default_value = "en-arpa")]
+    phoneset: String,
+    /// Text for the `source` column (default: the input file's name without extension).
+    #[arg(long)]
+    source: Option<String>,
+    /// Fold case in headword comparison (the project default).
+    #[arg(long, default_value_t = true, action = clap::ArgAction::Set, value_name = "BOOL")]
+    fold_case: bool,
+    /// Replace OUTPUT if it exists (its old content is kept as OUTPUT.bak).
+    #[arg(long)]
+    force: bool,
+    /// Write nothing and exit 2 if any line cannot be read.
+    #[arg(long)]
+    strict: bool,
+}
+
+pub fn run(args: Args) -> anyhow::Result<ExitCode> {
+    if args.output.exists() && !args.force {
+        anyhow::bail!("{} exists; pass --force to replace it (a .bak is kept)", args.output.display());
+    }
+    let bytes = std::fs::read(&args.file).with_context(|| format!("cannot read {}", args.file.display()))?;
+    let source = args.source.clone().unwrap_or_else(|| {
+        args.file.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_default()
+    });
+    let import = read_plain(&bytes, &source);
+    for bad in &import.rejected {
+        eprintln!("{}:{}:{}: {}", args.file.display(), bad.line, bad.column, bad.problem);
+    }
+    if args.strict && !import.rejected.is_empty() {
+        anyhow::bail!("{} line(s) could not be read; nothing was written", import.rejected.len());
+    }
+    let policy = orthoepy::lexicon::HeadwordPolicy { fold_case: args.fold_case };
+    let mut lexicon = Lexicon::from_entries(import.entries, policy);
+    let phoneset = orthoepy::phoneset::Phoneset::resolve(&args.phoneset, &std::env::current_dir()?)
+        .with_context(|| format!("cannot load phoneset {}", args.phoneset))?;
+    let outside = lexicon.entries().iter().filter(|e| phoneset.parse(&e.pronunciation).is_err()).count();
+    let words = lexicon.index().word_count();
+    lexicon.save_as(&args.output).context("cannot write the lexicon")?;
+    eprintln!(
+        "imported {} pronunciations of {} words into {}; {} line(s) rejected; {} pronunciation(s) do not parse in {} (run `orthoepy audit`)",
+        lexicon.entries().len(),
+        words,
+        args.output.display(),
+        import.rejected.len(),
+        outside,
+        phoneset.id(),
+    );
+    Ok(ExitCode::SUCCESS)
+}

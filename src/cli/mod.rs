@@ -1,0 +1,103 @@
+//! The command implementations of the `orthoepy` binary: one file per command, each with a clap
+//! `Args` struct and a `run` function.
+//!
+//! This module and its children are the only places that use `anyhow`; they turn library errors
+//! into messages for people and exit codes (0 success, 1 findings the user asked to fail on,
+//! 2 could not run). They hold no logic a library user would need.
+
+pub mod export;
+pub mod find;
+pub mod import;
+pub mod stats;
+pub mod variants;
+
+use anyhow::Context;
+use orthoepy::lexicon::{HeadwordPolicy, Lexicon};
+use orthoepy::project::Project;
+use std::io::IsTerminal;
+use std::path::{Path, PathBuf};
+
+/// How data output is written.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
+pub enum DataFormat {
+    /// Lines for people (and `cut`/`awk`).
+    Text,
+    /// One JSON document.
+    Json,
+}
+
+/// The `--project` option shared by commands that read a project.
+#[derive(Debug, Clone, clap::Args)]
+pub struct ProjectArgs {
+    /// Folder holding orthoepy.toml (default: the current folder or the nearest one above it).
+    #[arg(long, value_name = "DIR", global = true)]
+    pub project: Option<PathBuf>,
+}
+
+impl ProjectArgs {
+    /// The project named by `--project`, else the one found upwards from the current folder, else
+    /// `None` (commands that can run without a project then need explicit files).
+    pub fn find(&self) -> anyhow::Result<Option<Project>> {
+        if let Some(dir) = &self.project {
+            return Project::load(dir).map(Some).with_context(|| format!("cannot open project {}", dir.display()));
+        }
+        let cwd = std::env::current_dir().context("cannot read the current folder")?;
+        match Project::discover(&cwd) {
+            Ok(p) => Ok(Some(p)),
+            Err(orthoepy::project::ProjectError::NotFound { .. }) => Ok(None),
+            Err(err) => Err(err.into()),
+        }
+    }
+
+    /// The project, required.
+    pub fn require(&self) -> anyhow::Result<Project> {
+        match self.find()? {
+            Some(p) => Ok(p),
+            None => {
+                let cwd = std::env::current_dir().unwrap_or_default();
+                Err(orthoepy::project::ProjectError::NotFound { start: cwd }.into())
+            }
+        }
+    }
+
+    /// The lexicon path and headword policy: an explicit file wins, else the project's lexicon.
+    pub fn lexicon_path(&self, explicit: Option<&Path>) -> anyhow::Result<(PathBuf, HeadwordPolicy, Option<Project>)> {
+        let project = self.find()?;
+        let policy = project.as_ref().map(Project::headword_policy).unwrap_or_default();
+        match (explicit, &project) {
+            (Some(path), _) => Ok((path.to_path_buf(), policy, project)),
+            (None, Some(p)) => Ok((p.lexicon.clone(), policy, project)),
+            (None, None) => anyhow::bail!(
+                "no lexicon given and no orthoepy.toml found; name a LEXICON.csv or pass --project DIR"
+            ),
+        }
+    }
+
+    /// Loads the lexicon named explicitly or by the project.
+    pub fn load_lexicon(&self, explicit: Option<&Path>) -> anyhow::Result<(Lexicon, Option<Project>)> {
+        let (path, policy, project) = self.lexicon_path(explicit)?;
+        let lexicon = Lexicon::load(&path, policy).with_context(|| "cannot load the lexicon".to_string())?;
+        Ok((lexicon, project))
+    }
+}
+
+/// A progress bar on stderr when it is a terminal, hidden otherwise (pipes and CI stay clean).
+pub fn progress_bar(len: u64, label: &str) -> indicatif::ProgressBar {
+    if !std::io::stderr().is_terminal() {
+        return indicatif::ProgressBar::hidden();
+    }
+    let bar = indicatif::ProgressBar::new(len);
+    let style = indicatif::ProgressStyle::with_template("{prefix:>10} [{bar:30}] {pos}/{len} {msg} ({eta})")
+        .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar())
+        .progress_chars("=> ");
+    bar.set_style(style);
+    bar.set_prefix(label.to_string());
+    bar
+}
+
+/// Writes a JSON document and a newline to stdout.
+pub fn print_json<T: serde::Serialize>(value: &T) -> anyhow::Result<()> {
+    let text = serde_json::to_string_pretty(value).context("cannot encode JSON")?;
+    println!("{text}");
+    Ok(())
+}
