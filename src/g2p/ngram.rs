@@ -155,7 +155,7 @@ fn heldout_log_likelihood(top: &Evidence, heldout: &Evidence, discounts: &[f64],
 }
 
 /// Lowest and highest discount tried when tuning.
-const DISCOUNT_RANGE: (f64, f64) = (0.02, 2.5);
+const DISCOUNT_RANGE: (f64, f64) = (0.02, 6.0);
 
 /// Tunes the discounts (one coordinate sweep, highest order first, golden-section search of
 /// `steps` evaluations each) to maximise the held-out log-likelihood; returns the tuned

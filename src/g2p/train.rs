@@ -326,3 +326,24 @@ pub fn train(data: &[(String, Vec<String>)], opts: &TrainOptions, progress: &mut
     }
     Ok(model)
 }
+
+/// The (word, phones) pairs of a lexicon that are fit to train or score a model: entries that
+/// are imported or accepted (machine proposals and deprecated entries are left out) and have
+/// at least one phone.
+///
+/// ```
+/// use orthoepy::lexicon::{Entry, Status};
+/// let mut proposed = Entry::new("tern", "T ER1 N");
+/// proposed.status = Status::Proposed;
+/// let pairs = orthoepy::g2p::training_pairs(&[Entry::new("pier", "P IH1 R"), proposed]);
+/// assert_eq!(pairs, vec![("pier".to_string(), vec!["P".to_string(), "IH1".into(), "R".into()])]);
+/// ```
+pub fn training_pairs(entries: &[crate::lexicon::Entry]) -> Vec<(String, Vec<String>)> {
+    use crate::lexicon::Status;
+    entries
+        .iter()
+        .filter(|e| matches!(e.status, Status::Imported | Status::Accepted))
+        .map(|e| (e.word.clone(), e.phones().map(String::from).collect::<Vec<_>>()))
+        .filter(|(_, p)| !p.is_empty())
+        .collect()
+}
