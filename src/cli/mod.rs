@@ -9,6 +9,7 @@ pub mod export;
 pub mod find;
 pub mod import;
 pub mod stats;
+pub mod variants;
 
 use anyhow::Context;
 use orthoepy::lexicon::{HeadwordPolicy, Lexicon};
