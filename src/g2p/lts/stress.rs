@@ -108,6 +108,11 @@ impl StressMethod {
                 if let Some(nucleus) = chosen.and_then(|s| syllables.get(s)).and_then(|s| s.nucleus) {
                     phones[nucleus].stress = Some(StressLevel::Primary);
                 }
+                if phoneset.mark_for(StressLevel::Unstressed).is_some() {
+                    for &n in &nuclei {
+                        phones[n].stress.get_or_insert(StressLevel::Unstressed);
+                    }
+                }
             }
         }
     }
