@@ -85,6 +85,12 @@ pub trait Nbest {
     fn nbest(&self, word: &str, n: usize) -> Vec<(String, f64)>;
 }
 
+impl Nbest for crate::g2p::Model {
+    fn nbest(&self, word: &str, n: usize) -> Vec<(String, f64)> {
+        self.guess(word, n).hypotheses.into_iter().map(|h| (h.phones.join(" "), h.posterior)).collect()
+    }
+}
+
 /// Gathers and merges candidates for out-of-lexicon words.
 ///
 /// ```
