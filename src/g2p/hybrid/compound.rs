@@ -2,7 +2,7 @@
 //!
 //! Dynamic programming over the lexicon's FST index finds, for every position, the fewest
 //! known words that spell the rest of the word (prefix queries prune spans no headword starts
-//! with); splits with that fewest number of parts are returned in left-to-right order. The
+//! with); splits with that fewest number of parts are ranked most balanced first. The
 //! pronunciation joins each part's first pronunciation, with primary stress on the first part
 //! and secondary on later parts — the compound stress rule of English (Chomsky & Halle,
 //! *The Sound Pattern of English*, 1968; common practice in CMUdict, e.g. "airport"
@@ -25,7 +25,7 @@ pub(super) fn candidates(word: &str, lookup: &Lookup<'_>, config: &LanguageConfi
                 break;
             };
             if i > 0 {
-                demote_primary(&mut p);
+                demote_primary(&mut p, lookup.phoneset);
             }
             joined.phones.extend(p.phones);
         }
@@ -37,8 +37,9 @@ pub(super) fn candidates(word: &str, lookup: &Lookup<'_>, config: &LanguageConfi
     out
 }
 
-/// Every split of `word` into the fewest (≥ 2, ≤ `max_parts`) lexicon words of at least
-/// `min_letters` letters, at most `max_splits` of them, longest first part first.
+/// Splits of `word` into the fewest (≥ 2, ≤ `max_parts`) lexicon words of at least
+/// `min_letters` letters, at most `max_splits` of them: the most balanced first (the split whose
+/// shortest part is longest), ties to the shorter first part.
 fn splits(word: &str, lookup: &Lookup<'_>, min_letters: usize, max_parts: usize, max_splits: usize) -> Vec<Vec<String>> {
     let bounds: Vec<usize> = word.char_indices().map(|(i, _)| i).chain(std::iter::once(word.len())).collect();
     let n = bounds.len() - 1;
@@ -63,8 +64,11 @@ fn splits(word: &str, lookup: &Lookup<'_>, min_letters: usize, max_parts: usize,
     let mut found = Vec::new();
     if fewest[0].is_some_and(|f| f >= 2 && f <= max_parts) {
         let mut path = Vec::new();
-        collect(0, &fewest, &edges, &bounds, word, &mut path, &mut found, max_splits);
+        collect(0, &fewest, &edges, &bounds, word, &mut path, &mut found, max_splits * 4);
     }
+    // Most balanced first: the split whose shortest part is longest.
+    found.sort_by_key(|parts| std::cmp::Reverse(parts.iter().map(|p| p.chars().count()).min().unwrap_or(0)));
+    found.truncate(max_splits);
     found
 }
 
@@ -87,7 +91,7 @@ fn collect(
         return;
     }
     let Some(need) = fewest[at] else { return };
-    for &next in edges[at].iter().rev() {
+    for &next in edges[at].iter() {
         if fewest[next].map(|f| f + 1) == Some(need) {
             path.push(word[bounds[at]..bounds[next]].to_string());
             collect(next, fewest, edges, bounds, word, path, found, max_splits);

@@ -85,6 +85,12 @@ pub trait Nbest {
     fn nbest(&self, word: &str, n: usize) -> Vec<(String, f64)>;
 }
 
+impl Nbest for crate::g2p::Model {
+    fn nbest(&self, word: &str, n: usize) -> Vec<(String, f64)> {
+        self.guess(word, n).hypotheses.into_iter().map(|h| (h.phones.join(" "), h.posterior)).collect()
+    }
+}
+
 /// Gathers and merges candidates for out-of-lexicon words.
 ///
 /// ```
@@ -135,7 +141,7 @@ impl<'a> Guesser<'a> {
     /// Candidates for `word`, best first, merged across sources; at most `limit`.
     pub fn guess(&self, word: &str, limit: usize) -> Vec<Candidate> {
         let mut found: Vec<(Pronunciation, f64, Source)> = Vec::new();
-        found.extend(acronym::candidates(word, self.config));
+        found.extend(acronym::candidates(word, self.config, self.phoneset));
         let key = word.to_lowercase();
         let lookup = Lookup { lexicon: self.lexicon, index: self.index, phoneset: self.phoneset };
         found.extend(compound::candidates(&key, &lookup, self.config));
@@ -193,11 +199,12 @@ impl Lookup<'_> {
 }
 
 /// Turns every primary stress into secondary (later compound parts, earlier letters of an
-/// initialism).
-fn demote_primary(pronunciation: &mut Pronunciation) {
+/// initialism), or into unstressed when the phoneset has no secondary mark (e.g. es-ipa).
+fn demote_primary(pronunciation: &mut Pronunciation, phoneset: &Phoneset) {
+    let lower = if phoneset.mark_for(StressLevel::Secondary).is_some() { StressLevel::Secondary } else { StressLevel::Unstressed };
     for token in &mut pronunciation.phones {
         if token.stress == Some(StressLevel::Primary) {
-            token.stress = Some(StressLevel::Secondary);
+            token.stress = Some(lower);
         }
     }
 }

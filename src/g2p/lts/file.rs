@@ -39,6 +39,8 @@ struct RawStress {
     penultimate_after: String,
     #[serde(default)]
     onsets: Vec<String>,
+    #[serde(default)]
+    reduce: Vec<(String, String)>,
 }
 
 /// Everything a rule file declares, validated.
@@ -126,6 +128,7 @@ pub(super) fn parse(text: &str, origin: &str, phoneset: &Phoneset) -> Result<Par
         &raw.stress.get_ref().accented,
         &raw.stress.get_ref().penultimate_after,
         &raw.stress.get_ref().onsets,
+        &raw.stress.get_ref().reduce,
         phoneset,
     )
     .map_err(|message| located(stress_span, message))?;

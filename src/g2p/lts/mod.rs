@@ -125,7 +125,7 @@ impl Rule {
 /// let es = Phoneset::shipped("es-ipa").unwrap();
 /// let rules = RuleSet::shipped("es", &es).unwrap();
 /// let guess = rules.transcribe("chorizo").unwrap();
-/// assert_eq!(guess.render(&es), "tʃ o ɾ ˈi s o");
+/// assert_eq!(guess.render(&es), "tʃ o0 ɾ i1 s o0");
 /// ```
 #[derive(Debug, Clone)]
 pub struct RuleSet {

@@ -23,8 +23,9 @@ use crate::phoneset::{PhoneId, Phoneset, StressLevel};
 pub(crate) enum StressMethod {
     /// No stress marks at all.
     None,
-    /// The English heuristic described in the module docs.
-    English,
+    /// The English heuristic described in the module docs; vowels it leaves unstressed are
+    /// replaced by their reduced counterpart (`reduce` pairs), e.g. AE → AH.
+    English { reduce: Vec<(PhoneId, PhoneId)> },
     /// Spanish written-accent rules.
     WrittenAccent {
         /// Letters that carry an acute accent (stress is on the nucleus they produce).
@@ -53,20 +54,27 @@ impl StressMethod {
         accented: &str,
         penultimate_after: &str,
         onsets: &[String],
+        reduce: &[(String, String)],
         phoneset: &Phoneset,
     ) -> Result<StressMethod, String> {
+        let phone = |symbol: &str, what: &str| {
+            phoneset.lookup(symbol).ok_or_else(|| format!("{what}: phone `{symbol}` is not in phoneset {}", phoneset.id()))
+        };
         match method {
             "none" => Ok(StressMethod::None),
-            "english" => Ok(StressMethod::English),
+            "english" => {
+                let mut pairs = Vec::with_capacity(reduce.len());
+                for (full, reduced) in reduce {
+                    pairs.push((phone(full, "reduce")?, phone(reduced, "reduce")?));
+                }
+                Ok(StressMethod::English { reduce: pairs })
+            }
             "written-accent" => {
                 let mut parsed = Vec::with_capacity(onsets.len());
                 for onset in onsets {
                     let mut phones = Vec::new();
                     for symbol in onset.split_whitespace() {
-                        let id = phoneset
-                            .lookup(symbol)
-                            .ok_or_else(|| format!("onset `{onset}`: phone `{symbol}` is not in phoneset {}", phoneset.id()))?;
-                        phones.push(id);
+                        phones.push(phone(symbol, &format!("onset `{onset}`"))?);
                     }
                     parsed.push(phones);
                 }
@@ -86,7 +94,7 @@ impl StressMethod {
             (0..phones.len()).filter(|&i| phoneset.phone(phones[i].phone).is_nucleus()).collect();
         match self {
             StressMethod::None => {}
-            StressMethod::English => english(phones, &nuclei),
+            StressMethod::English { reduce } => english(phones, &nuclei, reduce),
             StressMethod::WrittenAccent { accented, penultimate_after, onsets } => {
                 let syllables = syllabify(phones.iter().map(|p| p.phone), phoneset, onsets);
                 let accent = syllables.iter().position(|s| {
@@ -100,12 +108,17 @@ impl StressMethod {
                 if let Some(nucleus) = chosen.and_then(|s| syllables.get(s)).and_then(|s| s.nucleus) {
                     phones[nucleus].stress = Some(StressLevel::Primary);
                 }
+                if phoneset.mark_for(StressLevel::Unstressed).is_some() {
+                    for &n in &nuclei {
+                        phones[n].stress.get_or_insert(StressLevel::Unstressed);
+                    }
+                }
             }
         }
     }
 }
 
-fn english(phones: &mut [Emitted], nuclei: &[usize]) {
+fn english(phones: &mut [Emitted], nuclei: &[usize], reduce: &[(PhoneId, PhoneId)]) {
     let has_primary = nuclei.iter().any(|&n| phones[n].stress == Some(StressLevel::Primary));
     if !has_primary {
         let last_anchor = phones.iter().rposition(|p| p.anchor_before);
@@ -118,6 +131,9 @@ fn english(phones: &mut [Emitted], nuclei: &[usize]) {
     for &n in nuclei {
         if phones[n].stress.is_none() {
             phones[n].stress = Some(StressLevel::Unstressed);
+            if let Some(&(_, reduced)) = reduce.iter().find(|(full, _)| *full == phones[n].phone) {
+                phones[n].phone = reduced;
+            }
         }
     }
 }
