@@ -20,6 +20,10 @@ enum Command {
     Export(cli::export::Args),
     Find(cli::find::Args),
     Stats(cli::stats::Args),
+    Queue(cli::queue::Args),
+    Review(cli::review::Args),
+    Apply(cli::apply::Args),
+    Demo(cli::demo::Args),
 }
 
 fn main() -> ExitCode {
@@ -29,6 +33,10 @@ fn main() -> ExitCode {
         Command::Export(args) => cli::export::run(args),
         Command::Find(args) => cli::find::run(args),
         Command::Stats(args) => cli::stats::run(args),
+        Command::Queue(args) => cli::queue::run(args),
+        Command::Review(args) => cli::review::run(args),
+        Command::Apply(args) => cli::apply::run(args),
+        Command::Demo(args) => cli::demo::run(args),
     };
     match result {
         Ok(code) => code,

@@ -5,9 +5,13 @@
 //! into messages for people and exit codes (0 success, 1 findings the user asked to fail on,
 //! 2 could not run). They hold no logic a library user would need.
 
+pub mod apply;
+pub mod demo;
 pub mod export;
 pub mod find;
 pub mod import;
+pub mod queue;
+pub mod review;
 pub mod stats;
 
 use anyhow::Context;

