@@ -13,6 +13,7 @@ pub mod import;
 pub mod queue;
 pub mod review;
 pub mod stats;
+pub mod variants;
 
 use anyhow::Context;
 use orthoepy::lexicon::{HeadwordPolicy, Lexicon};

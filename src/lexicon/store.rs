@@ -11,6 +11,7 @@
 use super::entry::{Entry, Status};
 use super::normalize::{normalize_headword, normalize_key, HeadwordError, HeadwordPolicy};
 use crate::safe_io::{self, Fingerprint};
+use rayon::prelude::*;
 use std::fmt;
 use std::path::{Path, PathBuf};
 
@@ -181,56 +182,20 @@ impl Lexicon {
             return Err(fail(1, 1, ParseProblem::NoHeader));
         }
         let mut reader = csv::ReaderBuilder::new().has_headers(true).flexible(true).from_reader(text.as_bytes());
-        let header = reader.headers().map_err(|err| csv_error(err, path, text))?.clone();
+        let header = reader.headers().map_err(|err| csv_error(err, path, text, 0))?.clone();
         let layout = ColumnLayout::from_header(&header).map_err(|problem| fail(1, 1, problem))?;
-
-        let mut entries = Vec::new();
-        let mut record = csv::StringRecord::new();
-        loop {
-            match reader.read_record(&mut record) {
-                Ok(true) => {}
-                Ok(false) => break,
-                Err(err) => return Err(csv_error(err, path, text)),
-            }
-            let line = record.position().map(|p| p.line() as usize).unwrap_or(0);
-            let at = |field: usize, problem| fail(line, field_column(text, line, field), problem);
-            if record.len() != header.len() {
-                if record.len() == 1 && record.get(0) == Some("") {
-                    continue; // a blank line
-                }
-                return Err(at(0, ParseProblem::FieldCount { expected: header.len(), found: record.len() }));
-            }
-            let field = |i: usize| record.get(i).unwrap_or("");
-            let word = field(layout.word);
-            let headword_check = match mode {
-                LoadMode::Strict => normalize_headword(word, &policy).map(drop),
-                LoadMode::Repair if word.is_empty() => Err(HeadwordError::Empty),
-                LoadMode::Repair => Ok(()),
-            };
-            headword_check.map_err(|e| at(layout.word, ParseProblem::Headword(e)))?;
-            let status_text = field(layout.status);
-            let status = status_text
-                .parse::<Status>()
-                .map_err(|_| at(layout.status, ParseProblem::UnknownStatus(status_text.to_string())))?;
-            let score_text = field(layout.score);
-            let score = if score_text.is_empty() {
-                None
-            } else {
-                match score_text.parse::<f64>() {
-                    Ok(v) if v.is_finite() => Some(v),
-                    _ => return Err(at(layout.score, ParseProblem::BadScore(score_text.to_string()))),
-                }
-            };
-            entries.push(Entry {
-                word: word.to_string(),
-                pronunciation: field(layout.pronunciation).to_string(),
-                status,
-                source: field(layout.source).to_string(),
-                score,
-                note: field(layout.note).to_string(),
-                extra: layout.extra.iter().map(|&i| field(i).to_string()).collect(),
-                line,
-            });
+        let body_start = reader.position().byte() as usize;
+        let body = text.get(body_start..).unwrap_or("");
+        let first_line = text[..body_start.min(text.len())].matches('\n').count() + 1;
+        let rows = RowParser { text, path, policy, mode, layout: &layout, fields: header.len() };
+        // Large stores are cut at record boundaries and parsed on all cores; the first error in
+        // file order is the one reported.
+        let chunks = split_records(body, first_line, PARALLEL_CHUNK_BYTES);
+        let parsed: Vec<Result<Vec<Entry>, LexiconError>> =
+            chunks.par_iter().map(|&(chunk, line)| rows.parse(chunk, line)).collect();
+        let mut entries = Vec::with_capacity(parsed.iter().map(|p| p.as_ref().map_or(0, Vec::len)).sum());
+        for part in parsed {
+            entries.extend(part?);
         }
         let extra_columns = layout.extra.iter().map(|&i| header.get(i).unwrap_or("").to_string()).collect();
         Ok(Lexicon { entries, extra_columns, policy, origin: None })
@@ -341,6 +306,107 @@ impl Lexicon {
 
 const BOM: &[u8] = b"\xEF\xBB\xBF";
 
+/// Stores larger than this are parsed in chunks of about this size in parallel.
+const PARALLEL_CHUNK_BYTES: usize = 1 << 20;
+
+/// Cuts `body` (which starts on line `first_line`) into pieces of at least `chunk` bytes that end
+/// at record boundaries: newlines outside quoted fields, found by quote parity (RFC 4180 quotes
+/// escape themselves by doubling, so parity is exact). Returns each piece with its first line.
+fn split_records(body: &str, first_line: usize, chunk: usize) -> Vec<(&str, usize)> {
+    let bytes = body.as_bytes();
+    let mut pieces = Vec::new();
+    let (mut start, mut line, mut quoted, mut newlines) = (0, first_line, false, 0);
+    for (i, &b) in bytes.iter().enumerate() {
+        match b {
+            b'"' => quoted = !quoted,
+            b'\n' => {
+                newlines += 1;
+                if !quoted && i + 1 - start >= chunk {
+                    pieces.push((&body[start..=i], line));
+                    line += newlines;
+                    newlines = 0;
+                    start = i + 1;
+                }
+            }
+            _ => {}
+        }
+    }
+    if start < bytes.len() || pieces.is_empty() {
+        pieces.push((&body[start..], line));
+    }
+    pieces
+}
+
+/// Turns data rows into entries; shared by all chunks of one file.
+struct RowParser<'a> {
+    text: &'a str,
+    path: &'a Path,
+    policy: HeadwordPolicy,
+    mode: LoadMode,
+    layout: &'a ColumnLayout,
+    fields: usize,
+}
+
+impl RowParser<'_> {
+    fn fail(&self, line: usize, field: usize, problem: ParseProblem) -> LexiconError {
+        let column = field_column(self.text, line, field);
+        LexiconError::Parse { path: self.path.to_path_buf(), line, column, problem }
+    }
+
+    fn parse(&self, chunk: &str, first_line: usize) -> Result<Vec<Entry>, LexiconError> {
+        let layout = self.layout;
+        let mut reader = csv::ReaderBuilder::new().has_headers(false).flexible(true).from_reader(chunk.as_bytes());
+        let mut entries = Vec::with_capacity(chunk.len() / 32);
+        let mut record = csv::StringRecord::new();
+        loop {
+            match reader.read_record(&mut record) {
+                Ok(true) => {}
+                Ok(false) => break,
+                Err(err) => return Err(csv_error(err, self.path, self.text, first_line - 1)),
+            }
+            let line = record.position().map(|p| p.line() as usize).unwrap_or(1) + first_line - 1;
+            if record.len() != self.fields {
+                if record.len() == 1 && record.get(0) == Some("") {
+                    continue; // a blank line
+                }
+                return Err(self.fail(line, 0, ParseProblem::FieldCount { expected: self.fields, found: record.len() }));
+            }
+            let field = |i: usize| record.get(i).unwrap_or("");
+            let word = field(layout.word);
+            let headword_check = match self.mode {
+                LoadMode::Strict => normalize_headword(word, &self.policy).map(drop),
+                LoadMode::Repair if word.is_empty() => Err(HeadwordError::Empty),
+                LoadMode::Repair => Ok(()),
+            };
+            headword_check.map_err(|e| self.fail(line, layout.word, ParseProblem::Headword(e)))?;
+            let status_text = field(layout.status);
+            let status = status_text
+                .parse::<Status>()
+                .map_err(|_| self.fail(line, layout.status, ParseProblem::UnknownStatus(status_text.to_string())))?;
+            let score_text = field(layout.score);
+            let score = if score_text.is_empty() {
+                None
+            } else {
+                match score_text.parse::<f64>() {
+                    Ok(v) if v.is_finite() => Some(v),
+                    _ => return Err(self.fail(line, layout.score, ParseProblem::BadScore(score_text.to_string()))),
+                }
+            };
+            entries.push(Entry {
+                word: word.to_string(),
+                pronunciation: field(layout.pronunciation).to_string(),
+                status,
+                source: field(layout.source).to_string(),
+                score,
+                note: field(layout.note).to_string(),
+                extra: layout.extra.iter().map(|&i| field(i).to_string()).collect(),
+                line,
+            });
+        }
+        Ok(entries)
+    }
+}
+
 struct ColumnLayout {
     word: usize,
     pronunciation: usize,
@@ -373,8 +439,9 @@ impl ColumnLayout {
     }
 }
 
-fn csv_error(err: csv::Error, path: &Path, text: &str) -> LexiconError {
-    let line = err.position().map(|p| p.line() as usize).unwrap_or(1);
+/// A csv error as a located parse error; `lines_before` is added to the reader's line numbers.
+fn csv_error(err: csv::Error, path: &Path, text: &str, lines_before: usize) -> LexiconError {
+    let line = err.position().map(|p| p.line() as usize).unwrap_or(1) + lines_before;
     let problem = match err.kind() {
         csv::ErrorKind::UnequalLengths { expected_len, len, .. } => {
             ParseProblem::FieldCount { expected: *expected_len as usize, found: *len as usize }
@@ -540,6 +607,32 @@ mod tests {
         std::fs::write(&path, "not,a,lexicon\n").unwrap();
         assert!(Lexicon::load(&path, HeadwordPolicy::default()).is_err());
         assert_eq!(std::fs::read_dir(dir.path()).unwrap().count(), 1);
+    }
+
+    #[test]
+    fn records_split_only_outside_quotes() {
+        let body = "a,\"x\ny\",1\nb,2\nc,3\n";
+        let pieces = split_records(body, 2, 1);
+        assert_eq!(pieces, [("a,\"x\ny\",1\n", 2), ("b,2\n", 4), ("c,3\n", 5)]);
+        assert_eq!(split_records("", 2, 1), [("", 2)]);
+    }
+
+    #[test]
+    fn chunked_parse_reports_file_lines() {
+        let mut text = String::from(HEADER);
+        for i in 0..40_000 {
+            text.push_str(&format!("w{i:05},K IY1,accepted,,,\"note with\nnewline\"\n"));
+        }
+        text.push_str("last,K IY1,bogus,,,\n");
+        match parse(&text) {
+            Err(LexiconError::Parse { line, problem: ParseProblem::UnknownStatus(_), .. }) => assert_eq!(line, 80_002),
+            other => panic!("{other:?}"),
+        }
+        text.truncate(text.len() - "last,K IY1,bogus,,,\n".len());
+        let mut lexicon = parse(&text).unwrap();
+        assert_eq!(lexicon.entries().len(), 40_000);
+        assert_eq!(lexicon.entries()[39_999].line, 80_000);
+        assert_eq!(lexicon.to_csv_bytes(), text.as_bytes());
     }
 
     #[test]
