@@ -56,7 +56,8 @@ pub fn make_demo(dir: &Path) -> anyhow::Result<Project> {
     let lexicon = Lexicon::load(&project.lexicon, project.headword_policy()).context("cannot load the demo lexicon")?;
     let words = dir.join("new-words.txt");
     let corpus = dir.join("passenger-queries.txt");
-    let items = super::queue::intake(&lexicon, Some(&words), Some((&corpus, TokenRule::default(), 1)))?;
+    let mut items = super::queue::intake(&lexicon, Some(&words), Some((&corpus, TokenRule::default(), 1)))?;
+    super::queue::guess_missing(&mut items, &super::queue::ProjectGuesser::open(&project, lexicon)?);
     super::queue::add_to_queue(&project, items)?;
     Ok(project)
 }

@@ -5,11 +5,15 @@ use super::{print_json, DataFormat, ProjectArgs};
 use anyhow::Context;
 use orthoepy::lexicon::Lexicon;
 use orthoepy::project::Project;
+use orthoepy::g2p::hybrid::{Guesser, LanguageConfig};
+use orthoepy::g2p::lts::RuleSet as LtsRules;
+use orthoepy::g2p::Model;
+use orthoepy::phoneset::Phoneset;
 use orthoepy::queue::{
-    items_from_corpus, items_from_word_list, Added, Apostrophe, Case, Digits, Hyphen, Item, Journal, Ledger, Queue,
-    TokenRule,
+    items_from_corpus, items_from_word_list, Added, AlignPair, Apostrophe, Candidate, Case, Digits, Hyphen, Item,
+    Journal, Ledger, Queue, TokenRule,
 };
-use orthoepy::tui::ItemState;
+use orthoepy::tui::{self, ItemState};
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
@@ -63,6 +67,9 @@ struct AddArgs {
     /// Case (corpus): fold (Quay = quay) or keep.
     #[arg(long, default_value = "fold", value_parser = ["fold", "keep"])]
     case: String,
+    /// Queue without guessing candidates (the review screen guesses them in the background).
+    #[arg(long)]
+    no_guess: bool,
     /// Queue corpus words seen at least this often.
     #[arg(long, default_value_t = 1)]
     min_count: u64,
@@ -164,7 +171,10 @@ fn add(project: &Project, a: AddArgs) -> anyhow::Result<ExitCode> {
     let lexicon = Lexicon::load(&project.lexicon, project.headword_policy()).context("cannot load the lexicon")?;
     let rule = token_rule(&a);
     let corpus = a.corpus.as_deref().map(|p| (p, rule, a.min_count));
-    let items = intake(&lexicon, a.words.as_deref(), corpus)?;
+    let mut items = intake(&lexicon, a.words.as_deref(), corpus)?;
+    if !a.no_guess {
+        guess_missing(&mut items, &ProjectGuesser::open(project, lexicon)?);
+    }
     let summary = add_to_queue(project, items)?;
     match a.format {
         DataFormat::Json => print_json(&summary)?,
@@ -205,11 +215,91 @@ fn list(project: &Project, format: DataFormat) -> anyhow::Result<ExitCode> {
     match format {
         DataFormat::Json => print_json(&listed)?,
         DataFormat::Text => {
+            use std::io::Write;
+            let mut out = std::io::stdout().lock();
             for l in &listed {
                 let best = l.item.candidates.first().map(|c| c.pronunciation.as_str()).unwrap_or("-");
-                println!("{:<8} {:<7} {:>5}  {:<20} {}", l.state, l.item.kind.tag(), l.item.count, l.item.word, best);
+                let line = writeln!(out, "{:<8} {:<7} {:>5}  {:<20} {}", l.state, l.item.kind.tag(), l.item.count, l.item.word, best);
+                if line.is_err() {
+                    break; // the reader went away (e.g. `| head`)
+                }
             }
         }
     }
     Ok(ExitCode::SUCCESS)
+}
+
+/// The project's guessers behind the review screen's [`tui::Guesser`]: the hybrid guesser
+/// (compounds, derivations, initialisms, letter-to-sound rules) plus the trained model's N-best
+/// list with letter↔phone alignments when the project has a model.
+pub struct ProjectGuesser {
+    lexicon: Lexicon,
+    index: orthoepy::lexicon::LexiconIndex,
+    phoneset: Phoneset,
+    config: LanguageConfig,
+    rules: Option<LtsRules>,
+    model: Option<Model>,
+}
+
+/// How many candidates to keep per word.
+const CANDIDATES_PER_WORD: usize = 5;
+
+impl ProjectGuesser {
+    /// Load the project's phoneset, language configuration, rules and model.
+    pub fn open(project: &Project, lexicon: Lexicon) -> anyhow::Result<ProjectGuesser> {
+        let phoneset = Phoneset::resolve(&project.phoneset, &project.root).context("cannot load the phoneset")?;
+        let language = project.letter_to_sound.clone().unwrap_or_else(|| "en".to_string());
+        let config = LanguageConfig::shipped(&language, &phoneset)
+            .or_else(|_| LanguageConfig::shipped("en", &phoneset))
+            .context("cannot load the guesser's language configuration")?;
+        let rules = LtsRules::shipped(&language, &phoneset).ok();
+        let model = match &project.model {
+            Some(path) if path.exists() => Some(Model::load(path).with_context(|| format!("cannot load {}", path.display()))?),
+            _ => None,
+        };
+        let index = lexicon.index();
+        Ok(ProjectGuesser { lexicon, index, phoneset, config, rules, model })
+    }
+}
+
+impl tui::Guesser for ProjectGuesser {
+    fn label(&self) -> &str {
+        "guessing"
+    }
+
+    fn guess(&self, word: &str) -> Vec<Candidate> {
+        let mut guesser = Guesser::new(&self.lexicon, &self.index, &self.phoneset, &self.config);
+        if let Some(r) = &self.rules {
+            guesser = guesser.with_rules(r);
+        }
+        let mut item = Item::new_word(word);
+        for c in guesser.guess(word, CANDIDATES_PER_WORD) {
+            let mut cand = Candidate::new(&c.pronunciation, "");
+            cand.source = c.sources.iter().map(ToString::to_string).collect::<Vec<_>>().join("+");
+            cand.score = Some(c.score);
+            item.merge(Item { candidates: vec![cand], ..Item::new_word(word) });
+        }
+        if let Some(model) = &self.model {
+            for h in model.guess(word, CANDIDATES_PER_WORD).hypotheses {
+                let mut cand = Candidate::new(&h.phones.join(" "), "g2p");
+                cand.score = Some(h.posterior);
+                cand.alignment =
+                    h.alignment.iter().map(|p| AlignPair { letters: p.letters.clone(), phones: p.phones.join(" ") }).collect();
+                item.merge(Item { candidates: vec![cand], ..Item::new_word(word) });
+            }
+        }
+        item.candidates.truncate(CANDIDATES_PER_WORD);
+        item.candidates
+    }
+}
+
+/// Fill in candidates for items that have none, with a progress bar on a terminal.
+pub fn guess_missing(items: &mut [Item], guesser: &dyn tui::Guesser) {
+    let todo = items.iter().filter(|i| i.candidates.is_empty()).count();
+    let bar = super::progress_bar(todo as u64, "guessing");
+    for item in items.iter_mut().filter(|i| i.candidates.is_empty()) {
+        item.candidates = guesser.guess(&item.word);
+        bar.inc(1);
+    }
+    bar.finish_and_clear();
 }

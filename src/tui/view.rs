@@ -159,8 +159,8 @@ fn candidate_line(i: usize, c: &Candidate, selected: bool, t: Theme) -> Line<'st
     let marker = if selected { "▶" } else { " " };
     let style = if selected { t.selected() } else { Style::default() };
     Line::from(vec![
-        Span::styled(format!("{}{} {:<24}", i + 1, marker, c.pronunciation), style),
-        Span::styled(format!(" {} ", bar(c.score, 8)), t.fg(Color::Green)),
+        Span::styled(format!("{}{} {:<20}", i + 1, marker, c.pronunciation), style),
+        Span::styled(format!(" {} ", bar(c.score, 6)), t.fg(Color::Green)),
         Span::styled(c.source.clone(), t.dim()),
     ])
 }
