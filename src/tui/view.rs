@@ -245,16 +245,25 @@ fn draw_neighbours(frame: &mut Frame, app: &App, t: Theme, area: Rect) {
     frame.render_widget(Paragraph::new(lines).block(block), area);
 }
 
+fn gap(s: &str) -> String {
+    if s.is_empty() {
+        "–".to_string()
+    } else {
+        s.to_string()
+    }
+}
+
 fn feature_lines(view: &FeatureView, width: usize, t: Theme) -> Vec<Line<'static>> {
+    let cell = |a: &str, b: &str| if a == b { gap(a) } else { format!("{}/{}", gap(a), gap(b)) };
     let widths: Vec<usize> = view
         .columns
         .iter()
         .enumerate()
         .map(|(i, c)| {
-            let mut w = c.left.chars().count().max(c.right.chars().count());
+            let mut w = gap(&c.left).chars().count().max(gap(&c.right).chars().count());
             for tr in &view.tracks {
                 if let Some((a, b)) = tr.cells.get(i) {
-                    w = w.max(if a == b { a.chars().count() } else { a.chars().count() + b.chars().count() + 1 });
+                    w = w.max(cell(a, b).chars().count());
                 }
             }
             w + 1
@@ -275,7 +284,6 @@ fn feature_lines(view: &FeatureView, width: usize, t: Theme) -> Vec<Line<'static
         }
         Line::from(spans)
     };
-    let gap = |s: &str| if s.is_empty() { "–".to_string() } else { s.to_string() };
     let mut lines = vec![
         row("this", view.columns.iter().map(|c| (gap(&c.left), c.left != c.right)).collect()),
         row("other", view.columns.iter().map(|c| (gap(&c.right), c.left != c.right)).collect()),
@@ -284,7 +292,7 @@ fn feature_lines(view: &FeatureView, width: usize, t: Theme) -> Vec<Line<'static
         let cells: Vec<(String, bool)> = tr
             .cells
             .iter()
-            .map(|(a, b)| if a == b { (a.clone(), false) } else { (format!("{}/{}", gap(a), gap(b)), true) })
+            .map(|(a, b)| (cell(a, b), a != b))
             .collect();
         if cells.iter().any(|(_, d)| *d) {
             lines.push(row(&tr.name, cells));
@@ -322,7 +330,12 @@ fn draw_status(frame: &mut Frame, app: &App, t: Theme, area: Rect) {
         Span::styled(format!("✗ not in {}: {}", app.phones.name(), bad.join(" ")), t.bad())
     };
     let (_, _, by) = app.progress();
-    let origins: Vec<String> = by.iter().map(|(k, (d, n))| format!("{k} {d}/{n}")).collect();
+    // "words:new-words.txt" is shown as "new-words" to keep the line short.
+    let short = |k: &str| {
+        let name = k.rsplit(':').next().unwrap_or(k);
+        name.rsplit_once('.').map_or(name, |(stem, _)| stem).to_string()
+    };
+    let origins: Vec<String> = by.iter().map(|(k, (d, n))| format!("{} {d}/{n}", short(k))).collect();
     let mut first = vec![validation];
     if !app.filter.text().is_empty() {
         first.push(Span::styled(format!("   filter: {}", app.filter.text()), t.fg(Color::Yellow)));
