@@ -41,19 +41,19 @@ enum QueueAction {
 }
 
 #[derive(Debug, clap::Args)]
-#[group(id = "from", required = true, multiple = false)]
+#[command(group(clap::ArgGroup::new("from").required(true).args(["words", "corpus", "variants", "audit"])))]
 struct AddArgs {
     /// A word list: one word per line, optionally a tab and an example line.
-    #[arg(long, value_name = "FILE", group = "from")]
+    #[arg(long, value_name = "FILE")]
     words: Option<PathBuf>,
     /// Running text: words missing from the lexicon are counted and queued.
-    #[arg(long, value_name = "FILE", group = "from")]
+    #[arg(long, value_name = "FILE")]
     corpus: Option<PathBuf>,
     /// Variant proposals of an accent profile (shipped id or profile file).
-    #[arg(long, value_name = "PROFILE", group = "from")]
+    #[arg(long, value_name = "PROFILE")]
     variants: Option<String>,
     /// Findings of the lexicon audit.
-    #[arg(long, group = "from")]
+    #[arg(long)]
     audit: bool,
     /// Apostrophes inside words (corpus): keep (o'clock), split (o + clock) or drop (oclock).
     #[arg(long, default_value = "keep", value_parser = ["keep", "split", "drop"])]
