@@ -25,6 +25,10 @@ enum Command {
     Guess(cli::guess::Args),
     Split(cli::split::Args),
     Evaluate(cli::evaluate::Args),
+    Queue(cli::queue::Args),
+    Review(cli::review::Args),
+    Apply(cli::apply::Args),
+    Demo(cli::demo::Args),
 }
 
 fn main() -> ExitCode {
@@ -39,6 +43,10 @@ fn main() -> ExitCode {
         Command::Guess(args) => cli::guess::run(args),
         Command::Split(args) => cli::split::run(args),
         Command::Evaluate(args) => cli::evaluate::run(args),
+        Command::Queue(args) => cli::queue::run(args),
+        Command::Review(args) => cli::review::run(args),
+        Command::Apply(args) => cli::apply::run(args),
+        Command::Demo(args) => cli::demo::run(args),
     };
     match result {
         Ok(code) => code,

@@ -6,7 +6,7 @@
 
 use std::collections::HashMap;
 
-use super::journal::{Decision, Logged, Record};
+use super::journal::{Action, Decision, Logged, Record};
 
 /// Decisions in force, rebuilt from journal records.
 #[derive(Debug, Clone, Default)]
@@ -62,9 +62,10 @@ impl Ledger {
         self.per_item.get(key).and_then(|s| s.last()).map(|(seq, d)| (*seq, d))
     }
 
-    /// Whether the decision in force for this item is already merged into the lexicon.
+    /// Whether the decision in force for this item is already merged into the lexicon
+    /// (set-aside decisions never are: they stay open).
     pub fn is_applied(&self, key: &str) -> bool {
-        self.current(key).is_some_and(|(seq, _)| seq <= self.applied_through)
+        self.current(key).is_some_and(|(seq, d)| seq <= self.applied_through && d.action != Action::SetAside)
     }
 
     /// Highest sequence number merged into the lexicon (0 = none).
@@ -94,7 +95,6 @@ impl Ledger {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::queue::Action;
 
     fn d(item: &str, action: Action) -> Record {
         Record::Decide(Decision { item: item.into(), word: item.into(), action, note: String::new() })

@@ -24,6 +24,16 @@ pub enum ItemState {
 }
 
 impl ItemState {
+    /// Lower-case name, as used by the filter's `state=`.
+    pub fn name(self) -> &'static str {
+        match self {
+            ItemState::Pending => "pending",
+            ItemState::Decided => "decided",
+            ItemState::Aside => "aside",
+            ItemState::Applied => "applied",
+        }
+    }
+
     /// Derive the state from the decision in force.
     pub fn of(action: Option<&Action>, applied: bool) -> ItemState {
         match (action, applied) {

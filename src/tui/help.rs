@@ -6,7 +6,7 @@ pub const KEYS: &[(&str, &str)] = &[
     ("↑/↓  k/j", "move among candidates"),
     ("1–9", "pick candidate N"),
     ("Enter", "accept the selected candidate"),
-    ("e", "edit it in the phone editor (Tab completes, Enter saves, Esc cancels)"),
+    ("e", "edit it in the phone editor (Tab completes, Esc cancels)"),
     ("x", "reject the item"),
     ("s", "set the item aside"),
     ("n / p", "next / previous item"),

@@ -5,38 +5,26 @@
 //! Runs in the terminal loop in answer to effects; the screen state never touches the lexicon.
 
 use crate::lexicon::{normalize_key, EntryId, Lexicon, LexiconIndex};
+use crate::phoneset::Phoneset;
+use crate::variants::feature_view;
 
 use super::state::{FeatureColumn, FeatureTrack, FeatureView, Neighbours, SearchMode, WordPron};
 
 /// How many words each neighbour list holds at most.
 pub const NEIGHBOUR_LIMIT: usize = 6;
 
-/// Phone features for the feature view: `(feature name, value)` pairs of a phone token.
-pub type FeatureFn = Box<dyn Fn(&str) -> Vec<(String, String)> + Send + Sync>;
-
 /// A lexicon with its indexes, ready to answer the screen.
 pub struct Lookups {
     lexicon: Lexicon,
     index: LexiconIndex,
     reversed: Vec<(String, EntryId)>,
-    features: FeatureFn,
-}
-
-/// The stress level written as a digit suffix on a token (CMUdict convention: 0 none,
-/// 1 primary, 2 secondary), as a feature track; tokens without a digit have none.
-pub fn stress_feature(token: &str) -> Vec<(String, String)> {
-    let value = match token.chars().last() {
-        Some('1') => "primary",
-        Some('2') => "secondary",
-        Some('0') => "none",
-        _ => "",
-    };
-    vec![("stress".to_string(), value.to_string())]
+    phoneset: Option<Phoneset>,
 }
 
 impl Lookups {
-    /// Index `lexicon`; `features` gives the feature tracks of the feature view.
-    pub fn new(lexicon: Lexicon, features: FeatureFn) -> Lookups {
+    /// Index `lexicon`; with a phoneset the feature view shows feature tracks, without one
+    /// only the aligned phones.
+    pub fn new(lexicon: Lexicon, phoneset: Option<Phoneset>) -> Lookups {
         let index = lexicon.index();
         let policy = *lexicon.policy();
         let mut reversed: Vec<(String, EntryId)> = lexicon
@@ -46,7 +34,7 @@ impl Lookups {
             .map(|(id, e)| (normalize_key(e.word.trim(), &policy).chars().rev().collect(), id))
             .collect();
         reversed.sort();
-        Lookups { lexicon, index, reversed, features }
+        Lookups { lexicon, index, reversed, phoneset }
     }
 
     /// The lexicon being looked in.
@@ -148,31 +136,41 @@ impl Lookups {
         (suffix_rev.chars().rev().collect(), words)
     }
 
-    /// Align two pronunciations phone by phone and lay their features side by side.
+    /// Align two pronunciations phone by phone and lay their features side by side (through
+    /// [`feature_view`] when both parse in the phoneset; otherwise phones only).
     pub fn feature_view(&self, left: &str, right: &str, against: String) -> FeatureView {
-        let (pairs, _) = align(&tokens(left), &tokens(right));
-        let columns: Vec<FeatureColumn> = pairs
-            .iter()
-            .map(|(l, r)| FeatureColumn { left: l.clone().unwrap_or_default(), right: r.clone().unwrap_or_default() })
-            .collect();
-        let mut tracks: Vec<FeatureTrack> = Vec::new();
-        for (i, (l, r)) in pairs.iter().enumerate() {
-            let lf = l.as_deref().map(|t| (self.features)(t)).unwrap_or_default();
-            let rf = r.as_deref().map(|t| (self.features)(t)).unwrap_or_default();
-            let names = lf.iter().chain(rf.iter()).map(|(n, _)| n.clone());
-            for name in names {
-                if !tracks.iter().any(|t| t.name == name) {
-                    tracks.push(FeatureTrack { name: name.clone(), cells: vec![(String::new(), String::new()); pairs.len()] });
-                }
-            }
-            for track in tracks.iter_mut() {
-                let get = |fs: &[(String, String)]| fs.iter().find(|(n, _)| *n == track.name).map(|(_, v)| v.clone());
-                if let Some(cell) = track.cells.get_mut(i) {
-                    *cell = (get(&lf).unwrap_or_default(), get(&rf).unwrap_or_default());
-                }
-            }
+        let parsed = self.phoneset.as_ref().and_then(|set| Some((set, set.parse(left).ok()?, set.parse(right).ok()?)));
+        if let Some((set, l, r)) = parsed {
+            let v = feature_view(set, &r, &l);
+            let columns = v
+                .columns
+                .iter()
+                .map(|c| FeatureColumn {
+                    left: c.variant.clone().unwrap_or_default(),
+                    right: c.canonical.clone().unwrap_or_default(),
+                })
+                .collect();
+            let tracks = v
+                .rows
+                .iter()
+                .map(|row| FeatureTrack {
+                    name: row.feature.clone(),
+                    cells: row
+                        .variant
+                        .iter()
+                        .zip(&row.canonical)
+                        .map(|(a, b)| (a.clone().unwrap_or_default(), b.clone().unwrap_or_default()))
+                        .collect(),
+                })
+                .collect();
+            return FeatureView { against, columns, tracks };
         }
-        FeatureView { against, columns, tracks }
+        let (pairs, _) = align(&tokens(left), &tokens(right));
+        let columns = pairs
+            .into_iter()
+            .map(|(l, r)| FeatureColumn { left: l.unwrap_or_default(), right: r.unwrap_or_default() })
+            .collect();
+        FeatureView { against, columns, tracks: Vec::new() }
     }
 }
 
@@ -241,7 +239,8 @@ mod tests {
             Entry::new("quay", "K IY1"),
             Entry::new("key", "K IY1"),
         ];
-        Lookups::new(Lexicon::from_entries(entries, HeadwordPolicy { fold_case: true }), Box::new(stress_feature))
+        let set = Phoneset::shipped("en-arpa").ok();
+        Lookups::new(Lexicon::from_entries(entries, HeadwordPolicy { fold_case: true }), set)
     }
 
     #[test]
@@ -274,7 +273,17 @@ mod tests {
         let f = n.features.unwrap();
         assert_eq!(f.columns.len(), 5);
         assert_eq!(f.columns[4].left, "AH0");
-        assert_eq!(f.tracks[0].name, "stress");
+        assert_eq!(f.columns[4].right, "ER0");
+        // ER and AH differ in rhoticity at least (en-arpa features; r-coloured vs plain schwa,
+        // IPA chart conventions).
+        let differing: Vec<&str> = f
+            .tracks
+            .iter()
+            .filter(|t| t.cells.get(4).is_some_and(|(a, b)| a != b))
+            .map(|t| t.name.as_str())
+            .collect();
+        assert!(!differing.is_empty());
+        assert!(f.tracks.iter().all(|t| t.cells.first().is_some_and(|(a, b)| a == b)));
     }
 
     #[test]

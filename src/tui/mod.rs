@@ -19,8 +19,8 @@ mod view;
 pub use editor::Editor;
 pub use filter::{Filter, ItemState};
 pub use help::KEYS;
-pub use lookups::{align, stress_feature, FeatureFn, Lookups, NEIGHBOUR_LIMIT};
-pub use phones::{check_all, PhoneCheck, SymbolList, TokenVerdict};
+pub use lookups::{align, Lookups, NEIGHBOUR_LIMIT};
+pub use phones::{check_all, PhoneCheck, PhonesetCheck, SymbolList, TokenVerdict};
 pub use state::{
     App, FeatureColumn, FeatureTrack, FeatureView, JobProgress, Mode, Neighbours, PendingWrite, SaveState, SearchBox,
     SearchMode, WordPron,

@@ -7,6 +7,8 @@
 
 use std::collections::BTreeSet;
 
+use crate::phoneset::Phoneset;
+
 /// Verdict on one phone token.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub enum TokenVerdict {
@@ -82,4 +84,78 @@ impl PhoneCheck for SymbolList {
 /// Check a whole pronunciation: each token with its verdict.
 pub fn check_all(checker: &dyn PhoneCheck, pronunciation: &str) -> Vec<(String, TokenVerdict)> {
     pronunciation.split_whitespace().map(|t| (t.to_string(), checker.check(t))).collect()
+}
+
+/// Phone knowledge from a [`Phoneset`]: tokens are its symbols, nuclei with each declared
+/// stress mark (and bare too when stress is optional); suggestions come from
+/// [`Phoneset::suggest`].
+///
+/// ```
+/// use orthoepy::phoneset::Phoneset;
+/// use orthoepy::tui::{PhoneCheck, PhonesetCheck, TokenVerdict};
+/// let check = PhonesetCheck::new(Phoneset::shipped("en-arpa").unwrap());
+/// assert_eq!(check.check("AO2"), TokenVerdict::Known);
+/// assert!(matches!(check.check("Q"), TokenVerdict::Unknown(_)));
+/// assert!(check.complete("S").contains(&"SH".to_string()));
+/// ```
+pub struct PhonesetCheck {
+    set: Phoneset,
+    list: SymbolList,
+}
+
+impl PhonesetCheck {
+    /// Wrap a phoneset.
+    pub fn new(set: Phoneset) -> PhonesetCheck {
+        let marks: Vec<&str> = set.stress_marks().iter().map(|s| s.mark.as_str()).collect();
+        let mut tokens = BTreeSet::new();
+        for p in set.phones() {
+            if p.is_nucleus() && !marks.is_empty() {
+                tokens.extend(marks.iter().map(|m| format!("{}{m}", p.symbol)));
+                if !set.stress_required() {
+                    tokens.insert(p.symbol.clone());
+                }
+            } else {
+                tokens.insert(p.symbol.clone());
+            }
+        }
+        let list = SymbolList { name: set.id().to_string(), tokens };
+        PhonesetCheck { set, list }
+    }
+}
+
+impl PhoneCheck for PhonesetCheck {
+    fn name(&self) -> &str {
+        self.list.name()
+    }
+
+    fn check(&self, token: &str) -> TokenVerdict {
+        if self.list.tokens.contains(token) {
+            return TokenVerdict::Known;
+        }
+        let (bare, stress) = self.set.split_stress(token);
+        let mark = stress.map(|s| s.mark).unwrap_or_default();
+        let mut out: Vec<String> = Vec::new();
+        let mut push = |t: String| {
+            if self.list.tokens.contains(&t) && !out.contains(&t) {
+                out.push(t);
+            }
+        };
+        if self.set.lookup(bare).is_some() {
+            // A known phone with a missing or stray stress mark.
+            for m in self.set.stress_marks() {
+                push(format!("{bare}{}", m.mark));
+            }
+            push(bare.to_string());
+        }
+        for s in self.set.suggest(bare, 4) {
+            push(format!("{s}{mark}"));
+            push(s);
+        }
+        out.truncate(3);
+        TokenVerdict::Unknown(out)
+    }
+
+    fn complete(&self, prefix: &str) -> Vec<String> {
+        self.list.complete(prefix)
+    }
 }

@@ -126,7 +126,7 @@ fn draw_word(frame: &mut Frame, app: &App, t: Theme, area: Rect) {
                 ItemKind::Variant { canonical, profile } => format!("variant of /{canonical}/ ({profile})"),
                 ItemKind::Audit { check, message, .. } => format!("audit {check}: {message}"),
             };
-            let state = format!("{:?}", app.state_of(app.cursor)).to_lowercase();
+            let state = app.state_of(app.cursor).name();
             vec![
                 Line::from(vec![
                     Span::styled(format!(" {} ", item.word), t.word()),
@@ -159,8 +159,8 @@ fn candidate_line(i: usize, c: &Candidate, selected: bool, t: Theme) -> Line<'st
     let marker = if selected { "▶" } else { " " };
     let style = if selected { t.selected() } else { Style::default() };
     Line::from(vec![
-        Span::styled(format!("{}{} {:<24}", i + 1, marker, c.pronunciation), style),
-        Span::styled(format!(" {} ", bar(c.score, 8)), t.fg(Color::Green)),
+        Span::styled(format!("{}{} {:<20}", i + 1, marker, c.pronunciation), style),
+        Span::styled(format!(" {} ", bar(c.score, 6)), t.fg(Color::Green)),
         Span::styled(c.source.clone(), t.dim()),
     ])
 }
@@ -245,16 +245,25 @@ fn draw_neighbours(frame: &mut Frame, app: &App, t: Theme, area: Rect) {
     frame.render_widget(Paragraph::new(lines).block(block), area);
 }
 
+fn gap(s: &str) -> String {
+    if s.is_empty() {
+        "–".to_string()
+    } else {
+        s.to_string()
+    }
+}
+
 fn feature_lines(view: &FeatureView, width: usize, t: Theme) -> Vec<Line<'static>> {
+    let cell = |a: &str, b: &str| if a == b { gap(a) } else { format!("{}/{}", gap(a), gap(b)) };
     let widths: Vec<usize> = view
         .columns
         .iter()
         .enumerate()
         .map(|(i, c)| {
-            let mut w = c.left.chars().count().max(c.right.chars().count());
+            let mut w = gap(&c.left).chars().count().max(gap(&c.right).chars().count());
             for tr in &view.tracks {
                 if let Some((a, b)) = tr.cells.get(i) {
-                    w = w.max(if a == b { a.chars().count() } else { a.chars().count() + b.chars().count() + 1 });
+                    w = w.max(cell(a, b).chars().count());
                 }
             }
             w + 1
@@ -276,12 +285,15 @@ fn feature_lines(view: &FeatureView, width: usize, t: Theme) -> Vec<Line<'static
         Line::from(spans)
     };
     let mut lines = vec![
-        row("this", view.columns.iter().map(|c| (c.left.clone(), c.left != c.right)).collect()),
-        row("other", view.columns.iter().map(|c| (c.right.clone(), c.left != c.right)).collect()),
+        row("this", view.columns.iter().map(|c| (gap(&c.left), c.left != c.right)).collect()),
+        row("other", view.columns.iter().map(|c| (gap(&c.right), c.left != c.right)).collect()),
     ];
     for tr in &view.tracks {
-        let cells: Vec<(String, bool)> =
-            tr.cells.iter().map(|(a, b)| if a == b { (a.clone(), false) } else { (format!("{a}/{b}"), true) }).collect();
+        let cells: Vec<(String, bool)> = tr
+            .cells
+            .iter()
+            .map(|(a, b)| (cell(a, b), a != b))
+            .collect();
         if cells.iter().any(|(_, d)| *d) {
             lines.push(row(&tr.name, cells));
         }
@@ -318,7 +330,12 @@ fn draw_status(frame: &mut Frame, app: &App, t: Theme, area: Rect) {
         Span::styled(format!("✗ not in {}: {}", app.phones.name(), bad.join(" ")), t.bad())
     };
     let (_, _, by) = app.progress();
-    let origins: Vec<String> = by.iter().map(|(k, (d, n))| format!("{k} {d}/{n}")).collect();
+    // "words:new-words.txt" is shown as "new-words" to keep the line short.
+    let short = |k: &str| {
+        let name = k.rsplit(':').next().unwrap_or(k);
+        name.rsplit_once('.').map_or(name, |(stem, _)| stem).to_string()
+    };
+    let origins: Vec<String> = by.iter().map(|(k, (d, n))| format!("{} {d}/{n}", short(k))).collect();
     let mut first = vec![validation];
     if !app.filter.text().is_empty() {
         first.push(Span::styled(format!("   filter: {}", app.filter.text()), t.fg(Color::Yellow)));
