@@ -1,1 +1,333 @@
-//! (being written)
+//! Held-out evaluation of pronunciation guessers: the deterministic word-level train/test
+//! split, phone and word error rates (with and without stress), a breakdown by word length and
+//! the most frequent phone confusions. Owns scoring only; the guesser is any function from a
+//! word to its top pronunciation (e.g. [`crate::g2p::Model::guess`]).
+//!
+//! **Split.** A word's bucket is `FNV-1a-64(NFC(lowercase(word))) mod 100` (FNV-1a with the
+//! standard 64-bit offset basis 0xcbf29ce484222325 and prime 0x100000001b3, over the UTF-8
+//! bytes); the word is a test word when its bucket is below the test percentage. All
+//! pronunciation variants of a word therefore fall on the same side.
+//!
+//! **PER.** For each word, the edit distance (Levenshtein, unit costs) from the top hypothesis
+//! to the reference variant closest to it, summed over words, divided by the summed lengths of
+//! those closest references. **WER.** A word is right when its top hypothesis equals any
+//! reference variant. "Unstressed" figures strip stress from both sides first
+//! ([`crate::g2p::strip_stress`]).
+
+use std::collections::BTreeMap;
+
+use rayon::prelude::*;
+use serde::Serialize;
+use unicode_normalization::UnicodeNormalization;
+
+use crate::g2p::{strip_stress, Model};
+
+/// The split hash of a word (see the module docs).
+///
+/// ```
+/// // FNV-1a 64 of the empty string is the offset basis (Fowler, Noll, Vo; IETF draft
+/// // draft-eastlake-fnv).
+/// assert_eq!(orthoepy::eval::word_hash(""), 0xcbf29ce484222325);
+/// assert_eq!(orthoepy::eval::word_hash("a"), 0xaf63dc4c8601ec8c);
+/// ```
+pub fn word_hash(word: &str) -> u64 {
+    let normal: String = word.nfc().collect::<String>().to_lowercase();
+    normal.bytes().fold(0xcbf2_9ce4_8422_2325u64, |h, b| (h ^ u64::from(b)).wrapping_mul(0x0100_0000_01b3))
+}
+
+/// True if `word` belongs to the test side of a split with `test_percent` percent test words.
+pub fn is_test_word(word: &str, test_percent: u32) -> bool {
+    word_hash(word) % 100 < u64::from(test_percent)
+}
+
+/// Splits items into (train, test) by the word each belongs to.
+///
+/// ```
+/// use orthoepy::eval::split_by_word;
+/// let items = vec![("read", 1), ("read", 2), ("write", 3)];
+/// let (train, test) = split_by_word(items, |i| i.0, 50);
+/// assert_eq!(train.len() + test.len(), 3);
+/// assert!(train.iter().filter(|i| i.0 == "read").count() % 2 == 0); // variants stay together
+/// ```
+pub fn split_by_word<T, F: Fn(&T) -> &str>(items: Vec<T>, word_of: F, test_percent: u32) -> (Vec<T>, Vec<T>) {
+    items.into_iter().partition(|item| !is_test_word(word_of(item), test_percent))
+}
+
+/// One step of an alignment between a hypothesis and a reference.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum EditOp<'a> {
+    /// Same symbol on both sides.
+    Match(&'a str),
+    /// Reference symbol replaced by a hypothesis symbol.
+    Substitute {
+        /// Reference symbol.
+        reference: &'a str,
+        /// Hypothesis symbol.
+        hypothesis: &'a str,
+    },
+    /// Hypothesis symbol with no reference counterpart.
+    Insert(&'a str),
+    /// Reference symbol missing from the hypothesis.
+    Delete(&'a str),
+}
+
+fn distance_table<S: AsRef<str>>(hyp: &[S], reference: &[S]) -> Vec<Vec<usize>> {
+    let mut d = vec![vec![0usize; reference.len() + 1]; hyp.len() + 1];
+    for (i, row) in d.iter_mut().enumerate() {
+        row[0] = i;
+    }
+    for j in 0..=reference.len() {
+        d[0][j] = j;
+    }
+    for i in 1..=hyp.len() {
+        for j in 1..=reference.len() {
+            let sub = d[i - 1][j - 1] + usize::from(hyp[i - 1].as_ref() != reference[j - 1].as_ref());
+            d[i][j] = sub.min(d[i - 1][j] + 1).min(d[i][j - 1] + 1);
+        }
+    }
+    d
+}
+
+/// Levenshtein distance between two symbol sequences.
+///
+/// ```
+/// // Classic textbook example (kitten → sitting = 3 edits), on characters.
+/// let a: Vec<String> = "kitten".chars().map(String::from).collect();
+/// let b: Vec<String> = "sitting".chars().map(String::from).collect();
+/// assert_eq!(orthoepy::eval::edit_distance(&a, &b), 3);
+/// ```
+pub fn edit_distance<S: AsRef<str>>(hyp: &[S], reference: &[S]) -> usize {
+    distance_table(hyp, reference)[hyp.len()][reference.len()]
+}
+
+/// A minimal-cost alignment of `hyp` against `reference`, in order.
+pub fn align<'a, S: AsRef<str>>(hyp: &'a [S], reference: &'a [S]) -> Vec<EditOp<'a>> {
+    let d = distance_table(hyp, reference);
+    let (mut i, mut j) = (hyp.len(), reference.len());
+    let mut ops = Vec::new();
+    while i > 0 || j > 0 {
+        if i > 0 && j > 0 {
+            let (h, r) = (hyp[i - 1].as_ref(), reference[j - 1].as_ref());
+            if d[i][j] == d[i - 1][j - 1] + usize::from(h != r) {
+                ops.push(if h == r { EditOp::Match(r) } else { EditOp::Substitute { reference: r, hypothesis: h } });
+                i -= 1;
+                j -= 1;
+                continue;
+            }
+        }
+        if i > 0 && d[i][j] == d[i - 1][j] + 1 {
+            ops.push(EditOp::Insert(hyp[i - 1].as_ref()));
+            i -= 1;
+        } else {
+            ops.push(EditOp::Delete(reference[j - 1].as_ref()));
+            j -= 1;
+        }
+    }
+    ops.reverse();
+    ops
+}
+
+/// The reference closest to `hyp`: `(index, edit distance)`; ties go to the first. `None` if
+/// there are no references.
+pub fn closest_reference<S: AsRef<str>>(hyp: &[S], references: &[Vec<S>]) -> Option<(usize, usize)> {
+    references.iter().enumerate().map(|(i, r)| (i, edit_distance(hyp, r))).min_by_key(|&(i, d)| (d, i))
+}
+
+/// One scored word: its top hypothesis and all reference variants.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Scored {
+    /// The word.
+    pub word: String,
+    /// Top hypothesis (empty if the guesser had none).
+    pub hypothesis: Vec<String>,
+    /// Every reference pronunciation of the word.
+    pub references: Vec<Vec<String>>,
+}
+
+/// Error rates of one setting (stress kept or stripped).
+#[derive(Clone, Debug, Default, PartialEq, Serialize)]
+pub struct Rates {
+    /// Words scored.
+    pub words: usize,
+    /// Words whose top hypothesis matches no reference.
+    pub word_errors: usize,
+    /// Summed edit distance to the closest reference.
+    pub phone_errors: usize,
+    /// Summed length of the closest references.
+    pub reference_phones: usize,
+    /// `word_errors / words`.
+    pub wer: f64,
+    /// `phone_errors / reference_phones`.
+    pub per: f64,
+}
+
+impl Rates {
+    fn add(&mut self, hyp: &[String], refs: &[Vec<String>]) {
+        self.words += 1;
+        if !refs.iter().any(|r| r == hyp) {
+            self.word_errors += 1;
+        }
+        if let Some((i, d)) = closest_reference(hyp, refs) {
+            self.phone_errors += d;
+            self.reference_phones += refs[i].len();
+        }
+    }
+
+    fn finish(&mut self) {
+        self.wer = self.word_errors as f64 / self.words.max(1) as f64;
+        self.per = self.phone_errors as f64 / self.reference_phones.max(1) as f64;
+    }
+}
+
+/// Error rates of the words with a given number of letters.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct LengthBreakdown {
+    /// Letters (code points) in the word; the last bucket holds this many or more.
+    pub letters: usize,
+    /// Rates with stress kept.
+    pub rates: Rates,
+}
+
+/// How often a phone confusion occurred (stress kept).
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct Confusion {
+    /// Reference phone (`None` for an insertion).
+    pub reference: Option<String>,
+    /// Hypothesis phone (`None` for a deletion).
+    pub hypothesis: Option<String>,
+    /// Occurrences.
+    pub count: usize,
+}
+
+/// Longest word length with its own breakdown bucket.
+const LENGTH_BUCKETS: usize = 15;
+/// Confusions listed.
+const TOP_CONFUSIONS: usize = 25;
+
+/// A complete evaluation report.
+#[derive(Clone, Debug, Default, PartialEq, Serialize)]
+pub struct Evaluation {
+    /// Rates with stress marks as written.
+    pub stressed: Rates,
+    /// Rates with stress stripped from hypotheses and references.
+    pub unstressed: Rates,
+    /// Rates by word length (stress kept).
+    pub by_length: Vec<LengthBreakdown>,
+    /// Most frequent confusions against the closest reference, most frequent first.
+    pub confusions: Vec<Confusion>,
+}
+
+/// Scores words (see the module docs for the definitions).
+///
+/// ```
+/// use orthoepy::eval::{score, Scored};
+/// let p = |s: &str| s.split(' ').map(String::from).collect::<Vec<_>>();
+/// let words = vec![
+///     Scored { word: "either".into(), hypothesis: p("IY1 DH ER0"), references: vec![p("IY1 DH ER0"), p("AY1 DH ER0")] },
+///     Scored { word: "tomato".into(), hypothesis: p("T AH0 M EY1 T OW2"), references: vec![p("T AH0 M EY1 T OW0")] },
+/// ];
+/// let e = score(&words);
+/// assert_eq!(e.stressed.word_errors, 1);
+/// assert_eq!(e.unstressed.word_errors, 0);
+/// assert_eq!(e.stressed.phone_errors, 1);
+/// ```
+pub fn score(words: &[Scored]) -> Evaluation {
+    let mut eval = Evaluation::default();
+    let mut lengths: BTreeMap<usize, Rates> = BTreeMap::new();
+    let mut confusions: BTreeMap<(Option<String>, Option<String>), usize> = BTreeMap::new();
+    for w in words {
+        eval.stressed.add(&w.hypothesis, &w.references);
+        let bare = |p: &[String]| p.iter().map(|s| strip_stress(s)).collect::<Vec<_>>();
+        let bare_refs: Vec<Vec<String>> = w.references.iter().map(|r| bare(r)).collect();
+        eval.unstressed.add(&bare(&w.hypothesis), &bare_refs);
+        let letters = w.word.nfc().count().min(LENGTH_BUCKETS);
+        lengths.entry(letters).or_default().add(&w.hypothesis, &w.references);
+        if let Some((i, _)) = closest_reference(&w.hypothesis, &w.references) {
+            for op in align(&w.hypothesis, &w.references[i]) {
+                let key = match op {
+                    EditOp::Match(_) => continue,
+                    EditOp::Substitute { reference, hypothesis } => (Some(reference.to_string()), Some(hypothesis.to_string())),
+                    EditOp::Insert(h) => (None, Some(h.to_string())),
+                    EditOp::Delete(r) => (Some(r.to_string()), None),
+                };
+                *confusions.entry(key).or_insert(0) += 1;
+            }
+        }
+    }
+    eval.stressed.finish();
+    eval.unstressed.finish();
+    eval.by_length = lengths
+        .into_iter()
+        .map(|(letters, mut rates)| {
+            rates.finish();
+            LengthBreakdown { letters, rates }
+        })
+        .collect();
+    let mut list: Vec<Confusion> = confusions.into_iter().map(|((reference, hypothesis), count)| Confusion { reference, hypothesis, count }).collect();
+    list.sort_by(|a, b| b.count.cmp(&a.count));
+    list.truncate(TOP_CONFUSIONS);
+    eval.confusions = list;
+    eval
+}
+
+/// Groups (word, pronunciation) pairs by word (NFC + lower case), keeping variants in order.
+pub fn group_references(pairs: &[(String, Vec<String>)]) -> Vec<(String, Vec<Vec<String>>)> {
+    let mut grouped: BTreeMap<String, (String, Vec<Vec<String>>)> = BTreeMap::new();
+    for (word, phones) in pairs {
+        let key: String = word.nfc().collect::<String>().to_lowercase();
+        grouped.entry(key).or_insert_with(|| (word.clone(), Vec::new())).1.push(phones.clone());
+    }
+    grouped.into_values().collect()
+}
+
+/// Decodes every test word with `model` (top hypothesis, in parallel on the current rayon
+/// pool) and scores it against all its variants. References are normalised like the model's
+/// training data (stress stripped if the model was trained without stress).
+pub fn evaluate_model(model: &Model, test: &[(String, Vec<String>)]) -> Evaluation {
+    let opts = model.symbol_options();
+    let words: Vec<Scored> = group_references(test)
+        .into_par_iter()
+        .map(|(word, refs)| {
+            let hypothesis = model.guess(&word, 1).hypotheses.into_iter().next().map(|h| h.phones).unwrap_or_default();
+            let references = refs.iter().map(|r| r.iter().map(|p| opts.phone(p)).collect()).collect();
+            Scored { word, hypothesis, references }
+        })
+        .collect();
+    score(&words)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn p(s: &str) -> Vec<String> {
+        s.split_whitespace().map(String::from).collect()
+    }
+
+    #[test]
+    fn alignment_ops_reproduce_distance() {
+        let (h, r) = (p("K AE T S"), p("K AA T"));
+        let ops = align(&h, &r);
+        let cost = ops.iter().filter(|o| !matches!(o, EditOp::Match(_))).count();
+        assert_eq!(cost, edit_distance(&h, &r));
+        assert_eq!(cost, 2);
+    }
+
+    #[test]
+    fn per_uses_closest_variant_length() {
+        // PER definition in the module docs: distance to the closest variant / its length.
+        let words = vec![Scored { word: "route".into(), hypothesis: p("R UW1 T"), references: vec![p("R AW1 T"), p("R UW1 T S")] }];
+        let e = score(&words);
+        assert_eq!(e.stressed.phone_errors, 1);
+        assert_eq!(e.stressed.reference_phones, 3);
+        assert_eq!(e.stressed.word_errors, 1);
+    }
+
+    #[test]
+    fn split_is_deterministic_and_roughly_proportional() {
+        let words: Vec<String> = (0..2000).map(|i| format!("w{i}")).collect();
+        let test = words.iter().filter(|w| is_test_word(w, 10)).count();
+        assert!((100..300).contains(&test), "{test}");
+        assert!(words.iter().all(|w| is_test_word(w, 10) == is_test_word(&w.to_uppercase(), 10)));
+    }
+}

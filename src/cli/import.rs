@@ -65,14 +65,19 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     }
     let policy = orthoepy::lexicon::HeadwordPolicy { fold_case: args.fold_case };
     let mut lexicon = Lexicon::from_entries(import.entries, policy);
+    let phoneset = orthoepy::phoneset::Phoneset::resolve(&args.phoneset, &std::env::current_dir()?)
+        .with_context(|| format!("cannot load phoneset {}", args.phoneset))?;
+    let outside = lexicon.entries().iter().filter(|e| phoneset.parse(&e.pronunciation).is_err()).count();
     let words = lexicon.index().word_count();
     lexicon.save_as(&args.output).context("cannot write the lexicon")?;
     eprintln!(
-        "imported {} pronunciations of {} words into {}; {} line(s) rejected",
+        "imported {} pronunciations of {} words into {}; {} line(s) rejected; {} pronunciation(s) do not parse in {} (run `orthoepy audit`)",
         lexicon.entries().len(),
         words,
         args.output.display(),
         import.rejected.len(),
+        outside,
+        phoneset.id(),
     );
     Ok(ExitCode::SUCCESS)
 }

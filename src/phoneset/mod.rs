@@ -1,1 +1,292 @@
-//! (being written)
+//! Phonesets: the inventory of phones a lexicon may use, each described by articulatory
+//! features; parsing and validating pronunciations against it; feature distance and
+//! nearest-symbol suggestions; phonotactic constraints; mapping pronunciations between
+//! phonesets. This module owns phoneset files and must not know about lexicons.
+//!
+//! # Phoneset file format (TOML)
+//!
+//! ```toml
+//! id = "en-arpa"                 # short name, used by `Phoneset::resolve`
+//! name = "US English ARPAbet"    # human-readable name
+//! description = "..."            # optional
+//! schema = "ipa-chart"           # feature schema: a shipped one, or the name of the
+//!                                # inline schema given by [[feature]] tables in this file
+//!
+//! [stress]                       # optional; marks are suffixes on nucleus symbols
+//! required = true                # every nucleus must carry a mark
+//! marks = [ { mark = "1", level = "primary" },
+//!           { mark = "2", level = "secondary" },
+//!           { mark = "0", level = "unstressed" } ]
+//!
+//! [[phone]]
+//! symbol = "AA"                  # as written in pronunciations, unique, no whitespace
+//! ipa = "ɑ"                      # required
+//! xsampa = "A"                   # required
+//! class = "vowel"                # consonant | vowel | diphthong
+//! features = { height = "open", backness = "back", rounding = "unrounded" }
+//! # allophone_of = ["AH"]        # marks a phone as an allophone of others
+//! # syllabic = true              # default: true for vowels and diphthongs, else false
+//!
+//! [[phone]]
+//! symbol = "AY"
+//! ipa = "aɪ"
+//! xsampa = "aI"
+//! class = "diphthong"            # a diphthong has vowel targets instead of features
+//! targets = [ { height = "open", backness = "front", rounding = "unrounded" },
+//!             { height = "near-close", backness = "near-front", rounding = "unrounded" } ]
+//!
+//! [[constraint]]                 # phonotactic constraint: a forbidden sequence
+//! id = "en-no-initial-velar-nasal"
+//! pattern = "# [place=velar nasal=nasal]"   # `#` word boundary, symbols, [feature classes]
+//! message = "English words do not begin with the velar nasal NG"
+//! source = "P. Roach, English Phonetics and Phonology (2009)"  # or "common practice"
+//! ```
+//!
+//! An inline schema is a list of `[[feature]]` tables (the shipped `ipa-chart` schema in
+//! `phonesets/ipa-chart.schema.toml` has the same shape, with `name` and an optional
+//! `syllabic_weight` at top level):
+//!
+//! ```toml
+//! [[feature]]
+//! name = "place"
+//! classes = ["consonant"]        # classes it describes; diphthong targets use "vowel"
+//! required = true                # or: default = "..." (filled in when left out)
+//! weight = 40.0                  # salience in the feature distance
+//! values = ["bilabial", "labiodental", "dental"]
+//! scale = [1.0, 0.95, 0.9]       # optional ordinal points in 0..=1 for graded mismatch
+//! ```
+//!
+//! The shipped `ipa-chart` schema follows the IPA chart (2020): consonants have `place`
+//! (bilabial … glottal, ordinal), `manner` (stop, affricate, fricative, trill, tap,
+//! approximant; ordinal), `voicing`, and defaulted `nasal` (oral), `lateral` (central),
+//! `sibilant` (no), `secondary` (none, labialised, palatalised, velarised, pharyngealised);
+//! vowels have `height` (close … open, seven levels, ordinal), `backness` (front, near-front,
+//! central, near-back, back; ordinal), `rounding`, and defaulted `rhotic` (no) and `length`
+//! (short). The names `class` and `syllabic` are reserved: every phone answers them.
+//!
+//! Loading checks the file and reports every problem with line and column: unique symbols;
+//! feature names and values in the schema; required features present per class; no two phones
+//! with the same class, features, targets and syllabicity unless one is an allophone of the
+//! other; `ipa` and `xsampa` given; stress marks non-empty, unique, not symbols themselves and
+//! not able to make a symbol ambiguous; constraints well formed. Files over
+//! [`MAX_FILE_BYTES`] are refused before parsing.
+
+mod build;
+mod distance;
+mod error;
+mod phone;
+mod phonotactics;
+mod pronunciation;
+mod raw;
+mod schema;
+mod stress;
+mod suggest;
+
+use std::collections::HashMap;
+use std::io::Read;
+use std::path::Path;
+
+pub use error::{CheckProblem, Located, PhonesetError};
+pub use phone::{Features, Phone, PhoneClass};
+pub use phonotactics::{PhonotacticConstraint, PhonotacticViolation};
+pub use pronunciation::{PhoneToken, Pronunciation, PronunciationError, TokenProblem, TokenProblemKind};
+pub use schema::{FeatureDef, Schema};
+pub use stress::{Stress, StressLevel};
+
+use stress::StressMarks;
+
+/// Index of a phone in its phoneset's [`Phoneset::phones`].
+pub type PhoneId = u16;
+
+/// Largest phoneset file accepted, in bytes (4 MiB).
+pub const MAX_FILE_BYTES: u64 = 4 * 1024 * 1024;
+
+/// The shipped phonesets: (id, TOML text).
+const SHIPPED: &[(&str, &str)] = &[("en-arpa", include_str!("../../phonesets/en-arpa.toml"))];
+
+/// The ids of the shipped phonesets.
+const SHIPPED_IDS: &[&str] = &["en-arpa"];
+
+/// A checked phoneset: phones with features, stress marks, constraints, and lookup tables.
+#[derive(Debug, Clone)]
+pub struct Phoneset {
+    id: String,
+    name: String,
+    description: String,
+    source: String,
+    schema: Schema,
+    phones: Vec<Phone>,
+    by_symbol: HashMap<String, PhoneId>,
+    by_ipa: HashMap<String, PhoneId>,
+    max_ipa_chars: usize,
+    stress: StressMarks,
+    constraints: Vec<PhonotacticConstraint>,
+    /// Row-major phone × phone feature distances.
+    distances: Vec<f32>,
+}
+
+impl Phoneset {
+    /// A phoneset shipped with orthoepy (embedded in the binary).
+    ///
+    /// ```
+    /// use orthoepy::phoneset::Phoneset;
+    /// let set = Phoneset::shipped("en-arpa").unwrap();
+    /// assert_eq!(set.id(), "en-arpa");
+    /// assert!(Phoneset::shipped("klingon").is_err());
+    /// ```
+    pub fn shipped(id: &str) -> Result<Phoneset, PhonesetError> {
+        let Some((_, text)) = SHIPPED.iter().find(|(i, _)| *i == id) else {
+            return Err(PhonesetError::UnknownShipped { id: id.to_string(), known: SHIPPED_IDS.join(", ") });
+        };
+        build::from_text(text, &format!("phonesets/{id}.toml (shipped)"))
+    }
+
+    /// The ids [`Phoneset::shipped`] accepts.
+    pub fn shipped_ids() -> &'static [&'static str] {
+        SHIPPED_IDS
+    }
+
+    /// Loads and checks a phoneset file. Files over [`MAX_FILE_BYTES`] are refused.
+    ///
+    /// ```
+    /// use orthoepy::phoneset::{Phoneset, PhonesetError};
+    /// let err = Phoneset::load(std::path::Path::new("no/such/file.toml")).unwrap_err();
+    /// assert!(matches!(err, PhonesetError::Io { .. }));
+    /// ```
+    pub fn load(path: &Path) -> Result<Phoneset, PhonesetError> {
+        let io = |source| PhonesetError::Io { path: path.to_path_buf(), source };
+        let file_label = path.display().to_string();
+        let file = std::fs::File::open(path).map_err(io)?;
+        let size = file.metadata().map_err(io)?.len();
+        let too_large = |size| PhonesetError::TooLarge { file: file_label.clone(), size, limit: MAX_FILE_BYTES };
+        if size > MAX_FILE_BYTES {
+            return Err(too_large(size));
+        }
+        let mut bytes = Vec::new();
+        file.take(MAX_FILE_BYTES + 1).read_to_end(&mut bytes).map_err(io)?;
+        if bytes.len() as u64 > MAX_FILE_BYTES {
+            return Err(too_large(bytes.len() as u64));
+        }
+        let text = String::from_utf8(bytes).map_err(|e| {
+            let valid = e.utf8_error().valid_up_to();
+            let ok = String::from_utf8_lossy(e.as_bytes().get(..valid).unwrap_or_default()).into_owned();
+            let (line, column) = raw::line_col(&ok, ok.len());
+            PhonesetError::Syntax { file: file_label.clone(), line, column, message: "the file is not valid UTF-8".into() }
+        })?;
+        build::from_text(&text, &file_label)
+    }
+
+    /// Parses and checks phoneset TOML held in memory; `label` names it in errors.
+    ///
+    /// ```
+    /// use orthoepy::phoneset::Phoneset;
+    /// let text = r#"
+    /// id = "tiny"
+    /// name = "Tiny"
+    /// schema = "ipa-chart"
+    /// [[phone]]
+    /// symbol = "p"
+    /// ipa = "p"
+    /// xsampa = "p"
+    /// class = "consonant"
+    /// features = { place = "bilabial", manner = "stop", voicing = "voiceless" }
+    /// "#;
+    /// let set = Phoneset::from_toml_str(text, "tiny.toml").unwrap();
+    /// assert_eq!(set.phones().len(), 1);
+    /// ```
+    pub fn from_toml_str(text: &str, label: &str) -> Result<Phoneset, PhonesetError> {
+        build::from_text(text, label)
+    }
+
+    /// A shipped id, else a path (relative paths are taken from `base_dir`).
+    pub fn resolve(spec: &str, base_dir: &Path) -> Result<Phoneset, PhonesetError> {
+        if SHIPPED_IDS.contains(&spec) {
+            return Phoneset::shipped(spec);
+        }
+        Phoneset::load(&base_dir.join(spec))
+    }
+
+    /// The phoneset's id.
+    pub fn id(&self) -> &str {
+        &self.id
+    }
+
+    /// The phoneset's human-readable name.
+    pub fn name(&self) -> &str {
+        &self.name
+    }
+
+    /// The optional description.
+    pub fn description(&self) -> &str {
+        &self.description
+    }
+
+    /// Where it was loaded from (a path, or `phonesets/<id>.toml (shipped)`).
+    pub fn source(&self) -> &str {
+        &self.source
+    }
+
+    /// The feature schema.
+    pub fn schema(&self) -> &Schema {
+        &self.schema
+    }
+
+    /// All phones, indexed by [`PhoneId`].
+    pub fn phones(&self) -> &[Phone] {
+        &self.phones
+    }
+
+    /// The phone with id `id`.
+    ///
+    /// # Panics
+    /// If `id` is not an id of this phoneset; use [`Phoneset::get`] for ids of unknown origin.
+    pub fn phone(&self, id: PhoneId) -> &Phone {
+        &self.phones[id as usize]
+    }
+
+    /// The phone with id `id`, if it exists.
+    pub fn get(&self, id: PhoneId) -> Option<&Phone> {
+        self.phones.get(id as usize)
+    }
+
+    /// The id of a bare symbol (no stress mark).
+    ///
+    /// ```
+    /// let set = orthoepy::phoneset::Phoneset::shipped("en-arpa").unwrap();
+    /// assert!(set.lookup("AA").is_some());
+    /// assert_eq!(set.lookup("AA1"), None);
+    /// ```
+    pub fn lookup(&self, symbol: &str) -> Option<PhoneId> {
+        self.by_symbol.get(symbol).copied()
+    }
+
+    /// Splits a declared stress mark off the end of `token`. Purely lexical: the bare part
+    /// need not be a valid symbol. A token that is itself a symbol is not split.
+    ///
+    /// ```
+    /// use orthoepy::phoneset::{Phoneset, StressLevel};
+    /// let set = Phoneset::shipped("en-arpa").unwrap();
+    /// let (bare, stress) = set.split_stress("AA1");
+    /// assert_eq!((bare, stress.map(|s| s.level)), ("AA", Some(StressLevel::Primary)));
+    /// assert_eq!(set.split_stress("T").1, None);
+    /// ```
+    pub fn split_stress<'a>(&self, token: &'a str) -> (&'a str, Option<Stress>) {
+        let (bare, mark) = self.stress.split(token, &self.by_symbol);
+        (bare, mark.and_then(|i| self.stress.marks.get(i)).cloned())
+    }
+
+    /// The declared stress marks, in declaration order.
+    pub fn stress_marks(&self) -> &[Stress] {
+        &self.stress.marks
+    }
+
+    /// Whether every nucleus must carry a stress mark.
+    pub fn stress_required(&self) -> bool {
+        self.stress.required
+    }
+
+    /// The mark written for `level`, if one is declared.
+    pub fn mark_for(&self, level: StressLevel) -> Option<&str> {
+        self.stress.mark_for(level)
+    }
+}

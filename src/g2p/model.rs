@@ -1,0 +1,63 @@
+//! The trained joint-sequence model as one value: symbol tables, graphone inventory, n-gram
+//! model and the normalisation options it was trained with. Training lives in `train`,
+//! decoding in `decode`, the file format in `model_file`; this module only holds the parts
+//! together and answers questions about them.
+
+use super::graphone::{Inventory, SymbolOptions, SymbolTable};
+use super::ngram::NgramModel;
+
+/// A trained grapheme-to-phoneme model (see [`crate::g2p`] for the method).
+#[derive(Clone, Debug)]
+pub struct Model {
+    pub(crate) symbols: SymbolOptions,
+    pub(crate) phoneset_id: String,
+    pub(crate) letters: SymbolTable,
+    pub(crate) phones: SymbolTable,
+    pub(crate) inventory: Inventory,
+    pub(crate) ngram: NgramModel,
+}
+
+impl Model {
+    /// Identifier of the phone set the pronunciations were written in (e.g. `en-arpa`).
+    pub fn phoneset_id(&self) -> &str {
+        &self.phoneset_id
+    }
+
+    /// How spellings and phones are normalised (letter unit, case folding, stress).
+    pub fn symbol_options(&self) -> SymbolOptions {
+        self.symbols
+    }
+
+    /// Order of the graphone n-gram model.
+    pub fn order(&self) -> usize {
+        self.ngram.order()
+    }
+
+    /// Number of graphones in the inventory.
+    pub fn graphone_count(&self) -> usize {
+        self.inventory.len()
+    }
+
+    /// Number of explicit n-grams of order two and above.
+    pub fn ngram_count(&self) -> usize {
+        self.ngram.explicit_ngrams()
+    }
+
+    /// Longest letter part and longest phone part of a graphone.
+    pub fn graphone_limits(&self) -> (usize, usize) {
+        (self.inventory.max_letters(), self.inventory.max_phones())
+    }
+
+    /// The graphone inventory rendered as `(letters, phones)` strings, in id order.
+    pub fn graphones(&self) -> Vec<(String, Vec<String>)> {
+        self.inventory
+            .graphones()
+            .iter()
+            .map(|g| {
+                let letters = g.letters.iter().map(|&l| self.letters.name(l)).collect();
+                let phones = g.phones.iter().map(|&p| self.phones.name(p).to_string()).collect();
+                (letters, phones)
+            })
+            .collect()
+    }
+}

@@ -1,0 +1,493 @@
+//! The n-gram model over graphone sequences: evidence (fractional n-gram counts from the
+//! E-step), smoothing, discount tuning on held-out evidence, and the compact back-off form used
+//! for look-ups. It owns no graphone spelling and no lattice; symbols are plain `u32` ids where
+//! `0..vocab-1` are graphones and `vocab-1` is the end-of-word symbol.
+//!
+//! Smoothing is interpolated absolute discounting with Kneser–Ney style lower orders, generalised
+//! to fractional evidence (Kneser & Ney, "Improved backing-off for m-gram language modeling",
+//! ICASSP 1995; Bisani & Ney 2008, section 3.3, discount on evidence). For a history `h` with
+//! evidence `c(h,q)` and total `T(h)`, and the discount `D` of that order:
+//!
+//! `p(q|h) = max(c(h,q) - D, 0) / T(h) + γ(h) · p(q|h')`, `γ(h) = Σ_q min(c(h,q), D) / T(h)`,
+//!
+//! where `h'` drops the oldest graphone. The lower-order evidence is the mass the discount moved
+//! down: `c(h',q) = Σ_x min(c(x h',q), D)`, which for integer counts and `D ≤ 1` is proportional
+//! to the Kneser–Ney continuation count. N-grams whose dropped symbol is the start padding keep
+//! their full evidence (as in Kneser–Ney for sentence starts). The order-1 distribution is
+//! interpolated with the uniform distribution over the vocabulary, so every symbol has
+//! non-zero probability and each conditional distribution sums to one.
+
+use super::hash::FastMap;
+
+/// Highest supported n-gram order.
+pub const MAX_ORDER: usize = 9;
+/// Longest history (graphones before the predicted one).
+pub const MAX_HISTORY: usize = MAX_ORDER - 1;
+/// Padding of unused slots in histories and keys.
+pub const NONE: u32 = u32::MAX;
+/// Start-of-word padding symbol inside histories.
+pub const START: u32 = u32::MAX - 1;
+
+/// An n-gram: `order-1` history symbols (oldest first), then the predicted symbol, then [`NONE`].
+pub type Key = [u32; MAX_ORDER];
+/// A history of up to [`MAX_HISTORY`] symbols (oldest first), padded with [`NONE`].
+pub type History = [u32; MAX_HISTORY];
+
+/// The start history of a model of `order`: `order-1` start symbols.
+pub fn start_history(order: usize) -> History {
+    let mut h = [NONE; MAX_HISTORY];
+    for slot in h.iter_mut().take(order.saturating_sub(1)) {
+        *slot = START;
+    }
+    h
+}
+
+/// Appends `symbol` to a full history of `order-1` symbols, dropping the oldest.
+#[inline]
+pub fn push_history(history: &History, order: usize, symbol: u32) -> History {
+    let len = order.saturating_sub(1);
+    let mut h = *history;
+    if len > 0 {
+        h.copy_within(1..len, 0);
+        h[len - 1] = symbol;
+    }
+    h
+}
+
+/// The n-gram key of predicting `symbol` after a full history of a model of `order`.
+#[inline]
+pub fn key_of(history: &History, order: usize, symbol: u32) -> Key {
+    let len = order.saturating_sub(1);
+    let mut k = [NONE; MAX_ORDER];
+    k[..len].copy_from_slice(&history[..len]);
+    k[len] = symbol;
+    k
+}
+
+/// Fractional n-gram evidence of one order (all keys have the same length).
+pub type Evidence = FastMap<Key, f64>;
+
+/// Adds `other` into `into`.
+pub fn merge_evidence(into: &mut Evidence, other: Evidence) {
+    for (k, v) in other {
+        *into.entry(k).or_insert(0.0) += v;
+    }
+}
+
+fn drop_oldest(key: &Key) -> Key {
+    let mut k = [NONE; MAX_ORDER];
+    k[..MAX_ORDER - 1].copy_from_slice(&key[1..]);
+    k
+}
+
+fn history_of(key: &Key, len: usize) -> History {
+    let mut h = [NONE; MAX_HISTORY];
+    h[..len].copy_from_slice(&key[..len]);
+    h
+}
+
+/// Per-history totals of one order: `(T(h), Σ_q min(c(h,q), D))`.
+type Totals = FastMap<History, (f64, f64)>;
+
+/// Evidence of every order derived from the top order, plus per-history totals.
+struct Levels {
+    order: usize,
+    counts: Vec<Evidence>,
+    totals: Vec<Totals>,
+}
+
+impl Levels {
+    /// Derives lower orders from `top` (evidence of order `discounts.len()`), see module docs.
+    fn derive(top: &Evidence, discounts: &[f64]) -> Levels {
+        let order = discounts.len();
+        let mut counts: Vec<Evidence> = vec![Evidence::default(); order];
+        for k in (2..=order).rev() {
+            let d = discounts[k - 1];
+            let mut lower = Evidence::default();
+            let source = if k == order { top } else { &counts[k - 1] };
+            for (key, &c) in source {
+                let moved = if key[0] == START { c } else { c.min(d) };
+                *lower.entry(drop_oldest(key)).or_insert(0.0) += moved;
+            }
+            counts[k - 2] = lower;
+        }
+        let mut totals = Vec::with_capacity(order);
+        for k in 1..=order {
+            let d = discounts[k - 1];
+            let source = if k == order { top } else { &counts[k - 1] };
+            let mut t = Totals::default();
+            for (key, &c) in source {
+                let e = t.entry(history_of(key, k - 1)).or_insert((0.0, 0.0));
+                e.0 += c;
+                e.1 += c.min(d);
+            }
+            totals.push(t);
+        }
+        Levels { order, counts, totals }
+    }
+
+    fn count(&self, top: &Evidence, k: usize, key: &Key) -> f64 {
+        let source = if k == self.order { top } else { &self.counts[k - 1] };
+        source.get(key).copied().unwrap_or(0.0)
+    }
+
+    /// Interpolated probability of the last symbol of `key`, an n-gram of length `n`.
+    fn prob(&self, top: &Evidence, discounts: &[f64], vocab: usize, key: &Key, n: usize) -> f64 {
+        let mut p = 1.0 / vocab as f64;
+        for k in 1..=n {
+            let mut sub = [NONE; MAX_ORDER];
+            sub[..k].copy_from_slice(&key[n - k..n]);
+            if let Some(&(total, kept)) = self.totals[k - 1].get(&history_of(&sub, k - 1)) {
+                if total > 0.0 {
+                    let c = self.count(top, k, &sub);
+                    p = (c - discounts[k - 1]).max(0.0) / total + kept / total * p;
+                }
+            }
+        }
+        p
+    }
+}
+
+/// Log-likelihood of `heldout` evidence under the model smoothed from `top` with `discounts`.
+fn heldout_log_likelihood(top: &Evidence, heldout: &Evidence, discounts: &[f64], vocab: usize) -> f64 {
+    let levels = Levels::derive(top, discounts);
+    heldout.iter().map(|(key, &e)| e * levels.prob(top, discounts, vocab, key, discounts.len()).max(1e-300).ln()).sum()
+}
+
+/// Lowest and highest discount tried when tuning.
+const DISCOUNT_RANGE: (f64, f64) = (0.02, 2.5);
+
+/// Tunes the discounts (one coordinate sweep, highest order first, golden-section search of
+/// `steps` evaluations each) to maximise the held-out log-likelihood; returns the tuned
+/// discounts and that log-likelihood. `initial.len()` is the order.
+pub fn tune_discounts(top: &Evidence, heldout: &Evidence, initial: &[f64], vocab: usize, steps: usize) -> (Vec<f64>, f64) {
+    let mut discounts = initial.to_vec();
+    if heldout.is_empty() {
+        return (discounts, 0.0);
+    }
+    let phi = (5f64.sqrt() - 1.0) / 2.0;
+    for k in (0..discounts.len()).rev() {
+        let eval = |d: f64, ds: &mut Vec<f64>| {
+            ds[k] = d;
+            heldout_log_likelihood(top, heldout, ds, vocab)
+        };
+        let (mut lo, mut hi) = DISCOUNT_RANGE;
+        let mut x1 = hi - phi * (hi - lo);
+        let mut x2 = lo + phi * (hi - lo);
+        let mut f1 = eval(x1, &mut discounts);
+        let mut f2 = eval(x2, &mut discounts);
+        for _ in 0..steps {
+            if f1 > f2 {
+                hi = x2;
+                x2 = x1;
+                f2 = f1;
+                x1 = hi - phi * (hi - lo);
+                f1 = eval(x1, &mut discounts);
+            } else {
+                lo = x1;
+                x1 = x2;
+                f1 = f2;
+                x2 = lo + phi * (hi - lo);
+                f2 = eval(x2, &mut discounts);
+            }
+        }
+        discounts[k] = if f1 > f2 { x1 } else { x2 };
+    }
+    let ll = heldout_log_likelihood(top, heldout, &discounts, vocab);
+    (discounts, ll)
+}
+
+/// One stored history of the back-off model.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Context {
+    /// The history symbols, oldest first (may start with [`START`]).
+    pub history: Vec<u32>,
+    /// Natural log of the back-off weight γ(h).
+    pub backoff: f32,
+    /// Explicit successors `(symbol, ln p)`, sorted by symbol.
+    pub entries: Vec<(u32, f32)>,
+}
+
+#[derive(Clone, Debug)]
+struct Node {
+    backoff: f32,
+    suffix: u32,
+    first: u32,
+    end: u32,
+}
+
+/// The smoothed n-gram model in back-off form: explicit probabilities for seen n-grams, and a
+/// back-off weight per history. Context id 0 is the empty history (dense unigram table).
+#[derive(Clone, Debug)]
+pub struct NgramModel {
+    order: usize,
+    discounts: Vec<f64>,
+    unigram: Vec<f32>,
+    contexts: Vec<Context>,
+    nodes: Vec<Node>,
+    symbols: Vec<u32>,
+    logps: Vec<f32>,
+    index: FastMap<History, u32>,
+}
+
+/// Why a set of model parts does not form a valid model.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum NgramError {
+    /// The order is 0 or above [`MAX_ORDER`], or discounts do not match it.
+    #[error("n-gram order {0} is not in 1..={MAX_ORDER} or does not match the discounts")]
+    BadOrder(usize),
+    /// The unigram table is empty or holds a non-finite or positive log-probability.
+    #[error("unigram table is empty or holds an invalid log-probability")]
+    BadUnigram,
+    /// A context is malformed.
+    #[error("context {index}: {reason}")]
+    BadContext {
+        /// Position of the context in the list.
+        index: usize,
+        /// What is wrong.
+        reason: &'static str,
+    },
+}
+
+fn valid_logp(x: f32) -> bool {
+    x.is_finite() && x <= 1e-4
+}
+
+impl NgramModel {
+    /// The uniform model over `vocab` symbols, of order 1.
+    pub fn uniform(vocab: usize) -> NgramModel {
+        let lp = -(vocab.max(1) as f32).ln();
+        NgramModel::from_parts(1, vec![0.5], vec![lp; vocab.max(1)], Vec::new())
+            .unwrap_or_else(|_| unreachable!("uniform model parts are valid by construction"))
+    }
+
+    /// Smooths `top` (evidence of order `discounts.len()`) into a model; see the module docs.
+    pub fn estimate(top: &Evidence, discounts: &[f64], vocab: usize) -> NgramModel {
+        let order = discounts.len();
+        let levels = Levels::derive(top, discounts);
+        let unigram: Vec<f32> = (0..vocab as u32)
+            .map(|q| {
+                let mut key = [NONE; MAX_ORDER];
+                key[0] = q;
+                (levels.prob(top, discounts, vocab, &key, 1).max(1e-300).ln()) as f32
+            })
+            .collect();
+        let mut by_history: FastMap<History, Vec<(u32, f32)>> = FastMap::default();
+        for k in 2..=order {
+            let d = discounts[k - 1];
+            let source = if k == order { top } else { &levels.counts[k - 1] };
+            for (key, &c) in source {
+                if c <= d {
+                    continue;
+                }
+                let lp = levels.prob(top, discounts, vocab, key, k).max(1e-300).ln() as f32;
+                by_history.entry(history_of(key, k - 1)).or_default().push((key[k - 1], lp));
+            }
+        }
+        let mut contexts: Vec<Context> = by_history
+            .into_iter()
+            .map(|(h, mut entries)| {
+                entries.sort_by_key(|e| e.0);
+                let len = h.iter().position(|&s| s == NONE).unwrap_or(MAX_HISTORY);
+                let (total, kept) = levels.totals[len].get(&h).copied().unwrap_or((1.0, 1.0));
+                let backoff = if total > 0.0 { (kept / total).max(1e-300).ln() as f32 } else { 0.0 };
+                Context { history: h[..len].to_vec(), backoff, entries }
+            })
+            .collect();
+        contexts.sort_by(|a, b| (a.history.len(), &a.history).cmp(&(b.history.len(), &b.history)));
+        NgramModel::from_parts(order, discounts.to_vec(), unigram, contexts)
+            .unwrap_or_else(|_| unreachable!("estimated model parts are valid by construction"))
+    }
+
+    /// Assembles a model from stored parts, validating every field (used by the model file).
+    pub fn from_parts(order: usize, discounts: Vec<f64>, unigram: Vec<f32>, contexts: Vec<Context>) -> Result<NgramModel, NgramError> {
+        if order == 0 || order > MAX_ORDER || discounts.len() != order || discounts.iter().any(|d| !d.is_finite()) {
+            return Err(NgramError::BadOrder(order));
+        }
+        if unigram.is_empty() || !unigram.iter().all(|&x| valid_logp(x)) {
+            return Err(NgramError::BadUnigram);
+        }
+        let vocab = unigram.len() as u32;
+        let mut index = FastMap::default();
+        let mut nodes = vec![Node { backoff: 0.0, suffix: 0, first: 0, end: 0 }];
+        let mut symbols = Vec::new();
+        let mut logps = Vec::new();
+        for (i, c) in contexts.iter().enumerate() {
+            let bad = |reason| Err(NgramError::BadContext { index: i, reason });
+            if c.history.is_empty() || c.history.len() >= order {
+                return bad("history length must be in 1..order");
+            }
+            if c.history.iter().any(|&s| s >= vocab && s != START) {
+                return bad("history symbol out of range");
+            }
+            if !(c.backoff.is_finite() && c.backoff <= 1e-4) {
+                return bad("invalid back-off weight");
+            }
+            if c.entries.windows(2).any(|w| w[0].0 >= w[1].0) {
+                return bad("entries not strictly sorted");
+            }
+            if c.entries.iter().any(|&(s, lp)| s >= vocab || !valid_logp(lp)) {
+                return bad("entry symbol or log-probability invalid");
+            }
+            let mut h = [NONE; MAX_HISTORY];
+            h[..c.history.len()].copy_from_slice(&c.history);
+            if index.insert(h, (i + 1) as u32).is_some() {
+                return bad("history repeated");
+            }
+            let first = symbols.len() as u32;
+            for &(s, lp) in &c.entries {
+                symbols.push(s);
+                logps.push(lp);
+            }
+            nodes.push(Node { backoff: c.backoff, suffix: 0, first, end: symbols.len() as u32 });
+        }
+        let mut model = NgramModel { order, discounts, unigram, contexts, nodes, symbols, logps, index };
+        for i in 1..model.nodes.len() {
+            let h = &model.contexts[i - 1].history;
+            let mut arr = [NONE; MAX_HISTORY];
+            arr[..h.len()].copy_from_slice(h);
+            let suffix = model.longest_context(&arr, 1, h.len());
+            model.nodes[i].suffix = suffix;
+        }
+        Ok(model)
+    }
+
+    fn longest_context(&self, history: &History, from: usize, len: usize) -> u32 {
+        for start in from..len {
+            let mut key = [NONE; MAX_HISTORY];
+            key[..len - start].copy_from_slice(&history[start..len]);
+            if let Some(&id) = self.index.get(&key) {
+                return id;
+            }
+        }
+        0
+    }
+
+    /// The context id to use after `history` (oldest first, any length): the longest suffix of
+    /// its last `order-1` symbols that the model stores (0 = the empty history).
+    #[inline]
+    pub fn context(&self, history: &[u32]) -> u32 {
+        let take = history.len().min(self.order - 1).min(MAX_HISTORY);
+        let mut arr = [NONE; MAX_HISTORY];
+        arr[..take].copy_from_slice(&history[history.len() - take..]);
+        self.longest_context(&arr, 0, take)
+    }
+
+    /// Natural-log probability of `symbol` in context `context` (ids from [`Self::context`]).
+    #[inline]
+    pub fn log_prob(&self, context: u32, symbol: u32) -> f32 {
+        let mut acc = 0.0f32;
+        let mut c = context as usize;
+        loop {
+            let Some(node) = self.nodes.get(c).filter(|_| c != 0) else {
+                return acc + self.unigram.get(symbol as usize).copied().unwrap_or(f32::NEG_INFINITY);
+            };
+            let range = node.first as usize..node.end as usize;
+            if let Ok(pos) = self.symbols[range.clone()].binary_search(&symbol) {
+                return acc + self.logps[range.start + pos];
+            }
+            acc += node.backoff;
+            c = node.suffix as usize;
+        }
+    }
+
+    /// Model order (history length + 1).
+    pub fn order(&self) -> usize {
+        self.order
+    }
+
+    /// The discount of each order, lowest first.
+    pub fn discounts(&self) -> &[f64] {
+        &self.discounts
+    }
+
+    /// The unigram log-probabilities.
+    pub fn unigram(&self) -> &[f32] {
+        &self.unigram
+    }
+
+    /// All stored contexts (for the model file).
+    pub fn contexts(&self) -> &[Context] {
+        &self.contexts
+    }
+
+    /// Number of explicit n-grams of order ≥ 2.
+    pub fn explicit_ngrams(&self) -> usize {
+        self.symbols.len()
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn bigram_evidence() -> Evidence {
+        // A toy corpus over symbols 0,1 and end symbol 2, order 2 (hand-made).
+        let mut e = Evidence::default();
+        let mut add = |h: u32, q: u32, c: f64| {
+            let mut k = [NONE; MAX_ORDER];
+            k[0] = h;
+            k[1] = q;
+            e.insert(k, c);
+        };
+        add(START, 0, 3.0);
+        add(START, 1, 1.0);
+        add(0, 1, 2.5);
+        add(0, 2, 0.5);
+        add(1, 2, 3.5);
+        add(1, 0, 0.25);
+        e
+    }
+
+    #[test]
+    fn conditional_distributions_sum_to_one() {
+        // Property of interpolated absolute discounting (Kneser & Ney 1995): for every history
+        // the probabilities over the whole vocabulary sum to 1.
+        let e = bigram_evidence();
+        let m = NgramModel::estimate(&e, &[0.4, 0.7], 3);
+        for h in [START, 0, 1] {
+            let ctx = m.context(&[h]);
+            let total: f64 = (0..3).map(|q| f64::from(m.log_prob(ctx, q)).exp()).sum();
+            assert!((total - 1.0).abs() < 1e-5, "history {h}: sum {total}");
+        }
+        let uni: f64 = m.unigram().iter().map(|&lp| f64::from(lp).exp()).sum();
+        assert!((uni - 1.0).abs() < 1e-5);
+    }
+
+    #[test]
+    fn trigram_sums_to_one_with_unseen_history() {
+        let mut e = Evidence::default();
+        for (a, b, q, c) in [(START, START, 0, 2.0), (START, 0, 1, 2.0), (0, 1, 2, 1.5), (0, 1, 0, 0.5), (1, 0, 2, 0.5)] {
+            let mut k = [NONE; MAX_ORDER];
+            k[..3].copy_from_slice(&[a, b, q]);
+            e.insert(k, c);
+        }
+        let m = NgramModel::estimate(&e, &[0.3, 0.6, 0.9], 3);
+        for (a, b) in [(START, START), (0, 1), (1, 1), (1, 0)] {
+            let ctx = m.context(&[a, b]);
+            let total: f64 = (0..3).map(|q| f64::from(m.log_prob(ctx, q)).exp()).sum();
+            assert!((total - 1.0).abs() < 1e-5, "history ({a},{b}): sum {total}");
+        }
+    }
+
+    #[test]
+    fn tuning_improves_heldout_likelihood() {
+        let e = bigram_evidence();
+        let mut heldout = Evidence::default();
+        let mut k = [NONE; MAX_ORDER];
+        k[0] = 1;
+        k[1] = 1;
+        heldout.insert(k, 1.0); // an n-gram unseen in training: favours larger discounts
+        let before = heldout_log_likelihood(&e, &heldout, &[0.05, 0.05], 3);
+        let (d, after) = tune_discounts(&e, &heldout, &[0.05, 0.05], 3, 12);
+        assert!(after > before, "{after} <= {before} with {d:?}");
+    }
+
+    #[test]
+    fn from_parts_rejects_bad_contexts() {
+        let bad = Context { history: vec![7], backoff: 0.0, entries: vec![] };
+        assert!(NgramModel::from_parts(2, vec![0.5, 0.5], vec![-1.0; 3], vec![bad]).is_err());
+        let unsorted = Context { history: vec![0], backoff: 0.0, entries: vec![(1, -1.0), (0, -1.0)] };
+        assert!(NgramModel::from_parts(2, vec![0.5, 0.5], vec![-1.0; 3], vec![unsorted]).is_err());
+    }
+}

@@ -1,0 +1,334 @@
+//! Training of the joint-sequence model (Bisani & Ney 2008, sections 3 and 5): graphone
+//! inventory from all letter/phone sub-string pairs, EM at order 1 with trimming of rare
+//! graphones, then orders grown one at a time — the order-M evidence is first collected with
+//! the order-(M−1) model and then re-estimated by EM with the current order-M model. Discounts
+//! are tuned on a held-out part of the training words at every iteration. A final pass adds the
+//! held-out words' evidence. Reports progress through a callback; never prints.
+
+use rayon::prelude::*;
+
+use super::em::{expectation, Expectation, LatticeBeam, Sample};
+use super::graphone::{Graphone, Inventory, SymbolOptions, SymbolTable, MAX_UNIT};
+use super::hash::FastMap;
+use super::model::Model;
+use super::ngram::{tune_discounts, Evidence, Key, NgramModel, MAX_ORDER, NONE, START};
+use crate::eval::{closest_reference, word_hash};
+
+/// Training settings. The defaults are the configuration measured best on CMUdict under the
+/// time budget (see `benches/g2p_cmudict.rs`).
+#[derive(Clone, Debug, PartialEq)]
+pub struct TrainOptions {
+    /// Most letters in one graphone (1..=3).
+    pub max_letters: usize,
+    /// Most phones in one graphone (1..=3).
+    pub max_phones: usize,
+    /// Final n-gram order (1..=9).
+    pub order: usize,
+    /// Letter and phone normalisation.
+    pub symbols: SymbolOptions,
+    /// Share of training words (0..=50, by word hash) held out to tune discounts and to measure
+    /// the held-out phone error; 0 disables tuning (discounts stay at their start values).
+    pub heldout_percent: u32,
+    /// Most EM iterations at order 1.
+    pub first_iterations: usize,
+    /// Most EM iterations at each higher order.
+    pub iterations: usize,
+    /// EM stops at an order when the training log-likelihood improves by less than this share.
+    pub tolerance: f64,
+    /// Graphones with less total evidence than this are removed after each order-1 iteration.
+    pub min_graphone_evidence: f64,
+    /// Pruning of the training lattice.
+    pub beam: LatticeBeam,
+    /// Golden-section steps per discount when tuning.
+    pub tuning_steps: usize,
+    /// Worker threads (0: one per core).
+    pub threads: usize,
+    /// Identifier of the phone set, stored in the model.
+    pub phoneset_id: String,
+    /// Decode the held-out words after each order and report their phone error rate.
+    pub heldout_error: bool,
+}
+
+impl Default for TrainOptions {
+    fn default() -> Self {
+        TrainOptions {
+            max_letters: 1,
+            max_phones: 1,
+            order: 8,
+            symbols: SymbolOptions::default(),
+            heldout_percent: 5,
+            first_iterations: 40,
+            iterations: 3,
+            tolerance: 1e-3,
+            min_graphone_evidence: 0.5,
+            beam: LatticeBeam::default(),
+            tuning_steps: 8,
+            threads: 0,
+            phoneset_id: String::new(),
+            heldout_error: true,
+        }
+    }
+}
+
+/// One progress report, sent after every EM iteration.
+#[derive(Clone, Debug, PartialEq)]
+pub struct TrainProgress {
+    /// Order being trained.
+    pub order: usize,
+    /// The final order.
+    pub max_order: usize,
+    /// EM iteration at this order (1-based).
+    pub iteration: usize,
+    /// Training log-likelihood (natural log, summed over samples) under the model of the
+    /// previous iteration.
+    pub log_likelihood: f64,
+    /// Held-out log-likelihood of the held-out evidence under the new model.
+    pub heldout_log_likelihood: f64,
+    /// Held-out phone error rate (only after the last iteration of an order, if enabled).
+    pub heldout_per: Option<f64>,
+    /// Graphones in the inventory.
+    pub graphones: usize,
+    /// Explicit n-grams (order ≥ 2) in the model.
+    pub ngrams: usize,
+    /// Tuned discounts, lowest order first.
+    pub discounts: Vec<f64>,
+}
+
+/// Why training could not run.
+#[derive(Debug, thiserror::Error)]
+pub enum TrainError {
+    /// No usable (spelling, pronunciation) pair.
+    #[error("no training pairs with both letters and phones; check the lexicon")]
+    NoData,
+    /// An option is out of range.
+    #[error("invalid training option: {0}")]
+    BadOption(String),
+    /// More distinct letters or phones than the model can index.
+    #[error("too many distinct letters or phone symbols")]
+    TooManySymbols,
+    /// The worker pool could not start.
+    #[error("could not start {threads} worker threads: {reason}")]
+    Threads {
+        /// Requested threads.
+        threads: usize,
+        /// The system's reason.
+        reason: String,
+    },
+}
+
+/// The held-out bucket (0..100) of a word: the upper half of its evaluation hash, so the
+/// held-out part is independent of the evaluation split in [`crate::eval`].
+fn heldout_bucket(word: &str) -> u32 {
+    ((word_hash(word) >> 32) % 100) as u32
+}
+
+fn check(opts: &TrainOptions) -> Result<(), TrainError> {
+    let bad = |m: &str| Err(TrainError::BadOption(m.to_string()));
+    if !(1..=MAX_ORDER).contains(&opts.order) {
+        return bad(&format!("order must be in 1..={MAX_ORDER}"));
+    }
+    if !(1..=MAX_UNIT).contains(&opts.max_letters) || !(1..=MAX_UNIT).contains(&opts.max_phones) {
+        return bad(&format!("graphone sizes must be in 1..={MAX_UNIT}"));
+    }
+    if opts.heldout_percent > 50 {
+        return bad("held-out share must be at most 50 percent");
+    }
+    if opts.beam.max_states == 0 {
+        return bad("lattice beam must keep at least one state");
+    }
+    Ok(())
+}
+
+/// Every letter/phone sub-string pair within the size limits, over all samples.
+fn candidate_inventory(samples: &[Sample], max_letters: usize, max_phones: usize) -> Inventory {
+    let mut inv = Inventory::default();
+    for s in samples {
+        for i in 0..=s.letters.len() {
+            for j in 0..=s.phones.len() {
+                for a in 0..=max_letters.min(s.letters.len() - i) {
+                    for b in 0..=max_phones.min(s.phones.len() - j) {
+                        if a + b > 0 {
+                            inv.intern(&s.letters[i..i + a], &s.phones[j..j + b]);
+                        }
+                    }
+                }
+            }
+        }
+    }
+    inv
+}
+
+/// Drops graphones with too little order-1 evidence; returns the new inventory and the id map.
+fn trim(inv: &Inventory, evidence: &Evidence, min: f64) -> (Inventory, Vec<u32>) {
+    let mut mass = vec![0.0; inv.len()];
+    for (k, &v) in evidence {
+        if let Some(m) = mass.get_mut(k[0] as usize) {
+            *m += v;
+        }
+    }
+    let kept: Vec<Graphone> = inv.graphones().iter().zip(&mass).filter(|(_, &m)| m >= min).map(|(g, _)| g.clone()).collect();
+    let mut map = vec![NONE; inv.len() + 1];
+    let mut next = 0u32;
+    for (old, &m) in mass.iter().enumerate() {
+        if m >= min {
+            map[old] = next;
+            next += 1;
+        }
+    }
+    map[inv.len()] = next;
+    let new_inv = Inventory::from_graphones(kept).unwrap_or_default();
+    (new_inv, map)
+}
+
+/// Renames symbols of evidence keys through `map` (end symbol included); drops keys that
+/// mention a removed graphone.
+fn remap(evidence: Evidence, map: &[u32]) -> Evidence {
+    let mut out = Evidence::default();
+    'keys: for (k, v) in evidence {
+        let mut nk: Key = [NONE; MAX_ORDER];
+        for (slot, &s) in nk.iter_mut().zip(&k) {
+            *slot = match s {
+                NONE | START => s,
+                _ => match map.get(s as usize) {
+                    Some(&m) if m != NONE => m,
+                    _ => continue 'keys,
+                },
+            };
+        }
+        *out.entry(nk).or_insert(0.0) += v;
+    }
+    out
+}
+
+/// Held-out words grouped with all their reference pronunciations.
+type References = Vec<(String, Vec<Vec<String>>)>;
+
+fn heldout_per(model: &Model, refs: &References) -> f64 {
+    let (errors, length) = refs
+        .par_iter()
+        .map(|(word, variants)| {
+            let guess = model.guess(word, 1);
+            let hyp = guess.hypotheses.first().map(|h| h.phones.clone()).unwrap_or_default();
+            closest_reference(&hyp, variants).map_or((0, 0), |(i, d)| (d, variants[i].len()))
+        })
+        .reduce(|| (0, 0), |a, b| (a.0 + b.0, a.1 + b.1));
+    if length == 0 {
+        0.0
+    } else {
+        errors as f64 / length as f64
+    }
+}
+
+/// Interns the training pairs; returns (train samples, held-out samples, held-out references).
+fn prepare(data: &[(String, Vec<String>)], opts: &TrainOptions, model: &mut Model) -> Result<(Vec<Sample>, Vec<Sample>, References), TrainError> {
+    let mut train = Vec::new();
+    let mut heldout = Vec::new();
+    let mut refs: FastMap<String, Vec<Vec<String>>> = FastMap::default();
+    for (word, pron) in data {
+        let letters = opts.symbols.letters(word);
+        let phones: Vec<String> = pron.iter().map(|p| opts.symbols.phone(p)).filter(|p| !p.is_empty()).collect();
+        if letters.is_empty() || phones.is_empty() {
+            continue;
+        }
+        let l: Option<Vec<u32>> = letters.iter().map(|x| model.letters.intern(x)).collect();
+        let p: Option<Vec<u32>> = phones.iter().map(|x| model.phones.intern(x)).collect();
+        let sample = Sample { letters: l.ok_or(TrainError::TooManySymbols)?, phones: p.ok_or(TrainError::TooManySymbols)? };
+        if heldout_bucket(word) < opts.heldout_percent {
+            heldout.push(sample);
+            refs.entry(word.clone()).or_default().push(phones);
+        } else {
+            train.push(sample);
+        }
+    }
+    if train.is_empty() {
+        return Err(TrainError::NoData);
+    }
+    let mut refs: References = refs.into_iter().collect();
+    refs.sort();
+    Ok((train, heldout, refs))
+}
+
+/// Trains a model from (word, phone symbols) pairs; every pronunciation variant is a sample.
+///
+/// ```
+/// use orthoepy::g2p::{train, TrainOptions};
+/// let data: Vec<(String, Vec<String>)> = [("cat", "K AE T"), ("cab", "K AE B"), ("tab", "T AE B")]
+///     .iter().map(|(w, p)| (w.to_string(), p.split(' ').map(String::from).collect())).collect();
+/// let mut iterations = 0;
+/// let opts = TrainOptions { order: 2, heldout_percent: 0, ..TrainOptions::default() };
+/// let model = train(&data, &opts, &mut |_| iterations += 1).unwrap();
+/// assert!(iterations >= 2);
+/// assert_eq!(model.guess("bat", 1).hypotheses[0].phones, ["B", "AE", "T"]);
+/// ```
+pub fn train(data: &[(String, Vec<String>)], opts: &TrainOptions, progress: &mut dyn FnMut(&TrainProgress)) -> Result<Model, TrainError> {
+    check(opts)?;
+    let pool = rayon::ThreadPoolBuilder::new()
+        .num_threads(opts.threads)
+        .build()
+        .map_err(|e| TrainError::Threads { threads: opts.threads, reason: e.to_string() })?;
+    let mut model = Model {
+        symbols: opts.symbols,
+        phoneset_id: opts.phoneset_id.clone(),
+        letters: SymbolTable::default(),
+        phones: SymbolTable::default(),
+        inventory: Inventory::default(),
+        ngram: NgramModel::uniform(1),
+    };
+    let (train, heldout, refs) = prepare(data, opts, &mut model)?;
+    let mut all = train.clone();
+    all.extend(heldout.iter().cloned());
+    model.inventory = candidate_inventory(&all, opts.max_letters, opts.max_phones);
+    model.ngram = NgramModel::uniform(model.inventory.len() + 1);
+    let mut discounts = vec![0.5];
+    let mut last: Option<Expectation> = None;
+    for order in 1..=opts.order {
+        if order > 1 {
+            let top = discounts.last().copied().unwrap_or(0.5);
+            discounts.push(top);
+        }
+        let max_iter = if order == 1 { opts.first_iterations } else { opts.iterations }.max(1);
+        let mut previous: Option<f64> = None;
+        for iteration in 1..=max_iter {
+            let e_step = |samples: &[Sample], m: &Model| pool.install(|| expectation(samples, &m.inventory, &m.ngram, order, &opts.beam));
+            let mut e = e_step(&train, &model);
+            let mut h = e_step(&heldout, &model);
+            if order == 1 {
+                let (inv, map) = trim(&model.inventory, &e.evidence, opts.min_graphone_evidence);
+                model.inventory = inv;
+                e.evidence = remap(std::mem::take(&mut e.evidence), &map);
+                h.evidence = remap(std::mem::take(&mut h.evidence), &map);
+            }
+            let vocab = model.inventory.len() + 1;
+            let (tuned, heldout_ll) = pool.install(|| tune_discounts(&e.evidence, &h.evidence, &discounts, vocab, opts.tuning_steps));
+            discounts = tuned;
+            model.ngram = pool.install(|| NgramModel::estimate(&e.evidence, &discounts, vocab));
+            let converged = previous.is_some_and(|p: f64| (e.log_likelihood - p).abs() <= opts.tolerance * p.abs());
+            let done = converged || iteration == max_iter;
+            let per = (done && opts.heldout_error && !refs.is_empty()).then(|| pool.install(|| heldout_per(&model, &refs)));
+            progress(&TrainProgress {
+                order,
+                max_order: opts.order,
+                iteration,
+                log_likelihood: e.log_likelihood,
+                heldout_log_likelihood: heldout_ll,
+                heldout_per: per,
+                graphones: model.inventory.len(),
+                ngrams: model.ngram.explicit_ngrams(),
+                discounts: discounts.clone(),
+            });
+            previous = Some(e.log_likelihood);
+            last = Some(e);
+            if done {
+                break;
+            }
+        }
+    }
+    if !heldout.is_empty() {
+        let h = pool.install(|| expectation(&heldout, &model.inventory, &model.ngram, opts.order, &opts.beam));
+        if let Some(mut e) = last {
+            super::ngram::merge_evidence(&mut e.evidence, h.evidence);
+            model.ngram = pool.install(|| NgramModel::estimate(&e.evidence, &discounts, model.inventory.len() + 1));
+        }
+    }
+    Ok(model)
+}
