@@ -20,6 +20,7 @@ enum Command {
     Export(cli::export::Args),
     Find(cli::find::Args),
     Stats(cli::stats::Args),
+    Audit(cli::audit::Args),
 }
 
 fn main() -> ExitCode {
@@ -29,6 +30,7 @@ fn main() -> ExitCode {
         Command::Export(args) => cli::export::run(args),
         Command::Find(args) => cli::find::run(args),
         Command::Stats(args) => cli::stats::run(args),
+        Command::Audit(args) => cli::audit::run(args),
     };
     match result {
         Ok(code) => code,

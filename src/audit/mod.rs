@@ -44,7 +44,8 @@ mod report;
 mod unknown_phone;
 
 pub use context::{spelling_key, Context, ParsedEntry, Token};
-pub use invisible_character::{invisible_characters, Invisible};
+pub use invisible_character::{invisible_characters, Invisible, InvisibleChar};
+pub use mixed_script::is_mixed_script;
 pub use report::{CheckSummary, Report, Summary};
 
 use crate::lexicon::{Entry, EntryId};

@@ -5,6 +5,7 @@
 //! into messages for people and exit codes (0 success, 1 findings the user asked to fail on,
 //! 2 could not run). They hold no logic a library user would need.
 
+pub mod audit;
 pub mod export;
 pub mod find;
 pub mod import;
