@@ -63,7 +63,7 @@ mod tests {
         let found = with(&rows, |c| UnknownPhone.run(c));
         assert_eq!(found.len(), 2);
         assert_eq!(found[0].entry, 0);
-        assert!(found[0].message.starts_with("`IYY0` (phone 4, column 10)"), "{}", found[0].message);
+        assert!(found[0].message.starts_with("`IYY0` (phone 4, column 9)"), "{}", found[0].message);
         let shy = found[1].suggestion.clone().unwrap_or_default();
         assert!(shy.contains("SH") && shy.ends_with("e.g. SH AY1"), "{shy}");
     }
