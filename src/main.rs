@@ -29,6 +29,7 @@ enum Command {
     Review(cli::review::Args),
     Apply(cli::apply::Args),
     Demo(cli::demo::Args),
+    Audit(cli::audit::Args),
 }
 
 fn main() -> ExitCode {
@@ -47,6 +48,7 @@ fn main() -> ExitCode {
         Command::Review(args) => cli::review::run(args),
         Command::Apply(args) => cli::apply::run(args),
         Command::Demo(args) => cli::demo::run(args),
+        Command::Audit(args) => cli::audit::run(args),
     };
     match result {
         Ok(code) => code,

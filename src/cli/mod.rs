@@ -6,6 +6,7 @@
 //! 2 could not run). They hold no logic a library user would need.
 
 pub mod apply;
+pub mod audit;
 pub mod demo;
 pub mod evaluate;
 pub mod export;

@@ -1,0 +1,115 @@
+//! `orthoepy audit`: run the lexicon checks, print the report, optionally make the safe repairs.
+
+use super::{DataFormat, ProjectArgs};
+use anyhow::Context as _;
+use orthoepy::audit::{self, fix, Context, Report, Severity};
+use orthoepy::lexicon::{Lexicon, LoadMode};
+use orthoepy::phoneset::Phoneset;
+use std::path::PathBuf;
+use std::process::ExitCode;
+
+/// Severities `--fail-on` accepts.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
+pub enum FailOn {
+    /// Exit 1 when there is an error.
+    Error,
+    /// Exit 1 when there is a warning or an error.
+    Warning,
+    /// Exit 1 on any finding, notes included.
+    Info,
+}
+
+impl From<FailOn> for Severity {
+    fn from(f: FailOn) -> Severity {
+        match f {
+            FailOn::Error => Severity::Error,
+            FailOn::Warning => Severity::Warning,
+            FailOn::Info => Severity::Info,
+        }
+    }
+}
+
+/// Check a lexicon for unknown phones, broken stress, duplicates, bad headwords and entries that
+/// look wrong. Exit 0 when clean, 1 when findings at or above --fail-on exist, 2 when the audit
+/// could not run.
+///
+/// --fix makes only safe repairs (Unicode NFC, trimming, single spaces, dropping invisible
+/// characters and exact duplicate rows), prints each change, saves atomically keeping a .bak,
+/// refuses a file changed on disk, and then reports what is left.
+///
+/// Example: orthoepy audit lexicon.csv --checks unknown-phone,duplicate-entry --format json
+#[derive(Debug, clap::Args)]
+#[command(verbatim_doc_comment)]
+pub struct Args {
+    /// The CSV store (default: the project's lexicon).
+    lexicon: Option<PathBuf>,
+    /// Phoneset: a shipped id or a TOML path (default: the project's, else en-arpa).
+    #[arg(long, value_name = "NAME")]
+    phoneset: Option<String>,
+    /// Output format.
+    #[arg(long, value_enum, default_value = "text")]
+    format: DataFormat,
+    /// Lowest severity that makes the exit code 1.
+    #[arg(long, value_enum, default_value = "error")]
+    fail_on: FailOn,
+    /// Make the safe repairs and save the lexicon (a .bak is kept).
+    #[arg(long)]
+    fix: bool,
+    /// Run only these checks (comma-separated ids; default: all).
+    #[arg(long, value_delimiter = ',', value_name = "ID,...")]
+    checks: Vec<String>,
+    #[command(flatten)]
+    project: ProjectArgs,
+}
+
+/// The JSON document: the report, plus the changes when --fix ran.
+#[derive(serde::Serialize)]
+struct Output<'a> {
+    #[serde(flatten)]
+    report: &'a Report,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    fixes: Option<&'a [fix::Change]>,
+}
+
+pub fn run(args: Args) -> anyhow::Result<ExitCode> {
+    let (path, policy, project) = args.project.lexicon_path(args.lexicon.as_deref())?;
+    let checks = if args.checks.is_empty() {
+        audit::all_checks()
+    } else {
+        audit::select_checks(&args.checks.iter().map(String::as_str).collect::<Vec<_>>())?
+    };
+    let spec = args.phoneset.clone().or_else(|| project.as_ref().map(|p| p.phoneset.clone())).unwrap_or_else(|| "en-arpa".into());
+    let base = match &project {
+        Some(p) => p.root.clone(),
+        None => std::env::current_dir().context("cannot read the current folder")?,
+    };
+    let phoneset = Phoneset::resolve(&spec, &base).with_context(|| format!("cannot load phoneset {spec:?}"))?;
+    let stress = project.as_ref().map(|p| p.stress.clone()).unwrap_or_default();
+    let load = || Lexicon::load_with(&path, policy, LoadMode::Repair).context("cannot load the lexicon");
+    let mut lexicon = load()?;
+    let changes = if args.fix { fix::apply(&mut lexicon) } else { Vec::new() };
+    if !changes.is_empty() {
+        lexicon.save().context("cannot save the repaired lexicon")?;
+        lexicon = load()?; // line numbers of the saved file
+    }
+    let context = Context::new(lexicon.entries(), policy, &phoneset, &stress);
+    let file = path.display().to_string();
+    let report = audit::run(&context, &checks, Some(&file));
+    match args.format {
+        DataFormat::Json => super::print_json(&Output { report: &report, fixes: args.fix.then_some(changes.as_slice()) })?,
+        DataFormat::Text => {
+            if args.fix {
+                for change in &changes {
+                    println!("fixed {file}: {change}");
+                }
+                match changes.len() {
+                    0 => println!("nothing to fix safely\n"),
+                    n => println!("{n} safe repairs saved to {file} (previous version in {})\n", orthoepy::safe_io::backup_path(&path).display()),
+                }
+            }
+            print!("{}", report.to_text());
+        }
+    }
+    let failing = report.count_at_least(args.fail_on.into());
+    Ok(if failing > 0 { ExitCode::from(1) } else { ExitCode::SUCCESS })
+}
