@@ -54,7 +54,9 @@ impl SymbolOptions {
     /// let opts = SymbolOptions::default();
     /// assert_eq!(opts.letters("Cafe\u{301}"), vec!["c", "a", "f", "é"]);
     /// let clusters = SymbolOptions { letter_unit: LetterUnit::GraphemeCluster, ..opts };
-    /// assert_eq!(clusters.letters("नमस्ते").len(), 4);
+    /// // q + combining acute has no precomposed form: two code points, one grapheme cluster.
+    /// assert_eq!(opts.letters("q\u{301}a").len(), 3);
+    /// assert_eq!(clusters.letters("q\u{301}a").len(), 2);
     /// ```
     pub fn letters(&self, word: &str) -> Vec<String> {
         let nfc: String = word.nfc().collect();
