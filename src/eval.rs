@@ -76,8 +76,8 @@ fn distance_table<S: AsRef<str>>(hyp: &[S], reference: &[S]) -> Vec<Vec<usize>> 
     for (i, row) in d.iter_mut().enumerate() {
         row[0] = i;
     }
-    for j in 0..=reference.len() {
-        d[0][j] = j;
+    for (j, cell) in d[0].iter_mut().enumerate() {
+        *cell = j;
     }
     for i in 1..=hyp.len() {
         for j in 1..=reference.len() {
@@ -264,7 +264,7 @@ pub fn score(words: &[Scored]) -> Evaluation {
         })
         .collect();
     let mut list: Vec<Confusion> = confusions.into_iter().map(|((reference, hypothesis), count)| Confusion { reference, hypothesis, count }).collect();
-    list.sort_by(|a, b| b.count.cmp(&a.count));
+    list.sort_by_key(|c| std::cmp::Reverse(c.count));
     list.truncate(TOP_CONFUSIONS);
     eval.confusions = list;
     eval

@@ -33,10 +33,10 @@ pub struct Args {
 /// Runs the command.
 pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     let (lexicon, _) = args.project.load_lexicon(args.lexicon.as_deref())?;
-    let policy = lexicon.policy().clone();
+    let policy = *lexicon.policy();
     let (train, test) = split_by_word(lexicon.entries().to_vec(), |e| e.word.as_str(), args.test_percent);
     let (n_train, n_test) = (train.len(), test.len());
-    Lexicon::from_entries(train, policy.clone()).save_as(&args.train).context("cannot write the training store")?;
+    Lexicon::from_entries(train, policy).save_as(&args.train).context("cannot write the training store")?;
     Lexicon::from_entries(test, policy).save_as(&args.test).context("cannot write the test store")?;
     eprintln!("{n_train} entries → {}, {n_test} entries → {}", args.train.display(), args.test.display());
     Ok(ExitCode::SUCCESS)

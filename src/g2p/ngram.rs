@@ -235,13 +235,13 @@ pub struct NgramModel {
 pub enum NgramError {
     /// The order is 0 or above [`MAX_ORDER`], or discounts do not match it.
     #[error("n-gram order {0} is not in 1..={MAX_ORDER} or does not match the discounts")]
-    BadOrder(usize),
+    Order(usize),
     /// The unigram table is empty or holds a non-finite or positive log-probability.
     #[error("unigram table is empty or holds an invalid log-probability")]
-    BadUnigram,
+    Unigram,
     /// A context is malformed.
     #[error("context {index}: {reason}")]
-    BadContext {
+    InvalidContext {
         /// Position of the context in the list.
         index: usize,
         /// What is wrong.
@@ -302,10 +302,10 @@ impl NgramModel {
     /// Assembles a model from stored parts, validating every field (used by the model file).
     pub fn from_parts(order: usize, discounts: Vec<f64>, unigram: Vec<f32>, contexts: Vec<Context>) -> Result<NgramModel, NgramError> {
         if order == 0 || order > MAX_ORDER || discounts.len() != order || discounts.iter().any(|d| !d.is_finite()) {
-            return Err(NgramError::BadOrder(order));
+            return Err(NgramError::Order(order));
         }
         if unigram.is_empty() || !unigram.iter().all(|&x| valid_logp(x)) {
-            return Err(NgramError::BadUnigram);
+            return Err(NgramError::Unigram);
         }
         let vocab = unigram.len() as u32;
         let mut index = FastMap::default();
@@ -313,7 +313,7 @@ impl NgramModel {
         let mut symbols = Vec::new();
         let mut logps = Vec::new();
         for (i, c) in contexts.iter().enumerate() {
-            let bad = |reason| Err(NgramError::BadContext { index: i, reason });
+            let bad = |reason| Err(NgramError::InvalidContext { index: i, reason });
             if c.history.is_empty() || c.history.len() >= order {
                 return bad("history length must be in 1..order");
             }
