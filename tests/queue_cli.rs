@@ -72,10 +72,26 @@ fn word_list_items_get_guessed_candidates() {
 }
 
 #[test]
-fn variants_and_audit_intake_say_they_are_not_available() {
+fn audit_intake_says_it_is_not_available() {
     let tmp = tempfile::tempdir().unwrap();
     project(tmp.path());
     orthoepy(tmp.path(), &["queue", "add", "--audit"]).assert().code(2);
+}
+
+#[test]
+fn variant_proposals_are_queued_per_canonical_form() {
+    let tmp = tempfile::tempdir().unwrap();
+    project(tmp.path());
+    orthoepy(tmp.path(), &["queue", "add", "--variants", "southern-british"]).assert().success();
+    let items = list(tmp.path());
+    // Non-rhotic accents drop R before a consonant (Wells, Accents of English, 1982, vol. 1,
+    // 3.2.1 'R dropping'): "port" P AO1 R T loses its R.
+    let port = items.as_array().unwrap().iter().find(|i| i["word"] == "port").expect("port has a variant");
+    assert_eq!(port["kind"], "variant");
+    assert_eq!(port["canonical"], "P AO1 R T");
+    let cands = port["candidates"].as_array().unwrap();
+    assert!(cands.iter().any(|c| c["pronunciation"] == "P AO1 T"), "{cands:?}");
+    assert!(cands[0]["rules"].as_array().is_some_and(|r| !r.is_empty()));
 }
 
 fn decide(dir: &Path, item: &str, word: &str, action: Action) {

@@ -11,8 +11,9 @@ use orthoepy::g2p::Model;
 use orthoepy::phoneset::Phoneset;
 use orthoepy::queue::{
     items_from_corpus, items_from_word_list, Added, AlignPair, Apostrophe, Candidate, Case, Digits, Hyphen, Item,
-    Journal, Ledger, Queue, TokenRule,
+    ItemKind, Journal, Ledger, Queue, TokenRule,
 };
+use orthoepy::variants::{Generator, Options as VariantOptions, Profile};
 use orthoepy::tui::{self, ItemState};
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
@@ -162,16 +163,17 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
 }
 
 fn add(project: &Project, a: AddArgs) -> anyhow::Result<ExitCode> {
-    if a.variants.is_some() || a.audit {
-        anyhow::bail!(
-            "queueing {} is not available in this build yet; queue words with --words or --corpus",
-            if a.audit { "audit findings" } else { "variant proposals" }
-        );
-    }
+    anyhow::ensure!(
+        !a.audit,
+        "queueing audit findings is not available in this build yet; queue words with --words, --corpus or --variants"
+    );
     let lexicon = Lexicon::load(&project.lexicon, project.headword_policy()).context("cannot load the lexicon")?;
     let rule = token_rule(&a);
     let corpus = a.corpus.as_deref().map(|p| (p, rule, a.min_count));
     let mut items = intake(&lexicon, a.words.as_deref(), corpus)?;
+    if let Some(spec) = &a.variants {
+        items.extend(variant_items(project, &lexicon, spec)?);
+    }
     if !a.no_guess {
         guess_missing(&mut items, &ProjectGuesser::open(project, lexicon)?);
     }
@@ -302,4 +304,30 @@ pub fn guess_missing(items: &mut [Item], guesser: &dyn tui::Guesser) {
         bar.inc(1);
     }
     bar.finish_and_clear();
+}
+
+/// Items for the variants an accent profile proposes for the lexicon: one item per canonical
+/// pronunciation, its variants as candidates (probability as score, fired rules listed).
+pub fn variant_items(project: &Project, lexicon: &Lexicon, profile_spec: &str) -> anyhow::Result<Vec<Item>> {
+    let phoneset = Phoneset::resolve(&project.phoneset, &project.root).context("cannot load the phoneset")?;
+    let profile = Profile::resolve(profile_spec, &project.root, &phoneset)
+        .with_context(|| format!("cannot load the accent profile {profile_spec}"))?;
+    let generation = Generator::new(&phoneset, &profile, VariantOptions::default()).run(lexicon, None);
+    for s in &generation.skipped {
+        eprintln!("warning: {}: line {}: {}", s.word, s.line, s.message);
+    }
+    let mut queue = Queue::new();
+    for v in generation.variants {
+        let mut item = Item::new_word(&v.word);
+        item.kind = ItemKind::Variant { canonical: v.canonical.clone(), profile: profile.id.clone() };
+        item.origin = format!("variants:{}", profile.id);
+        let mut sets: Vec<&str> = v.fired.iter().map(|f| f.rule_set.as_str()).collect();
+        sets.dedup();
+        let mut cand = Candidate::new(&v.pronunciation, &format!("variant:{}", sets.join("+")));
+        cand.score = Some(v.probability);
+        cand.rules = v.fired.iter().map(|f| format!("{}/{}", f.rule_set, f.rule_id)).collect();
+        item.candidates.push(cand);
+        queue.add(item);
+    }
+    Ok(queue.items().to_vec())
 }

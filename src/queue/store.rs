@@ -122,7 +122,7 @@ impl Queue {
 
     /// Reorder items: highest corpus count first, ties in their current order.
     pub fn sort_by_count(&mut self) {
-        self.items.sort_by(|a, b| b.count.cmp(&a.count));
+        self.items.sort_by_key(|i| std::cmp::Reverse(i.count));
         self.reindex();
     }
 

@@ -174,6 +174,9 @@ impl Lookups {
     }
 }
 
+/// One aligned position: a token of each side, or a gap.
+pub type AlignedPair = (Option<String>, Option<String>);
+
 fn tokens(p: &str) -> Vec<String> {
     p.split_whitespace().map(str::to_string).collect()
 }
@@ -186,7 +189,7 @@ fn bare(t: &str) -> &str {
 /// string-to-string correction problem", JACM 1974). A substitution differing only in stress
 /// digits costs 1, other substitutions 2, insertions and deletions 2 each (in half-edit units).
 /// Returns the aligned pairs and the cost.
-pub fn align(a: &[String], b: &[String]) -> (Vec<(Option<String>, Option<String>)>, usize) {
+pub fn align(a: &[String], b: &[String]) -> (Vec<AlignedPair>, usize) {
     let (n, m) = (a.len(), b.len());
     let sub = |i: usize, j: usize| match (a.get(i), b.get(j)) {
         (Some(x), Some(y)) if x == y => 0,
@@ -197,8 +200,10 @@ pub fn align(a: &[String], b: &[String]) -> (Vec<(Option<String>, Option<String>
     for (i, row) in d.iter_mut().enumerate() {
         row[0] = i * 2;
     }
-    for j in 0..=m {
-        d[0][j] = j * 2;
+    if let Some(first) = d.first_mut() {
+        for (j, cell) in first.iter_mut().enumerate() {
+            *cell = j * 2;
+        }
     }
     for i in 1..=n {
         for j in 1..=m {

@@ -19,7 +19,7 @@ mod view;
 pub use editor::Editor;
 pub use filter::{Filter, ItemState};
 pub use help::KEYS;
-pub use lookups::{align, Lookups, NEIGHBOUR_LIMIT};
+pub use lookups::{align, AlignedPair, Lookups, NEIGHBOUR_LIMIT};
 pub use phones::{check_all, PhoneCheck, PhonesetCheck, SymbolList, TokenVerdict};
 pub use state::{
     App, FeatureColumn, FeatureTrack, FeatureView, JobProgress, Mode, Neighbours, PendingWrite, SaveState, SearchBox,

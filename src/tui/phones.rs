@@ -95,7 +95,7 @@ pub fn check_all(checker: &dyn PhoneCheck, pronunciation: &str) -> Vec<(String, 
 /// use orthoepy::tui::{PhoneCheck, PhonesetCheck, TokenVerdict};
 /// let check = PhonesetCheck::new(Phoneset::shipped("en-arpa").unwrap());
 /// assert_eq!(check.check("AO2"), TokenVerdict::Known);
-/// assert!(matches!(check.check("XX"), TokenVerdict::Unknown(_)));
+/// assert!(matches!(check.check("XQ"), TokenVerdict::Unknown(_)));
 /// assert!(check.complete("S").contains(&"SH".to_string()));
 /// ```
 pub struct PhonesetCheck {

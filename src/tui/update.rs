@@ -212,11 +212,7 @@ fn normal_key(app: &mut App, key: Key) -> Vec<Effect> {
     match key {
         Key::Char('q') => return quit(app),
         Key::Up | Key::Char('k') => app.selected = app.selected.saturating_sub(1),
-        Key::Down | Key::Char('j') => {
-            if app.selected + 1 < n_cands {
-                app.selected += 1;
-            }
-        }
+        Key::Down | Key::Char('j') if app.selected + 1 < n_cands => app.selected += 1,
         Key::Char(c @ '1'..='9') => {
             let i = (c as usize) - ('1' as usize);
             if i < n_cands {
@@ -228,11 +224,9 @@ fn normal_key(app: &mut App, key: Key) -> Vec<Effect> {
         Key::Enter => return accept_selected(app),
         Key::Char('x') => return decide(app, Action::Reject, String::new()),
         Key::Char('s') => return decide(app, Action::SetAside, String::new()),
-        Key::Char('e') => {
-            if app.current().is_some() {
-                let text = app.current_candidate().map(|c| c.pronunciation.clone()).unwrap_or_default();
-                app.mode = Mode::Edit(Editor::new(&text));
-            }
+        Key::Char('e') if app.current().is_some() => {
+            let text = app.current_candidate().map(|c| c.pronunciation.clone()).unwrap_or_default();
+            app.mode = Mode::Edit(Editor::new(&text));
         }
         Key::Char('n') => move_to(app, app.step_visible(true)),
         Key::Char('p') => move_to(app, app.step_visible(false)),
