@@ -163,16 +163,15 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
 }
 
 fn add(project: &Project, a: AddArgs) -> anyhow::Result<ExitCode> {
-    anyhow::ensure!(
-        !a.audit,
-        "queueing audit findings is not available in this build yet; queue words with --words, --corpus or --variants"
-    );
     let lexicon = Lexicon::load(&project.lexicon, project.headword_policy()).context("cannot load the lexicon")?;
     let rule = token_rule(&a);
     let corpus = a.corpus.as_deref().map(|p| (p, rule, a.min_count));
     let mut items = intake(&lexicon, a.words.as_deref(), corpus)?;
     if let Some(spec) = &a.variants {
         items.extend(variant_items(project, &lexicon, spec)?);
+    }
+    if a.audit {
+        items.extend(audit_items(project, &lexicon)?);
     }
     if !a.no_guess {
         guess_missing(&mut items, &ProjectGuesser::open(project, lexicon)?);
@@ -304,6 +303,47 @@ pub fn guess_missing(items: &mut [Item], guesser: &dyn tui::Guesser) {
         bar.inc(1);
     }
     bar.finish_and_clear();
+}
+
+/// Audit checks whose findings a reviewer settles by choosing or editing a pronunciation; the
+/// headword checks are left to `orthoepy audit --fix` and to the maintainer.
+const PRONUNCIATION_CHECKS: [&str; 8] = [
+    "unknown-phone",
+    "bad-stress-mark",
+    "missing-primary-stress",
+    "multiple-primary-stress",
+    "no-nucleus",
+    "empty-pronunciation",
+    "length-outlier",
+    "phonotactic",
+];
+
+/// Items for the audit findings about pronunciations (warnings and errors; informational notes
+/// such as weak forms stay out of the queue): one item per flagged entry, with the
+/// finding's message; candidates come from the guesser (the reviewer may also edit the current
+/// pronunciation, or reject to keep it).
+pub fn audit_items(project: &Project, lexicon: &Lexicon) -> anyhow::Result<Vec<Item>> {
+    let phoneset = Phoneset::resolve(&project.phoneset, &project.root).context("cannot load the phoneset")?;
+    let checks = orthoepy::audit::select_checks(&PRONUNCIATION_CHECKS)?;
+    let context = orthoepy::audit::Context::new(lexicon.entries(), project.headword_policy(), &phoneset, &project.stress);
+    let report = orthoepy::audit::run(&context, &checks, None);
+    let mut queue = Queue::new();
+    for finding in report.findings.iter().filter(|f| f.severity >= orthoepy::audit::Severity::Warning) {
+        let mut item = Item::new_word(&finding.word);
+        let message = match &finding.suggestion {
+            Some(hint) => format!("{} ({hint})", finding.message),
+            None => finding.message.clone(),
+        };
+        item.kind = ItemKind::Audit {
+            check: finding.check.clone(),
+            current: finding.pronunciation.clone(),
+            message,
+            line: finding.line,
+        };
+        item.origin = format!("audit:{}", finding.check);
+        queue.add(item);
+    }
+    Ok(queue.items().to_vec())
 }
 
 /// Items for the variants an accent profile proposes for the lexicon: one item per canonical
