@@ -20,6 +20,15 @@ enum Command {
     Export(cli::export::Args),
     Find(cli::find::Args),
     Stats(cli::stats::Args),
+    Variants(cli::variants::Args),
+    Train(cli::train::Args),
+    Guess(cli::guess::Args),
+    Split(cli::split::Args),
+    Evaluate(cli::evaluate::Args),
+    Queue(cli::queue::Args),
+    Review(cli::review::Args),
+    Apply(cli::apply::Args),
+    Demo(cli::demo::Args),
     Audit(cli::audit::Args),
 }
 
@@ -30,6 +39,15 @@ fn main() -> ExitCode {
         Command::Export(args) => cli::export::run(args),
         Command::Find(args) => cli::find::run(args),
         Command::Stats(args) => cli::stats::run(args),
+        Command::Variants(args) => cli::variants::run(args),
+        Command::Train(args) => cli::train::run(args),
+        Command::Guess(args) => cli::guess::run(args),
+        Command::Split(args) => cli::split::run(args),
+        Command::Evaluate(args) => cli::evaluate::run(args),
+        Command::Queue(args) => cli::queue::run(args),
+        Command::Review(args) => cli::review::run(args),
+        Command::Apply(args) => cli::apply::run(args),
+        Command::Demo(args) => cli::demo::run(args),
         Command::Audit(args) => cli::audit::run(args),
     };
     match result {

@@ -5,11 +5,20 @@
 //! into messages for people and exit codes (0 success, 1 findings the user asked to fail on,
 //! 2 could not run). They hold no logic a library user would need.
 
+pub mod apply;
 pub mod audit;
+pub mod demo;
+pub mod evaluate;
 pub mod export;
 pub mod find;
+pub mod guess;
 pub mod import;
+pub mod queue;
+pub mod review;
+pub mod split;
 pub mod stats;
+pub mod train;
+pub mod variants;
 
 use anyhow::Context;
 use orthoepy::lexicon::{HeadwordPolicy, Lexicon};

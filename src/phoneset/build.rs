@@ -19,24 +19,46 @@ use super::{phonotactics, PhoneId, Phoneset, MAX_FILE_BYTES};
 /// Parses and checks phoneset TOML `text`; `file` labels error messages.
 pub(crate) fn from_text(text: &str, file: &str) -> Result<Phoneset, PhonesetError> {
     if text.len() as u64 > MAX_FILE_BYTES {
-        return Err(PhonesetError::TooLarge { file: file.to_string(), size: text.len() as u64, limit: MAX_FILE_BYTES });
+        return Err(PhonesetError::TooLarge {
+            file: file.to_string(),
+            size: text.len() as u64,
+            limit: MAX_FILE_BYTES,
+        });
     }
     let raw: RawPhoneset = parse_toml(text, file)?;
     let mut problems = Problems::new(text);
     let schema = build_schema(&raw, &mut problems)?;
     for field in [&raw.id, &raw.name] {
         if field.get_ref().trim().is_empty() {
-            problems.add(field.span(), CheckProblem::BadSymbol { symbol: field.get_ref().clone() });
+            problems.add(
+                field.span(),
+                CheckProblem::BadSymbol {
+                    symbol: field.get_ref().clone(),
+                },
+            );
         }
     }
     let max = PhoneId::MAX as usize;
     if raw.phone.len() > max {
-        let problem = CheckProblem::TooManyPhones { count: raw.phone.len(), max };
-        return Err(PhonesetError::Invalid { file: file.into(), problems: vec![Located { line: 1, column: 1, problem }] });
+        let problem = CheckProblem::TooManyPhones {
+            count: raw.phone.len(),
+            max,
+        };
+        return Err(PhonesetError::Invalid {
+            file: file.into(),
+            problems: vec![Located {
+                line: 1,
+                column: 1,
+                problem,
+            }],
+        });
     }
     let (phones, lines) = build_phones(&raw.phone, &schema, &mut problems);
-    let by_symbol: HashMap<String, PhoneId> =
-        phones.iter().enumerate().map(|(i, p)| (p.symbol.clone(), i as PhoneId)).collect();
+    let by_symbol: HashMap<String, PhoneId> = phones
+        .iter()
+        .enumerate()
+        .map(|(i, p)| (p.symbol.clone(), i as PhoneId))
+        .collect();
     check_allophones(&raw.phone, &by_symbol, &mut problems);
     check_bundles(&raw.phone, &phones, &lines, &mut problems);
     let stress = StressMarks::build(raw.stress.as_ref(), &by_symbol, &mut problems);
@@ -47,14 +69,23 @@ pub(crate) fn from_text(text: &str, file: &str) -> Result<Phoneset, PhonesetErro
     for (i, p) in phones.iter().enumerate() {
         let better = match by_ipa.get(&p.ipa) {
             None => true,
-            Some(&old) => phones.get(old as usize).is_some_and(|o| o.is_allophone() && !p.is_allophone()),
+            Some(&old) => phones
+                .get(old as usize)
+                .is_some_and(|o| o.is_allophone() && !p.is_allophone()),
         };
         if better {
             by_ipa.insert(p.ipa.clone(), i as PhoneId);
         }
     }
-    let max_ipa_chars = phones.iter().map(|p| p.ipa.chars().count()).max().unwrap_or(0);
-    let distances = phones.iter().flat_map(|a| phones.iter().map(|b| phone_distance(&schema, a, b))).collect();
+    let max_ipa_chars = phones
+        .iter()
+        .map(|p| p.ipa.chars().count())
+        .max()
+        .unwrap_or(0);
+    let distances = phones
+        .iter()
+        .flat_map(|a| phones.iter().map(|b| phone_distance(&schema, a, b)))
+        .collect();
     Ok(Phoneset {
         id: raw.id.into_inner(),
         name: raw.name.into_inner(),
@@ -76,16 +107,26 @@ fn build_schema(raw: &RawPhoneset, problems: &mut Problems<'_>) -> Result<Schema
     let name = raw.schema.get_ref();
     if !raw.feature.is_empty() {
         if Schema::shipped_names().contains(&name.as_str()) {
-            problems.add(raw.schema.span(), CheckProblem::SchemaShadowsShipped { name: name.clone() });
+            problems.add(
+                raw.schema.span(),
+                CheckProblem::SchemaShadowsShipped { name: name.clone() },
+            );
         }
-        return Ok(Schema::build(&raw.schema, raw.syllabic_weight.as_ref(), &raw.feature, problems));
+        return Ok(Schema::build(
+            &raw.schema,
+            raw.syllabic_weight.as_ref(),
+            &raw.feature,
+            problems,
+        ));
     }
     if let Some(w) = &raw.syllabic_weight {
         problems.add(
             w.span(),
             CheckProblem::BadFeature {
                 feature: "syllabic".into(),
-                message: "`syllabic_weight` belongs to an inline schema; this file uses a shipped one".into(),
+                message:
+                    "`syllabic_weight` belongs to an inline schema; this file uses a shipped one"
+                        .into(),
             },
         );
     }
@@ -94,14 +135,26 @@ fn build_schema(raw: &RawPhoneset, problems: &mut Problems<'_>) -> Result<Schema
         None => {
             problems.add(
                 raw.schema.span(),
-                CheckProblem::UnknownSchema { name: name.clone(), known: Schema::shipped_names().join(", ") },
+                CheckProblem::UnknownSchema {
+                    name: name.clone(),
+                    known: Schema::shipped_names().join(", "),
+                },
             );
-            Ok(Schema::build(&raw.schema, None, &[], &mut Problems::new("")))
+            Ok(Schema::build(
+                &raw.schema,
+                None,
+                &[],
+                &mut Problems::new(""),
+            ))
         }
     }
 }
 
-fn build_phones(raw: &[Spanned<RawPhone>], schema: &Schema, problems: &mut Problems<'_>) -> (Vec<Phone>, Vec<usize>) {
+fn build_phones(
+    raw: &[Spanned<RawPhone>],
+    schema: &Schema,
+    problems: &mut Problems<'_>,
+) -> (Vec<Phone>, Vec<usize>) {
     let mut phones = Vec::new();
     let mut lines = Vec::new();
     let mut first_line: HashMap<&str, usize> = HashMap::new();
@@ -110,14 +163,30 @@ fn build_phones(raw: &[Spanned<RawPhone>], schema: &Schema, problems: &mut Probl
         let r = rp.get_ref();
         let symbol = r.symbol.get_ref();
         if symbol.is_empty() || symbol.contains(char::is_whitespace) {
-            problems.add(r.symbol.span(), CheckProblem::BadSymbol { symbol: symbol.clone() });
+            problems.add(
+                r.symbol.span(),
+                CheckProblem::BadSymbol {
+                    symbol: symbol.clone(),
+                },
+            );
         } else if let Some(&line) = first_line.get(symbol.as_str()) {
-            problems.add(r.symbol.span(), CheckProblem::DuplicateSymbol { symbol: symbol.clone(), first_line: line });
+            problems.add(
+                r.symbol.span(),
+                CheckProblem::DuplicateSymbol {
+                    symbol: symbol.clone(),
+                    first_line: line,
+                },
+            );
             continue;
         }
         first_line.insert(symbol, problems.line_of(&r.symbol.span()));
         let Some(class) = PhoneClass::from_name(r.class.get_ref()) else {
-            problems.add(r.class.span(), CheckProblem::UnknownClass { value: r.class.get_ref().clone() });
+            problems.add(
+                r.class.span(),
+                CheckProblem::UnknownClass {
+                    value: r.class.get_ref().clone(),
+                },
+            );
             continue;
         };
         let ipa = text_field(&r.ipa, "ipa", symbol, &span, problems);
@@ -154,11 +223,23 @@ fn text_field(
     match value {
         Some(v) if !v.get_ref().trim().is_empty() => v.get_ref().trim().to_string(),
         Some(v) => {
-            problems.add(v.span(), CheckProblem::MissingField { phone: phone.to_string(), field });
+            problems.add(
+                v.span(),
+                CheckProblem::MissingField {
+                    phone: phone.to_string(),
+                    field,
+                },
+            );
             String::new()
         }
         None => {
-            problems.add(span.clone(), CheckProblem::MissingField { phone: phone.to_string(), field });
+            problems.add(
+                span.clone(),
+                CheckProblem::MissingField {
+                    phone: phone.to_string(),
+                    field,
+                },
+            );
             String::new()
         }
     }
@@ -176,25 +257,49 @@ fn build_targets(
         (Some(t), PhoneClass::Diphthong) if t.get_ref().len() >= 2 => t
             .get_ref()
             .iter()
-            .map(|b| schema.check_bundle(b.get_ref(), b.span(), PhoneClass::Vowel, &symbol, problems))
+            .map(|b| {
+                schema.check_bundle(b.get_ref(), b.span(), PhoneClass::Vowel, &symbol, problems)
+            })
             .collect(),
         (Some(t), PhoneClass::Diphthong) => {
-            problems.add(t.span(), CheckProblem::BadTargets { phone: symbol, message: "a diphthong needs at least two vowel targets" });
+            problems.add(
+                t.span(),
+                CheckProblem::BadTargets {
+                    phone: symbol,
+                    message: "a diphthong needs at least two vowel targets",
+                },
+            );
             Vec::new()
         }
         (None, PhoneClass::Diphthong) => {
-            problems.add(span.clone(), CheckProblem::BadTargets { phone: symbol, message: "a diphthong needs `targets = [{..}, {..}]`" });
+            problems.add(
+                span.clone(),
+                CheckProblem::BadTargets {
+                    phone: symbol,
+                    message: "a diphthong needs `targets = [{..}, {..}]`",
+                },
+            );
             Vec::new()
         }
         (Some(t), _) => {
-            problems.add(t.span(), CheckProblem::BadTargets { phone: symbol, message: "only diphthongs have targets; use `features`" });
+            problems.add(
+                t.span(),
+                CheckProblem::BadTargets {
+                    phone: symbol,
+                    message: "only diphthongs have targets; use `features`",
+                },
+            );
             Vec::new()
         }
         (None, _) => Vec::new(),
     }
 }
 
-fn check_allophones(raw: &[Spanned<RawPhone>], symbols: &HashMap<String, PhoneId>, problems: &mut Problems<'_>) {
+fn check_allophones(
+    raw: &[Spanned<RawPhone>],
+    symbols: &HashMap<String, PhoneId>,
+    problems: &mut Problems<'_>,
+) {
     for r in raw.iter().map(Spanned::get_ref) {
         for base in &r.allophone_of {
             let why = if base.get_ref() == r.symbol.get_ref() {
@@ -206,7 +311,11 @@ fn check_allophones(raw: &[Spanned<RawPhone>], symbols: &HashMap<String, PhoneId
             };
             problems.add(
                 base.span(),
-                CheckProblem::BadAllophoneBase { phone: r.symbol.get_ref().clone(), base: base.get_ref().clone(), why },
+                CheckProblem::BadAllophoneBase {
+                    phone: r.symbol.get_ref().clone(),
+                    base: base.get_ref().clone(),
+                    why,
+                },
             );
         }
     }
@@ -214,7 +323,12 @@ fn check_allophones(raw: &[Spanned<RawPhone>], symbols: &HashMap<String, PhoneId
 
 /// Two phones may share class, features, targets and syllabicity only when one is marked an
 /// allophone of the other.
-fn check_bundles(raw: &[Spanned<RawPhone>], phones: &[Phone], lines: &[usize], problems: &mut Problems<'_>) {
+fn check_bundles(
+    raw: &[Spanned<RawPhone>],
+    phones: &[Phone],
+    lines: &[usize],
+    problems: &mut Problems<'_>,
+) {
     type Key<'p> = (PhoneClass, &'p Features, &'p [Features], bool);
     let mut seen: HashMap<Key<'_>, usize> = HashMap::new();
     for (i, p) in phones.iter().enumerate() {
@@ -224,9 +338,13 @@ fn check_bundles(raw: &[Spanned<RawPhone>], phones: &[Phone], lines: &[usize], p
             continue;
         };
         let Some(other) = phones.get(j) else { continue };
-        let related = p.allophone_of.contains(&other.symbol) || other.allophone_of.contains(&p.symbol);
+        let related =
+            p.allophone_of.contains(&other.symbol) || other.allophone_of.contains(&p.symbol);
         if !related {
-            let span = raw.iter().find(|r| r.get_ref().symbol.get_ref() == &p.symbol).map(|r| r.get_ref().symbol.span());
+            let span = raw
+                .iter()
+                .find(|r| r.get_ref().symbol.get_ref() == &p.symbol)
+                .map(|r| r.get_ref().symbol.span());
             problems.add(
                 span.unwrap_or(0..0),
                 CheckProblem::SameBundle {

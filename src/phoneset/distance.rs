@@ -35,11 +35,18 @@ fn bundle_terms(schema: &Schema, a: &Features, b: &Features) -> (f32, f32) {
 }
 
 /// Distance of two quality sequences; `syllabic` gives both sides' syllabicity when known.
-fn sequence_distance(schema: &Schema, qa: &[Features], qb: &[Features], syllabic: Option<(bool, bool)>) -> f32 {
+fn sequence_distance(
+    schema: &Schema,
+    qa: &[Features],
+    qb: &[Features],
+    syllabic: Option<(bool, bool)>,
+) -> f32 {
     let m = qa.len().max(qb.len());
     let (mut num, mut den) = (0.0, 0.0);
     for k in 0..m {
-        let (Some(a), Some(b)) = (qa.get(k * qa.len() / m), qb.get(k * qb.len() / m)) else { continue };
+        let (Some(a), Some(b)) = (qa.get(k * qa.len() / m), qb.get(k * qb.len() / m)) else {
+            continue;
+        };
         let (n, d) = bundle_terms(schema, a, b);
         num += n;
         den += d;
@@ -60,7 +67,12 @@ fn sequence_distance(schema: &Schema, qa: &[Features], qb: &[Features], syllabic
 /// Feature distance of two phones described with `schema` (they may come from different
 /// phonesets sharing the schema).
 pub(crate) fn phone_distance(schema: &Schema, a: &Phone, b: &Phone) -> f32 {
-    sequence_distance(schema, a.qualities(), b.qualities(), Some((a.syllabic, b.syllabic)))
+    sequence_distance(
+        schema,
+        a.qualities(),
+        b.qualities(),
+        Some((a.syllabic, b.syllabic)),
+    )
 }
 
 impl Phoneset {
@@ -103,7 +115,10 @@ impl Phoneset {
     /// assert_eq!(set.find_by_features(&l.with("syllabic", "yes")), set.lookup("EL"));
     /// ```
     pub fn find_by_features(&self, features: &Features) -> Option<PhoneId> {
-        if features.iter().all(|(k, _)| k == CLASS_FEATURE || k == SYLLABIC_FEATURE) {
+        if features
+            .iter()
+            .all(|(k, _)| k == CLASS_FEATURE || k == SYLLABIC_FEATURE)
+        {
             return None;
         }
         let mut best: Option<(usize, &Phone)> = None;
@@ -145,11 +160,22 @@ impl Phoneset {
             .iter()
             .enumerate()
             .map(|(i, p)| {
-                let d = if features.get(CLASS_FEATURE).is_some_and(|c| c != p.class.as_str()) {
+                let d = if features
+                    .get(CLASS_FEATURE)
+                    .is_some_and(|c| c != p.class.as_str())
+                {
                     1.0
                 } else {
-                    let q = self.schema.complete(features, p.class.target_class()).unwrap_or_else(|| strip_reserved(features));
-                    sequence_distance(&self.schema, std::slice::from_ref(&q), p.qualities(), syllabic.map(|s| (s, p.syllabic)))
+                    let q = self
+                        .schema
+                        .complete(features, p.class.target_class())
+                        .unwrap_or_else(|| strip_reserved(features));
+                    sequence_distance(
+                        &self.schema,
+                        std::slice::from_ref(&q),
+                        p.qualities(),
+                        syllabic.map(|s| (s, p.syllabic)),
+                    )
                 };
                 (i as PhoneId, d)
             })
@@ -162,12 +188,17 @@ impl Phoneset {
 
 /// True when the reserved `class` / `syllabic` entries of `query` (if any) fit `phone`.
 fn reserved_match(query: &Features, phone: &Phone) -> bool {
-    [CLASS_FEATURE, SYLLABIC_FEATURE].iter().all(|k| match query.get(k) {
-        None => true,
-        Some(v) => phone.feature(k) == Some(v),
-    })
+    [CLASS_FEATURE, SYLLABIC_FEATURE]
+        .iter()
+        .all(|k| match query.get(k) {
+            None => true,
+            Some(v) => phone.feature(k) == Some(v),
+        })
 }
 
 fn strip_reserved(query: &Features) -> Features {
-    query.iter().filter(|(k, _)| *k != CLASS_FEATURE && *k != SYLLABIC_FEATURE).collect()
+    query
+        .iter()
+        .filter(|(k, _)| *k != CLASS_FEATURE && *k != SYLLABIC_FEATURE)
+        .collect()
 }

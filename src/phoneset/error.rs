@@ -59,9 +59,15 @@ pub enum PhonesetError {
 }
 
 fn render_problems(file: &str, problems: &[Located]) -> String {
-    let mut out = format!("{file}: {} problem(s) found by the phoneset self-check", problems.len());
+    let mut out = format!(
+        "{file}: {} problem(s) found by the phoneset self-check",
+        problems.len()
+    );
     for p in problems {
-        out.push_str(&format!("\n  {file}:{}:{}: {}", p.line, p.column, p.problem));
+        out.push_str(&format!(
+            "\n  {file}:{}:{}: {}",
+            p.line, p.column, p.problem
+        ));
     }
     out
 }

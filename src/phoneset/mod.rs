@@ -74,6 +74,7 @@
 mod build;
 mod distance;
 mod error;
+mod mapping;
 mod phone;
 mod phonotactics;
 mod pronunciation;
@@ -87,9 +88,12 @@ use std::io::Read;
 use std::path::Path;
 
 pub use error::{CheckProblem, Located, PhonesetError};
+pub use mapping::{map_pronunciation, MappingError};
 pub use phone::{Features, Phone, PhoneClass};
 pub use phonotactics::{PhonotacticConstraint, PhonotacticViolation};
-pub use pronunciation::{PhoneToken, Pronunciation, PronunciationError, TokenProblem, TokenProblemKind};
+pub use pronunciation::{
+    PhoneToken, Pronunciation, PronunciationError, TokenProblem, TokenProblemKind,
+};
 pub use schema::{FeatureDef, Schema};
 pub use stress::{Stress, StressLevel};
 
@@ -102,10 +106,14 @@ pub type PhoneId = u16;
 pub const MAX_FILE_BYTES: u64 = 4 * 1024 * 1024;
 
 /// The shipped phonesets: (id, TOML text).
-const SHIPPED: &[(&str, &str)] = &[("en-arpa", include_str!("../../phonesets/en-arpa.toml"))];
+const SHIPPED: &[(&str, &str)] = &[
+    ("en-arpa", include_str!("../../phonesets/en-arpa.toml")),
+    ("ipa-broad", include_str!("../../phonesets/ipa-broad.toml")),
+    ("es-ipa", include_str!("../../phonesets/es-ipa.toml")),
+];
 
 /// The ids of the shipped phonesets.
-const SHIPPED_IDS: &[&str] = &["en-arpa"];
+const SHIPPED_IDS: &[&str] = &["en-arpa", "ipa-broad", "es-ipa"];
 
 /// A checked phoneset: phones with features, stress marks, constraints, and lookup tables.
 #[derive(Debug, Clone)]
@@ -136,7 +144,10 @@ impl Phoneset {
     /// ```
     pub fn shipped(id: &str) -> Result<Phoneset, PhonesetError> {
         let Some((_, text)) = SHIPPED.iter().find(|(i, _)| *i == id) else {
-            return Err(PhonesetError::UnknownShipped { id: id.to_string(), known: SHIPPED_IDS.join(", ") });
+            return Err(PhonesetError::UnknownShipped {
+                id: id.to_string(),
+                known: SHIPPED_IDS.join(", "),
+            });
         };
         build::from_text(text, &format!("phonesets/{id}.toml (shipped)"))
     }
@@ -154,24 +165,39 @@ impl Phoneset {
     /// assert!(matches!(err, PhonesetError::Io { .. }));
     /// ```
     pub fn load(path: &Path) -> Result<Phoneset, PhonesetError> {
-        let io = |source| PhonesetError::Io { path: path.to_path_buf(), source };
+        let io = |source| PhonesetError::Io {
+            path: path.to_path_buf(),
+            source,
+        };
         let file_label = path.display().to_string();
         let file = std::fs::File::open(path).map_err(io)?;
         let size = file.metadata().map_err(io)?.len();
-        let too_large = |size| PhonesetError::TooLarge { file: file_label.clone(), size, limit: MAX_FILE_BYTES };
+        let too_large = |size| PhonesetError::TooLarge {
+            file: file_label.clone(),
+            size,
+            limit: MAX_FILE_BYTES,
+        };
         if size > MAX_FILE_BYTES {
             return Err(too_large(size));
         }
         let mut bytes = Vec::new();
-        file.take(MAX_FILE_BYTES + 1).read_to_end(&mut bytes).map_err(io)?;
+        file.take(MAX_FILE_BYTES + 1)
+            .read_to_end(&mut bytes)
+            .map_err(io)?;
         if bytes.len() as u64 > MAX_FILE_BYTES {
             return Err(too_large(bytes.len() as u64));
         }
         let text = String::from_utf8(bytes).map_err(|e| {
             let valid = e.utf8_error().valid_up_to();
-            let ok = String::from_utf8_lossy(e.as_bytes().get(..valid).unwrap_or_default()).into_owned();
+            let ok =
+                String::from_utf8_lossy(e.as_bytes().get(..valid).unwrap_or_default()).into_owned();
             let (line, column) = raw::line_col(&ok, ok.len());
-            PhonesetError::Syntax { file: file_label.clone(), line, column, message: "the file is not valid UTF-8".into() }
+            PhonesetError::Syntax {
+                file: file_label.clone(),
+                line,
+                column,
+                message: "the file is not valid UTF-8".into(),
+            }
         })?;
         build::from_text(&text, &file_label)
     }
@@ -290,3 +316,6 @@ impl Phoneset {
         self.stress.mark_for(level)
     }
 }
+
+#[cfg(test)]
+mod tests;

@@ -21,7 +21,11 @@ pub enum PhoneClass {
 
 impl PhoneClass {
     /// All classes, in file-format order.
-    pub const ALL: [PhoneClass; 3] = [PhoneClass::Consonant, PhoneClass::Vowel, PhoneClass::Diphthong];
+    pub const ALL: [PhoneClass; 3] = [
+        PhoneClass::Consonant,
+        PhoneClass::Vowel,
+        PhoneClass::Diphthong,
+    ];
 
     /// The name used in phoneset files: `consonant`, `vowel` or `diphthong`.
     pub fn as_str(self) -> &'static str {
@@ -113,7 +117,11 @@ impl Features {
 
 impl<K: Into<String>, V: Into<String>> FromIterator<(K, V)> for Features {
     fn from_iter<I: IntoIterator<Item = (K, V)>>(iter: I) -> Features {
-        Features(iter.into_iter().map(|(k, v)| (k.into(), v.into())).collect())
+        Features(
+            iter.into_iter()
+                .map(|(k, v)| (k.into(), v.into()))
+                .collect(),
+        )
     }
 }
 

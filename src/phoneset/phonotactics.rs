@@ -56,9 +56,11 @@ impl Element {
     fn matches(&self, id: PhoneId, phone: &Phone) -> bool {
         match self {
             Element::Symbol(want) => *want == id,
-            Element::Class(conds) => conds
-                .iter()
-                .all(|(name, values)| phone.feature(name).is_some_and(|v| values.iter().any(|x| x == v))),
+            Element::Class(conds) => conds.iter().all(|(name, values)| {
+                phone
+                    .feature(name)
+                    .is_some_and(|v| values.iter().any(|x| x == v))
+            }),
         }
     }
 }
@@ -104,7 +106,11 @@ impl Phoneset {
             }
             for start in 0..=last {
                 if c.matches_at(self, pron, start) {
-                    out.push(PhonotacticViolation { constraint_id: c.id.clone(), position: start, message: c.message.clone() });
+                    out.push(PhonotacticViolation {
+                        constraint_id: c.id.clone(),
+                        position: start,
+                        message: c.message.clone(),
+                    });
                 }
             }
         }
@@ -124,7 +130,13 @@ pub(crate) fn build(
         let c = c.get_ref();
         let id = c.id.get_ref().trim().to_string();
         let mut fail = |span: std::ops::Range<usize>, message: &str| {
-            problems.add(span, CheckProblem::BadConstraint { id: id.clone(), message: message.to_string() })
+            problems.add(
+                span,
+                CheckProblem::BadConstraint {
+                    id: id.clone(),
+                    message: message.to_string(),
+                },
+            )
         };
         if id.is_empty() {
             fail(c.id.span(), "the id is empty");
@@ -135,7 +147,10 @@ pub(crate) fn build(
             fail(c.message.span(), "the message is empty; say what is wrong");
         }
         if c.source.get_ref().trim().is_empty() {
-            fail(c.source.span(), "the source is empty; cite a published work or write \"common practice\"");
+            fail(
+                c.source.span(),
+                "the source is empty; cite a published work or write \"common practice\"",
+            );
         }
         match parse_pattern(c.pattern.get_ref(), symbols, schema) {
             Ok((at_start, elements, at_end)) => out.push(PhonotacticConstraint {
@@ -155,7 +170,11 @@ pub(crate) fn build(
 
 type Parsed = (bool, Vec<Element>, bool);
 
-fn parse_pattern(pattern: &str, symbols: &HashMap<String, PhoneId>, schema: &Schema) -> Result<Parsed, String> {
+fn parse_pattern(
+    pattern: &str,
+    symbols: &HashMap<String, PhoneId>,
+    schema: &Schema,
+) -> Result<Parsed, String> {
     let parts = split_pattern(pattern)?;
     let n = parts.len();
     let mut elements = Vec::new();
@@ -187,7 +206,9 @@ fn split_pattern(pattern: &str) -> Result<Vec<&str>, String> {
     let mut rest = pattern.trim_start();
     while !rest.is_empty() {
         let end = if rest.starts_with('[') {
-            rest.find(']').map(|i| i + 1).ok_or("a `[` has no closing `]`")?
+            rest.find(']')
+                .map(|i| i + 1)
+                .ok_or("a `[` has no closing `]`")?
         } else {
             rest.find(char::is_whitespace).unwrap_or(rest.len())
         };
@@ -200,13 +221,23 @@ fn split_pattern(pattern: &str) -> Result<Vec<&str>, String> {
 fn parse_class(inner: &str, schema: &Schema) -> Result<Vec<(String, Vec<String>)>, String> {
     let mut conds = Vec::new();
     for cond in inner.split_whitespace() {
-        let (name, values) = cond.split_once('=').ok_or_else(|| format!("`{cond}` should be name=value"))?;
+        let (name, values) = cond
+            .split_once('=')
+            .ok_or_else(|| format!("`{cond}` should be name=value"))?;
         let values: Vec<String> = values.split('|').map(str::to_string).collect();
         for v in &values {
             let ok = match name {
                 CLASS_FEATURE => PhoneClass::from_name(v).is_some(),
                 SYLLABIC_FEATURE => v == "yes" || v == "no",
-                _ => schema.feature(name).ok_or_else(|| format!("unknown feature `{name}`; the schema has: {}", schema.names()))?.has_value(v),
+                _ => schema
+                    .feature(name)
+                    .ok_or_else(|| {
+                        format!(
+                            "unknown feature `{name}`; the schema has: {}",
+                            schema.names()
+                        )
+                    })?
+                    .has_value(v),
             };
             if !ok {
                 return Err(format!("`{v}` is not a value of `{name}`"));

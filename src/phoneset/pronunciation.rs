@@ -61,7 +61,16 @@ impl Pronunciation {
 
     /// The same phones with every stress mark removed.
     pub fn without_stress(&self) -> Pronunciation {
-        Pronunciation { phones: self.phones.iter().map(|t| PhoneToken { phone: t.phone, stress: None }).collect() }
+        Pronunciation {
+            phones: self
+                .phones
+                .iter()
+                .map(|t| PhoneToken {
+                    phone: t.phone,
+                    stress: None,
+                })
+                .collect(),
+        }
     }
 }
 
@@ -107,20 +116,31 @@ pub struct TokenProblem {
 
 impl fmt::Display for TokenProblem {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        let at = format!("token {} `{}` (column {})", self.index + 1, self.token, self.column);
+        let at = format!(
+            "token {} `{}` (column {})",
+            self.index + 1,
+            self.token,
+            self.column
+        );
         match &self.kind {
-            TokenProblemKind::Empty => write!(f, "empty pronunciation: write at least one phone symbol")?,
+            TokenProblemKind::Empty => {
+                write!(f, "empty pronunciation: write at least one phone symbol")?
+            }
             TokenProblemKind::UnknownSymbol => write!(f, "{at}: unknown phone symbol")?,
-            TokenProblemKind::UndeclaredMark { mark, declared } => {
-                write!(f, "{at}: `{mark}` is not a declared stress mark (declared: {declared})")?
-            }
-            TokenProblemKind::StressOnNonNucleus { mark } => {
-                write!(f, "{at}: stress mark `{mark}` on a phone that is not a syllable nucleus")?
-            }
+            TokenProblemKind::UndeclaredMark { mark, declared } => write!(
+                f,
+                "{at}: `{mark}` is not a declared stress mark (declared: {declared})"
+            )?,
+            TokenProblemKind::StressOnNonNucleus { mark } => write!(
+                f,
+                "{at}: stress mark `{mark}` on a phone that is not a syllable nucleus"
+            )?,
             TokenProblemKind::MissingStress => write!(f, "{at}: this vowel needs a stress mark")?,
-            TokenProblemKind::Spacing => {
-                write!(f, "column {}: separate phones by exactly one space", self.column)?
-            }
+            TokenProblemKind::Spacing => write!(
+                f,
+                "column {}: separate phones by exactly one space",
+                self.column
+            )?,
         }
         if !self.suggestions.is_empty() {
             write!(f, "; did you mean {}?", self.suggestions.join(", "))?;
@@ -164,14 +184,28 @@ fn split<'a>(text: &'a str) -> (Vec<Piece<'a>>, Vec<Piece<'a>>) {
             Some((_, _, s)) if s == space => {}
             _ => {
                 if let Some((b, c, s)) = run {
-                    push(Piece { text: &text[b..byte], column: c }, s, b == 0);
+                    push(
+                        Piece {
+                            text: &text[b..byte],
+                            column: c,
+                        },
+                        s,
+                        b == 0,
+                    );
                 }
                 run = Some((byte, column + 1, space));
             }
         }
     }
     if let Some((b, c, s)) = run {
-        push(Piece { text: &text[b..], column: c }, s, true);
+        push(
+            Piece {
+                text: &text[b..],
+                column: c,
+            },
+            s,
+            true,
+        );
     }
     (tokens, gaps)
 }
@@ -201,7 +235,9 @@ impl Phoneset {
         for (index, piece) in tokens.iter().enumerate() {
             match self.classify(piece.text) {
                 Ok(t) => phones.push(t),
-                Err(kind) => return Err(PronunciationError::Token(self.problem(index, piece, kind))),
+                Err(kind) => {
+                    return Err(PronunciationError::Token(self.problem(index, piece, kind)))
+                }
             }
         }
         Ok(Pronunciation { phones })
@@ -224,12 +260,22 @@ impl Phoneset {
     pub fn check_tokens(&self, text: &str) -> Vec<TokenProblem> {
         let (tokens, gaps) = split(text);
         if tokens.is_empty() {
-            return vec![TokenProblem { index: 0, column: 1, token: String::new(), kind: TokenProblemKind::Empty, suggestions: Vec::new() }];
+            return vec![TokenProblem {
+                index: 0,
+                column: 1,
+                token: String::new(),
+                kind: TokenProblemKind::Empty,
+                suggestions: Vec::new(),
+            }];
         }
         let mut out: Vec<TokenProblem> = tokens
             .iter()
             .enumerate()
-            .filter_map(|(index, piece)| self.classify(piece.text).err().map(|kind| self.problem(index, piece, kind)))
+            .filter_map(|(index, piece)| {
+                self.classify(piece.text)
+                    .err()
+                    .map(|kind| self.problem(index, piece, kind))
+            })
             .collect();
         for gap in gaps {
             let index = tokens.iter().filter(|t| t.column < gap.column).count();
@@ -252,19 +298,35 @@ impl Phoneset {
         if let Some(id) = self.lookup(bare) {
             let nucleus = self.get(id).is_some_and(|p| p.is_nucleus());
             return match mark {
-                Some(m) if !nucleus => Err(TokenProblemKind::StressOnNonNucleus { mark: m.mark.clone() }),
-                Some(m) => Ok(PhoneToken { phone: id, stress: Some(m.level) }),
+                Some(m) if !nucleus => Err(TokenProblemKind::StressOnNonNucleus {
+                    mark: m.mark.clone(),
+                }),
+                Some(m) => Ok(PhoneToken {
+                    phone: id,
+                    stress: Some(m.level),
+                }),
                 None if nucleus && self.stress.required => Err(TokenProblemKind::MissingStress),
-                None => Ok(PhoneToken { phone: id, stress: None }),
+                None => Ok(PhoneToken {
+                    phone: id,
+                    stress: None,
+                }),
             };
         }
         if mark.is_none() {
             if let Some((base, suffix)) = self.undeclared_mark(token) {
-                let nucleus = self.lookup(base).and_then(|id| self.get(id)).is_some_and(|p| p.is_nucleus());
+                let nucleus = self
+                    .lookup(base)
+                    .and_then(|id| self.get(id))
+                    .is_some_and(|p| p.is_nucleus());
                 return Err(if nucleus {
-                    TokenProblemKind::UndeclaredMark { mark: suffix.to_string(), declared: self.declared_marks() }
+                    TokenProblemKind::UndeclaredMark {
+                        mark: suffix.to_string(),
+                        declared: self.declared_marks(),
+                    }
                 } else {
-                    TokenProblemKind::StressOnNonNucleus { mark: suffix.to_string() }
+                    TokenProblemKind::StressOnNonNucleus {
+                        mark: suffix.to_string(),
+                    }
                 });
             }
         }
@@ -273,16 +335,24 @@ impl Phoneset {
 
     /// `token` split into a known symbol and a trailing run of mark-like characters.
     fn undeclared_mark<'a>(&self, token: &'a str) -> Option<(&'a str, &'a str)> {
-        let base = token.trim_end_matches(|c: char| MARK_LIKE.contains(c) || self.stress.marks.iter().any(|m| m.mark.contains(c)));
+        let base = token.trim_end_matches(|c: char| {
+            MARK_LIKE.contains(c) || self.stress.marks.iter().any(|m| m.mark.contains(c))
+        });
         let suffix = &token[base.len()..];
-        (!base.is_empty() && !suffix.is_empty() && self.lookup(base).is_some()).then_some((base, suffix))
+        (!base.is_empty() && !suffix.is_empty() && self.lookup(base).is_some())
+            .then_some((base, suffix))
     }
 
     fn declared_marks(&self) -> String {
         if self.stress.marks.is_empty() {
             return "none".into();
         }
-        self.stress.marks.iter().map(|m| m.mark.as_str()).collect::<Vec<_>>().join(" ")
+        self.stress
+            .marks
+            .iter()
+            .map(|m| m.mark.as_str())
+            .collect::<Vec<_>>()
+            .join(" ")
     }
 
     /// A located problem with suggestions for `piece`.
@@ -290,7 +360,11 @@ impl Phoneset {
         let suggestions = match &kind {
             TokenProblemKind::UnknownSymbol => self.suggest_tokens(piece.text),
             TokenProblemKind::StressOnNonNucleus { mark } => {
-                vec![piece.text.strip_suffix(mark.as_str()).unwrap_or(piece.text).to_string()]
+                vec![piece
+                    .text
+                    .strip_suffix(mark.as_str())
+                    .unwrap_or(piece.text)
+                    .to_string()]
             }
             TokenProblemKind::UndeclaredMark { mark, .. } => {
                 self.with_marks(piece.text.strip_suffix(mark.as_str()).unwrap_or(piece.text))
@@ -298,26 +372,42 @@ impl Phoneset {
             TokenProblemKind::MissingStress => self.with_marks(piece.text),
             TokenProblemKind::Empty | TokenProblemKind::Spacing => Vec::new(),
         };
-        TokenProblem { index, column: piece.column, token: piece.text.to_string(), kind, suggestions }
+        TokenProblem {
+            index,
+            column: piece.column,
+            token: piece.text.to_string(),
+            kind,
+            suggestions,
+        }
     }
 
     /// `symbol` with each declared mark, in declaration order.
     fn with_marks(&self, symbol: &str) -> Vec<String> {
-        self.stress.marks.iter().map(|m| format!("{symbol}{}", m.mark)).collect()
+        self.stress
+            .marks
+            .iter()
+            .map(|m| format!("{symbol}{}", m.mark))
+            .collect()
     }
 
     /// Replacement tokens for an unknown token: nearest symbols, with the token's declared
     /// stress mark kept on those that can carry it.
     fn suggest_tokens(&self, token: &str) -> Vec<String> {
         let (bare, mark) = self.stress.split(token, &self.by_symbol);
-        let mark = mark.and_then(|i| self.stress.marks.get(i)).map(|m| m.mark.as_str());
+        let mark = mark
+            .and_then(|i| self.stress.marks.get(i))
+            .map(|m| m.mark.as_str());
         self.suggest_ids(bare, SUGGESTIONS, mark.is_some())
             .into_iter()
             .filter_map(|id| self.get(id))
             .map(|p| match mark {
                 Some(m) if p.is_nucleus() => format!("{}{m}", p.symbol),
                 _ if p.is_nucleus() && self.stress.required => {
-                    format!("{}{}", p.symbol, self.stress.marks.first().map_or("", |m| m.mark.as_str()))
+                    format!(
+                        "{}{}",
+                        p.symbol,
+                        self.stress.marks.first().map_or("", |m| m.mark.as_str())
+                    )
                 }
                 _ => p.symbol.clone(),
             })

@@ -131,7 +131,11 @@ pub(crate) fn line_col(text: &str, at: usize) -> (usize, usize) {
     let before = text.get(..at).unwrap_or(text);
     let line = before.matches('\n').count() + 1;
     let line_start = before.rfind('\n').map(|i| i + 1).unwrap_or(0);
-    let column = before.get(line_start..).map(|s| s.chars().count()).unwrap_or(0) + 1;
+    let column = before
+        .get(line_start..)
+        .map(|s| s.chars().count())
+        .unwrap_or(0)
+        + 1;
     (line, column)
 }
 
@@ -144,20 +148,29 @@ pub(crate) struct Problems<'t> {
 impl<'t> Problems<'t> {
     /// A collector for problems in `text`.
     pub fn new(text: &'t str) -> Problems<'t> {
-        Problems { text, found: Vec::new() }
+        Problems {
+            text,
+            found: Vec::new(),
+        }
     }
 
     /// Records `problem` at byte span `span`.
     pub fn add(&mut self, span: Range<usize>, problem: CheckProblem) {
         let (line, column) = line_col(self.text, span.start);
-        self.found.push((span.start, Located { line, column, problem }));
+        self.found.push((
+            span.start,
+            Located {
+                line,
+                column,
+                problem,
+            },
+        ));
     }
 
     /// The 1-based line of byte span `span`.
     pub fn line_of(&self, span: &Range<usize>) -> usize {
         line_col(self.text, span.start).0
     }
-
 
     /// Finishes: `Ok` when no problem was recorded, else [`PhonesetError::Invalid`] in file order.
     pub fn finish(mut self, file: &str) -> Result<(), PhonesetError> {

@@ -13,8 +13,10 @@ use super::phone::{Features, PhoneClass, CLASS_FEATURE, SYLLABIC_FEATURE};
 use super::raw::{parse_toml, Problems, RawFeature, RawSchemaFile};
 
 /// The shipped schemas: (name, TOML text).
-const SHIPPED_SCHEMAS: &[(&str, &str)] =
-    &[("ipa-chart", include_str!("../../phonesets/ipa-chart.schema.toml"))];
+const SHIPPED_SCHEMAS: &[(&str, &str)] = &[(
+    "ipa-chart",
+    include_str!("../../phonesets/ipa-chart.schema.toml"),
+)];
 
 /// One feature of a schema.
 #[derive(Debug, Clone, PartialEq)]
@@ -52,10 +54,17 @@ impl FeatureDef {
             return 0.0;
         }
         let Some(scale) = &self.scale else { return 1.0 };
-        let point = |v: &str| self.values.iter().position(|x| x == v).and_then(|i| scale.get(i));
+        let point = |v: &str| {
+            self.values
+                .iter()
+                .position(|x| x == v)
+                .and_then(|i| scale.get(i))
+        };
         match (point(a), point(b)) {
             (Some(pa), Some(pb)) => {
-                let (lo, hi) = scale.iter().fold((f32::MAX, f32::MIN), |(lo, hi), &s| (lo.min(s), hi.max(s)));
+                let (lo, hi) = scale
+                    .iter()
+                    .fold((f32::MAX, f32::MIN), |(lo, hi), &s| (lo.min(s), hi.max(s)));
                 if hi > lo {
                     ((pa - pb).abs() / (hi - lo)).clamp(0.0, 1.0)
                 } else {
@@ -118,7 +127,12 @@ impl Schema {
         let file = format!("phonesets/{name}.schema.toml (shipped)");
         Some(parse_toml::<RawSchemaFile>(text, &file).and_then(|raw| {
             let mut problems = Problems::new(text);
-            let schema = Schema::build(&raw.name, raw.syllabic_weight.as_ref(), &raw.feature, &mut problems);
+            let schema = Schema::build(
+                &raw.name,
+                raw.syllabic_weight.as_ref(),
+                &raw.feature,
+                &mut problems,
+            );
             problems.finish(&file).map(|()| schema)
         }))
     }
@@ -142,16 +156,33 @@ impl Schema {
             if fname.is_empty() {
                 problems.add(f.name.span(), bad(&fname, "the name is empty"));
             } else if fname == CLASS_FEATURE || fname == SYLLABIC_FEATURE {
-                problems.add(f.name.span(), CheckProblem::ReservedFeature { name: fname.clone() });
+                problems.add(
+                    f.name.span(),
+                    CheckProblem::ReservedFeature {
+                        name: fname.clone(),
+                    },
+                );
             } else if !seen.insert(fname.clone()) {
-                problems.add(f.name.span(), CheckProblem::DuplicateFeature { name: fname.clone() });
+                problems.add(
+                    f.name.span(),
+                    CheckProblem::DuplicateFeature {
+                        name: fname.clone(),
+                    },
+                );
             }
             features.push(build_feature(f, problems));
         }
         if features.is_empty() {
-            problems.add(name.span(), bad(name.get_ref(), "the schema defines no [[feature]] tables"));
+            problems.add(
+                name.span(),
+                bad(name.get_ref(), "the schema defines no [[feature]] tables"),
+            );
         }
-        Schema { name: name.get_ref().clone(), syllabic_weight, features }
+        Schema {
+            name: name.get_ref().clone(),
+            syllabic_weight,
+            features,
+        }
     }
 
     /// Checks a written bundle for a phone of `class` and returns it with defaults filled in.
@@ -166,15 +197,31 @@ impl Schema {
         let mut out = Features::new();
         for (name, value) in bundle {
             let Some(def) = self.feature(name) else {
-                problems.add(value.span(), CheckProblem::UnknownFeature { feature: name.clone(), known: self.names() });
+                problems.add(
+                    value.span(),
+                    CheckProblem::UnknownFeature {
+                        feature: name.clone(),
+                        known: self.names(),
+                    },
+                );
                 continue;
             };
             if !def.applies_to(class) {
-                problems.add(value.span(), CheckProblem::FeatureNotForClass { feature: name.clone(), class: class.as_str() });
+                problems.add(
+                    value.span(),
+                    CheckProblem::FeatureNotForClass {
+                        feature: name.clone(),
+                        class: class.as_str(),
+                    },
+                );
             } else if !def.has_value(value.get_ref()) {
                 problems.add(
                     value.span(),
-                    CheckProblem::UnknownValue { feature: name.clone(), value: value.get_ref().clone(), allowed: def.values.join(", ") },
+                    CheckProblem::UnknownValue {
+                        feature: name.clone(),
+                        value: value.get_ref().clone(),
+                        allowed: def.values.join(", "),
+                    },
                 );
             } else {
                 out.set(name, value.get_ref());
@@ -190,7 +237,11 @@ impl Schema {
                 }
                 None if def.required => problems.add(
                     span.clone(),
-                    CheckProblem::MissingFeature { phone: phone.to_string(), feature: def.name.clone(), class: class.as_str() },
+                    CheckProblem::MissingFeature {
+                        phone: phone.to_string(),
+                        feature: def.name.clone(),
+                        class: class.as_str(),
+                    },
                 ),
                 None => {}
             }
@@ -221,12 +272,19 @@ impl Schema {
 
     /// Feature names, comma separated (for messages).
     pub(crate) fn names(&self) -> String {
-        self.features.iter().map(|f| f.name.as_str()).collect::<Vec<_>>().join(", ")
+        self.features
+            .iter()
+            .map(|f| f.name.as_str())
+            .collect::<Vec<_>>()
+            .join(", ")
     }
 }
 
 fn bad(feature: &str, message: &str) -> CheckProblem {
-    CheckProblem::BadFeature { feature: feature.to_string(), message: message.to_string() }
+    CheckProblem::BadFeature {
+        feature: feature.to_string(),
+        message: message.to_string(),
+    }
 }
 
 fn check_weight(w: &Spanned<f64>, feature: &str, problems: &mut Problems<'_>) -> f32 {
@@ -234,7 +292,10 @@ fn check_weight(w: &Spanned<f64>, feature: &str, problems: &mut Problems<'_>) ->
     if v.is_finite() && (0.0..=1.0e6).contains(&v) {
         v as f32
     } else {
-        problems.add(w.span(), bad(feature, "the weight must be a number from 0 to 1000000"));
+        problems.add(
+            w.span(),
+            bad(feature, "the weight must be a number from 0 to 1000000"),
+        );
         0.0
     }
 }
@@ -246,43 +307,104 @@ fn build_feature(f: &RawFeature, problems: &mut Problems<'_>) -> FeatureDef {
         match PhoneClass::from_name(c.get_ref()) {
             Some(class) if !classes.contains(&class) => classes.push(class),
             Some(_) => problems.add(c.span(), bad(&name, "a class is listed twice")),
-            None => problems.add(c.span(), CheckProblem::UnknownClass { value: c.get_ref().clone() }),
+            None => problems.add(
+                c.span(),
+                CheckProblem::UnknownClass {
+                    value: c.get_ref().clone(),
+                },
+            ),
         }
     }
     if classes.is_empty() {
-        problems.add(f.classes.span(), bad(&name, "list the classes it describes, e.g. classes = [\"consonant\"]"));
+        problems.add(
+            f.classes.span(),
+            bad(
+                &name,
+                "list the classes it describes, e.g. classes = [\"consonant\"]",
+            ),
+        );
     }
     let mut values: Vec<String> = Vec::new();
     for v in f.values.get_ref() {
         if v.get_ref().is_empty() || v.get_ref().contains(char::is_whitespace) {
-            problems.add(v.span(), bad(&name, "a value is empty or contains whitespace"));
+            problems.add(
+                v.span(),
+                bad(&name, "a value is empty or contains whitespace"),
+            );
         } else if values.contains(v.get_ref()) {
-            problems.add(v.span(), bad(&name, &format!("value `{}` is listed twice", v.get_ref())));
+            problems.add(
+                v.span(),
+                bad(&name, &format!("value `{}` is listed twice", v.get_ref())),
+            );
         }
         values.push(v.get_ref().clone());
     }
     if values.len() < 2 {
-        problems.add(f.values.span(), bad(&name, "a feature needs at least two values"));
+        problems.add(
+            f.values.span(),
+            bad(&name, "a feature needs at least two values"),
+        );
     }
-    let scale = f.scale.as_ref().map(|s| check_scale(&name, s, values.len(), problems));
+    let scale = f
+        .scale
+        .as_ref()
+        .map(|s| check_scale(&name, s, values.len(), problems));
     let weight = check_weight(&f.weight, &name, problems);
     let default = f.default.as_ref().map(|d| {
         if f.required {
-            problems.add(d.span(), bad(&name, "a required feature cannot have a default; drop one of them"));
+            problems.add(
+                d.span(),
+                bad(
+                    &name,
+                    "a required feature cannot have a default; drop one of them",
+                ),
+            );
         } else if !values.contains(d.get_ref()) {
-            problems.add(d.span(), bad(&name, &format!("default `{}` is not one of its values", d.get_ref())));
+            problems.add(
+                d.span(),
+                bad(
+                    &name,
+                    &format!("default `{}` is not one of its values", d.get_ref()),
+                ),
+            );
         }
         d.get_ref().clone()
     });
-    FeatureDef { name, values, scale, weight, classes, required: f.required, default }
+    FeatureDef {
+        name,
+        values,
+        scale,
+        weight,
+        classes,
+        required: f.required,
+        default,
+    }
 }
 
-fn check_scale(name: &str, s: &Spanned<Vec<f64>>, n_values: usize, problems: &mut Problems<'_>) -> Vec<f32> {
+fn check_scale(
+    name: &str,
+    s: &Spanned<Vec<f64>>,
+    n_values: usize,
+    problems: &mut Problems<'_>,
+) -> Vec<f32> {
     let points = s.get_ref();
     if points.len() != n_values {
-        problems.add(s.span(), bad(name, &format!("the scale has {} points for {} values", points.len(), n_values)));
+        problems.add(
+            s.span(),
+            bad(
+                name,
+                &format!(
+                    "the scale has {} points for {} values",
+                    points.len(),
+                    n_values
+                ),
+            ),
+        );
     }
-    if points.iter().any(|p| !p.is_finite() || !(0.0..=1.0).contains(p)) {
+    if points
+        .iter()
+        .any(|p| !p.is_finite() || !(0.0..=1.0).contains(p))
+    {
         problems.add(s.span(), bad(name, "scale points must lie in 0..=1"));
     }
     let mut distinct = HashSet::new();

@@ -5,8 +5,8 @@
 use std::collections::HashMap;
 
 use super::error::CheckProblem;
-use super::PhoneId;
 use super::raw::{Problems, RawStress};
+use super::PhoneId;
 use toml::Spanned;
 
 /// A level of lexical stress.
@@ -22,7 +22,11 @@ pub enum StressLevel {
 
 impl StressLevel {
     /// All levels.
-    pub const ALL: [StressLevel; 3] = [StressLevel::Primary, StressLevel::Secondary, StressLevel::Unstressed];
+    pub const ALL: [StressLevel; 3] = [
+        StressLevel::Primary,
+        StressLevel::Secondary,
+        StressLevel::Unstressed,
+    ];
 
     /// The name used in phoneset files: `primary`, `secondary`, `unstressed`.
     pub fn as_str(self) -> &'static str {
@@ -58,14 +62,26 @@ pub(crate) struct StressMarks {
 
 impl StressMarks {
     /// Builds and checks the `[stress]` table against the phones' symbols.
-    pub fn build(raw: Option<&Spanned<RawStress>>, phones: &HashMap<String, PhoneId>, problems: &mut Problems<'_>) -> StressMarks {
-        let Some(raw) = raw else { return StressMarks::default() };
+    pub fn build(
+        raw: Option<&Spanned<RawStress>>,
+        phones: &HashMap<String, PhoneId>,
+        problems: &mut Problems<'_>,
+    ) -> StressMarks {
+        let Some(raw) = raw else {
+            return StressMarks::default();
+        };
         let mut marks: Vec<Stress> = Vec::new();
         for m in &raw.get_ref().marks {
             let m = m.get_ref();
             let mark = m.mark.get_ref();
             let mut fail = |message: String| {
-                problems.add(m.mark.span(), CheckProblem::BadStressMark { mark: mark.clone(), message })
+                problems.add(
+                    m.mark.span(),
+                    CheckProblem::BadStressMark {
+                        mark: mark.clone(),
+                        message,
+                    },
+                )
             };
             if mark.is_empty() || mark.contains(char::is_whitespace) {
                 fail("a mark must be non-empty and contain no whitespace".into());
@@ -81,18 +97,27 @@ impl StressMarks {
                     m.level.span(),
                     CheckProblem::BadStressMark {
                         mark: mark.clone(),
-                        message: format!("unknown level `{}`; use primary, secondary or unstressed", m.level.get_ref()),
+                        message: format!(
+                            "unknown level `{}`; use primary, secondary or unstressed",
+                            m.level.get_ref()
+                        ),
                     },
                 );
                 continue;
             };
-            marks.push(Stress { mark: mark.clone(), level });
+            marks.push(Stress {
+                mark: mark.clone(),
+                level,
+            });
         }
         let required = raw.get_ref().required;
         if required && marks.is_empty() {
             problems.add(
                 raw.span(),
-                CheckProblem::BadStressMark { mark: String::new(), message: "stress is required but no marks are declared".into() },
+                CheckProblem::BadStressMark {
+                    mark: String::new(),
+                    message: "stress is required but no marks are declared".into(),
+                },
             );
         }
         StressMarks { marks, required }
@@ -100,7 +125,11 @@ impl StressMarks {
 
     /// Splits a trailing declared mark off `token` (longest mark first). A token that is itself
     /// a symbol is never split. Returns the bare part and the index of the mark in `marks`.
-    pub fn split<'a>(&self, token: &'a str, phones: &HashMap<String, PhoneId>) -> (&'a str, Option<usize>) {
+    pub fn split<'a>(
+        &self,
+        token: &'a str,
+        phones: &HashMap<String, PhoneId>,
+    ) -> (&'a str, Option<usize>) {
         if phones.contains_key(token) {
             return (token, None);
         }
@@ -118,7 +147,10 @@ impl StressMarks {
 
     /// The first mark declared for `level`.
     pub fn mark_for(&self, level: StressLevel) -> Option<&str> {
-        self.marks.iter().find(|s| s.level == level).map(|s| s.mark.as_str())
+        self.marks
+            .iter()
+            .find(|s| s.level == level)
+            .map(|s| s.mark.as_str())
     }
 }
 

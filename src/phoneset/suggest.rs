@@ -15,7 +15,9 @@ const MIN_SIMILARITY: f64 = 0.3;
 /// The shipped IPA reference set, loaded once, used to read IPA typed into other sets.
 fn ipa_reference() -> Option<&'static Phoneset> {
     static REFERENCE: OnceLock<Option<Phoneset>> = OnceLock::new();
-    REFERENCE.get_or_init(|| Phoneset::shipped("ipa-broad").ok()).as_ref()
+    REFERENCE
+        .get_or_init(|| Phoneset::shipped("ipa-broad").ok())
+        .as_ref()
 }
 
 impl Phoneset {
@@ -41,10 +43,18 @@ impl Phoneset {
     pub(crate) fn suggest_ids(&self, bad: &str, n: usize, prefer_nucleus: bool) -> Vec<PhoneId> {
         let mut out: Vec<PhoneId> = Vec::new();
         let lower = bad.to_lowercase();
-        out.extend(self.ids().filter(|&id| self.get(id).is_some_and(|p| p.symbol.to_lowercase() == lower)));
+        out.extend(self.ids().filter(|&id| {
+            self.get(id)
+                .is_some_and(|p| p.symbol.to_lowercase() == lower)
+        }));
         if let Some(anchor) = self.feature_anchor(bad) {
-            let mut near: Vec<(PhoneId, f32)> =
-                self.ids().filter_map(|id| self.get(id).map(|p| (id, phone_distance(&self.schema, anchor, p)))).collect();
+            let mut near: Vec<(PhoneId, f32)> = self
+                .ids()
+                .filter_map(|id| {
+                    self.get(id)
+                        .map(|p| (id, phone_distance(&self.schema, anchor, p)))
+                })
+                .collect();
             near.sort_by(|a, b| a.1.total_cmp(&b.1).then(a.0.cmp(&b.0)));
             out.extend(near.into_iter().take(n).map(|(id, _)| id));
         }
@@ -56,13 +66,18 @@ impl Phoneset {
                 (score >= MIN_SIMILARITY).then(|| (id, score, strsim::jaro_winkler(&lower, &sym)))
             })
             .collect();
-        similar.sort_by(|a, b| b.1.total_cmp(&a.1).then(b.2.total_cmp(&a.2)).then(a.0.cmp(&b.0)));
+        similar.sort_by(|a, b| {
+            b.1.total_cmp(&a.1)
+                .then(b.2.total_cmp(&a.2))
+                .then(a.0.cmp(&b.0))
+        });
         out.extend(similar.into_iter().map(|(id, _, _)| id));
         let mut seen = std::collections::HashSet::new();
         out.retain(|id| seen.insert(*id));
         if prefer_nucleus {
-            let (mut nuclei, rest): (Vec<_>, Vec<_>) =
-                out.into_iter().partition(|&id| self.get(id).is_some_and(Phone::is_nucleus));
+            let (mut nuclei, rest): (Vec<_>, Vec<_>) = out
+                .into_iter()
+                .partition(|&id| self.get(id).is_some_and(Phone::is_nucleus));
             nuclei.extend(rest);
             out = nuclei;
         }
@@ -79,7 +94,10 @@ impl Phoneset {
             if reference.schema.name() != self.schema.name() {
                 return None;
             }
-            reference.phones.iter().find(|p| p.symbol == bad || p.ipa == bad || p.xsampa == bad)
+            reference
+                .phones
+                .iter()
+                .find(|p| p.symbol == bad || p.ipa == bad || p.xsampa == bad)
         })
     }
 

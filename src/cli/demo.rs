@@ -1,0 +1,75 @@
+//! `orthoepy demo`: a ready-to-review copy of the demo project (an invented coastal rail-and-ferry
+//! operator building a voice timetable assistant), then the review screen on it.
+
+use anyhow::Context;
+use orthoepy::lexicon::Lexicon;
+use orthoepy::project::Project;
+use orthoepy::queue::TokenRule;
+use std::io::IsTerminal;
+use std::path::{Path, PathBuf};
+use std::process::ExitCode;
+
+/// Make a working copy of the demo project, queue its new words, and open the review screen.
+///
+/// Reopen it later with `orthoepy review --project DIR`; merge with `orthoepy apply --project DIR`.
+///
+/// Example: orthoepy demo /tmp/coast-demo
+#[derive(Debug, clap::Args)]
+#[command(verbatim_doc_comment)]
+pub struct Args {
+    /// Folder for the copy (default: a new folder under the system temporary folder).
+    dir: Option<PathBuf>,
+    /// Only make the copy and the queue; do not open the review screen.
+    #[arg(long)]
+    no_review: bool,
+}
+
+/// The demo project's files, built into the binary so the demo works from anywhere.
+const FILES: &[(&str, &str)] = &[
+    ("orthoepy.toml", include_str!("../../demo-lexicon/orthoepy.toml")),
+    ("lexicon.csv", include_str!("../../demo-lexicon/lexicon.csv")),
+    ("new-words.txt", include_str!("../../demo-lexicon/new-words.txt")),
+    ("passenger-queries.txt", include_str!("../../demo-lexicon/passenger-queries.txt")),
+    ("saltmarsh-coast.toml", include_str!("../../demo-lexicon/saltmarsh-coast.toml")),
+    ("README.md", include_str!("../../demo-lexicon/README.md")),
+];
+
+fn default_dir() -> PathBuf {
+    let stamp = std::time::SystemTime::now().duration_since(std::time::UNIX_EPOCH).map_or(0, |d| d.as_secs());
+    std::env::temp_dir().join(format!("orthoepy-demo-{stamp}-{}", std::process::id()))
+}
+
+/// Write the demo files into `dir` and fill its queue; returns the project.
+pub fn make_demo(dir: &Path) -> anyhow::Result<Project> {
+    anyhow::ensure!(
+        !dir.join("orthoepy.toml").exists(),
+        "{} already holds a project; reopen it with `orthoepy review --project {}`",
+        dir.display(),
+        dir.display()
+    );
+    std::fs::create_dir_all(dir).with_context(|| format!("cannot create {}", dir.display()))?;
+    for (name, text) in FILES {
+        let path = dir.join(name);
+        std::fs::write(&path, text).with_context(|| format!("cannot write {}", path.display()))?;
+    }
+    let project = Project::load(dir).context("cannot read the demo project")?;
+    let lexicon = Lexicon::load(&project.lexicon, project.headword_policy()).context("cannot load the demo lexicon")?;
+    let words = dir.join("new-words.txt");
+    let corpus = dir.join("passenger-queries.txt");
+    let mut items = super::queue::intake(&lexicon, Some(&words), Some((&corpus, TokenRule::default(), 1)))?;
+    super::queue::guess_missing(&mut items, &super::queue::ProjectGuesser::open(&project, lexicon)?);
+    super::queue::add_to_queue(&project, items)?;
+    Ok(project)
+}
+
+/// Run `orthoepy demo`.
+pub fn run(args: Args) -> anyhow::Result<ExitCode> {
+    let dir = args.dir.unwrap_or_else(default_dir);
+    let project = make_demo(&dir)?;
+    println!("{}", project.root.display());
+    if args.no_review || !std::io::stdout().is_terminal() {
+        eprintln!("demo ready; open it with `orthoepy review --project {}`", project.root.display());
+        return Ok(ExitCode::SUCCESS);
+    }
+    super::review::open_review(&project, None)
+}

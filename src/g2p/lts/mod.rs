@@ -1,0 +1,265 @@
+//! Letter-to-sound rules: ordered, context-sensitive rewrite rules from letters to phones, in
+//! the manner of Elovitz, Johnson, McHugh & Shore, "Letter-to-sound rules for automatic
+//! translation of English text to phonetics", IEEE Trans. ASSP 24(6), 1976 (the rules and the
+//! file format are this project's own; see DEVELOPERS.md, "Letter-to-sound rule files").
+//!
+//! A [`RuleSet`] is loaded from a TOML file (or a shipped one: `en`, `es`), with every output
+//! phone checked against the phoneset at load time. Rules are indexed by their first letter;
+//! transcription scans the word left to right and at each position applies the longest matching
+//! rule (ties: the one written first), then a stress method marks stress. This module owns
+//! rule files and their application; it must not consult a lexicon or a trained model.
+
+mod file;
+mod pattern;
+mod stress;
+
+use std::collections::HashMap;
+use std::path::Path;
+
+use unicode_normalization::UnicodeNormalization;
+
+use crate::phoneset::{PhoneId, PhoneToken, Phoneset, Pronunciation, StressLevel};
+use pattern::Context;
+use stress::{Emitted, StressMethod};
+
+pub use stress::{syllabify, Syllable};
+
+/// Ids of the rule sets shipped with orthoepy and the phoneset each is written for.
+pub const SHIPPED: &[(&str, &str)] = &[("en", "en-arpa"), ("es", "es-ipa")];
+
+fn shipped_text(id: &str) -> Option<&'static str> {
+    match id {
+        "en" => Some(include_str!("../../../rules/lts/en.toml")),
+        "es" => Some(include_str!("../../../rules/lts/es.toml")),
+        _ => None,
+    }
+}
+
+/// Errors from loading a rule file or transcribing a word.
+#[derive(Debug, thiserror::Error)]
+pub enum LtsError {
+    /// The rule file could not be read.
+    #[error("{path}: cannot read the rule file: {source}")]
+    Io {
+        /// The file.
+        path: String,
+        /// The underlying error.
+        source: std::io::Error,
+    },
+    /// The file is not valid TOML, or a rule, class or stress setting is malformed.
+    #[error("{origin}:{line}:{column}: {message}")]
+    Syntax {
+        /// File path or `shipped:<id>`.
+        origin: String,
+        /// 1-based line.
+        line: usize,
+        /// 1-based column.
+        column: usize,
+        /// What is wrong and what to write instead.
+        message: String,
+    },
+    /// The file was written for another phoneset than the one it is loaded with.
+    #[error("{origin}: the rules are written for phoneset `{declared}` but `{given}` was given; load them with `{declared}`")]
+    PhonesetMismatch {
+        /// File path or `shipped:<id>`.
+        origin: String,
+        /// The `phoneset` key of the file.
+        declared: String,
+        /// The phoneset passed in.
+        given: String,
+    },
+    /// No shipped rule set has this id.
+    #[error("no shipped letter-to-sound rules for `{0}`; shipped: en, es")]
+    UnknownShipped(String),
+    /// A letter of the word is matched by no rule.
+    #[error("no letter-to-sound rule for `{letter}` at position {position} of `{word}`")]
+    NoRule {
+        /// The (normalised) word.
+        word: String,
+        /// The letter without a rule.
+        letter: char,
+        /// 0-based letter position.
+        position: usize,
+    },
+}
+
+/// What one rule writes.
+#[derive(Debug, Clone, PartialEq, Eq)]
+enum Output {
+    /// A phone, with the stress the rule gives it (if any).
+    Phone { id: PhoneId, stress: Option<StressLevel> },
+    /// `^`: primary stress on the last nucleus before this point.
+    StressBefore,
+}
+
+/// One compiled rule.
+#[derive(Debug, Clone)]
+struct Rule {
+    letters: Vec<char>,
+    left: Context,
+    right: Context,
+    output: Vec<Output>,
+    /// Position in the file (0 = first rule), the tie-breaker between equally long matches.
+    order: usize,
+    /// 1-based line in the file.
+    line: usize,
+}
+
+impl Rule {
+    fn is_context_free(&self) -> bool {
+        self.left == Context::default() && self.right == Context::default()
+    }
+
+    fn matches(&self, word: &[char], at: usize) -> bool {
+        word.get(at..at + self.letters.len()) == Some(self.letters.as_slice())
+            && self.left.matches_left(word, at)
+            && self.right.matches_right(word, at + self.letters.len())
+    }
+}
+
+/// A compiled, validated set of letter-to-sound rules for one language and phoneset.
+///
+/// ```
+/// use orthoepy::g2p::lts::RuleSet;
+/// use orthoepy::phoneset::Phoneset;
+/// let es = Phoneset::shipped("es-ipa").unwrap();
+/// let rules = RuleSet::shipped("es", &es).unwrap();
+/// let guess = rules.transcribe("chorizo").unwrap();
+/// assert_eq!(guess.render(&es), "tʃ o0 ɾ i1 s o0");
+/// ```
+#[derive(Debug, Clone)]
+pub struct RuleSet {
+    language: String,
+    description: String,
+    phoneset: Phoneset,
+    alphabet: Vec<char>,
+    /// Rules by first letter, longest letters first, then in file order.
+    by_first: HashMap<char, Vec<Rule>>,
+    stress: StressMethod,
+}
+
+impl RuleSet {
+    /// Loads a shipped rule set (`en` for `en-arpa`, `es` for `es-ipa`).
+    pub fn shipped(id: &str, phoneset: &Phoneset) -> Result<RuleSet, LtsError> {
+        let text = shipped_text(id).ok_or_else(|| LtsError::UnknownShipped(id.to_string()))?;
+        RuleSet::parse(text, &format!("shipped:{id}"), phoneset)
+    }
+
+    /// Loads a rule file from disk.
+    pub fn load(path: &Path, phoneset: &Phoneset) -> Result<RuleSet, LtsError> {
+        let text = std::fs::read_to_string(path)
+            .map_err(|source| LtsError::Io { path: path.display().to_string(), source })?;
+        RuleSet::parse(&text, &path.display().to_string(), phoneset)
+    }
+
+    /// Parses rule-file text; `origin` names it in error messages.
+    ///
+    /// ```
+    /// use orthoepy::g2p::lts::RuleSet;
+    /// use orthoepy::phoneset::Phoneset;
+    /// let en = Phoneset::shipped("en-arpa").unwrap();
+    /// let text = "language = \"x\"\nphoneset = \"en-arpa\"\nalphabet = \"a\"\n[stress]\nmethod = \"none\"\n[rules]\na = [\"a -> QQ\"]\n";
+    /// let err = RuleSet::parse(text, "x.toml", &en).unwrap_err();
+    /// assert!(err.to_string().starts_with("x.toml:7:12: phone `QQ`"), "{err}");
+    /// ```
+    pub fn parse(text: &str, origin: &str, phoneset: &Phoneset) -> Result<RuleSet, LtsError> {
+        let parsed = file::parse(text, origin, phoneset)?;
+        let mut by_first: HashMap<char, Vec<Rule>> = HashMap::new();
+        for rule in parsed.rules {
+            if let Some(&first) = rule.letters.first() {
+                by_first.entry(first).or_default().push(rule);
+            }
+        }
+        for rules in by_first.values_mut() {
+            rules.sort_by(|a, b| b.letters.len().cmp(&a.letters.len()).then(a.order.cmp(&b.order)));
+        }
+        Ok(RuleSet {
+            language: parsed.language,
+            description: parsed.description,
+            phoneset: phoneset.clone(),
+            alphabet: parsed.alphabet,
+            by_first,
+            stress: parsed.stress,
+        })
+    }
+
+    /// The language tag the file declares.
+    pub fn language(&self) -> &str {
+        &self.language
+    }
+
+    /// The file's one-line description.
+    pub fn description(&self) -> &str {
+        &self.description
+    }
+
+    /// The phoneset the output is in.
+    pub fn phoneset(&self) -> &Phoneset {
+        &self.phoneset
+    }
+
+    /// Number of rules.
+    pub fn len(&self) -> usize {
+        self.by_first.values().map(Vec::len).sum()
+    }
+
+    /// True when the set has no rules (a loaded file always has at least its fallbacks).
+    pub fn is_empty(&self) -> bool {
+        self.len() == 0
+    }
+
+    /// True when every letter of `word` (after normalisation) is in the file's alphabet, so
+    /// [`RuleSet::transcribe`] cannot fail on it.
+    pub fn covers(&self, word: &str) -> bool {
+        normalize(word).iter().all(|c| self.alphabet.contains(c))
+    }
+
+    /// Transcribes a word (NFC, lower-cased first) into a stressed pronunciation.
+    pub fn transcribe(&self, word: &str) -> Result<Pronunciation, LtsError> {
+        let letters = normalize(word);
+        let mut emitted: Vec<Emitted> = Vec::new();
+        let mut at = 0;
+        let mut anchor = false;
+        while let Some(&letter) = letters.get(at) {
+            let rule = self
+                .rule_at(&letters, at)
+                .ok_or_else(|| LtsError::NoRule { word: letters.iter().collect(), letter, position: at })?;
+            let span = at..at + rule.letters.len();
+            for out in &rule.output {
+                match *out {
+                    Output::StressBefore => anchor = true,
+                    Output::Phone { id, stress } => {
+                        emitted.push(Emitted { phone: id, stress, letters: span.clone(), anchor_before: anchor });
+                        anchor = false;
+                    }
+                }
+            }
+            at = span.end;
+        }
+        self.stress.apply(&letters, &mut emitted, &self.phoneset);
+        Ok(Pronunciation { phones: emitted.into_iter().map(|e| PhoneToken { phone: e.phone, stress: e.stress }).collect() })
+    }
+
+    /// The line of the rule that fires at each position of `word`, for debugging rule files:
+    /// `(letters, line)` pairs in order.
+    pub fn trace(&self, word: &str) -> Vec<(String, usize)> {
+        let letters = normalize(word);
+        let mut steps = Vec::new();
+        let mut at = 0;
+        while let Some(rule) = self.rule_at(&letters, at) {
+            steps.push((rule.letters.iter().collect(), rule.line));
+            at += rule.letters.len();
+        }
+        steps
+    }
+
+    /// The rule that fires at `at`: the longest match, ties to the earliest in the file.
+    fn rule_at(&self, letters: &[char], at: usize) -> Option<&Rule> {
+        let first = letters.get(at)?;
+        self.by_first.get(first)?.iter().find(|r| r.matches(letters, at))
+    }
+}
+
+fn normalize(word: &str) -> Vec<char> {
+    word.nfc().flat_map(char::to_lowercase).collect()
+}

