@@ -10,13 +10,15 @@ use crate::phoneset::{PhoneId, PhoneToken, Phoneset, Pronunciation, StressLevel,
 use crate::project::StressPolicy;
 use rayon::prelude::*;
 use std::borrow::Cow;
+use std::collections::HashMap;
+use std::hash::{BuildHasherDefault, Hasher};
 use std::ops::Range;
 
 /// Entries per parallel work item (small enough to balance, large enough to amortise).
 const CHUNK: usize = 4096;
 
 /// One phone token of a pronunciation as the phoneset reads it.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
 pub struct Token {
     /// The phone, when the token is a symbol of the phoneset (with or without a declared mark).
     pub phone: Option<PhoneId>,
@@ -45,10 +47,15 @@ impl ParsedEntry<'_> {
         self.tokens.iter().all(|t| t.phone.is_some())
     }
 
-    /// The pronunciation as phoneset tokens, when every token is known.
-    pub fn pronunciation(&self) -> Option<Pronunciation> {
-        let phones = self.tokens.iter().map(|t| t.phone.map(|phone| PhoneToken { phone, stress: t.stress })).collect::<Option<Vec<_>>>()?;
-        Some(Pronunciation { phones })
+    /// Writes the pronunciation as phoneset tokens into `out` (reusing its buffer); false, with
+    /// `out` unspecified, when a token is unknown.
+    pub fn fill_pronunciation(&self, out: &mut Pronunciation) -> bool {
+        out.phones.clear();
+        for t in self.tokens {
+            let Some(phone) = t.phone else { return false };
+            out.phones.push(PhoneToken { phone, stress: t.stress });
+        }
+        true
     }
 }
 
@@ -180,8 +187,7 @@ fn concat<T>(mut a: Vec<T>, mut b: Vec<T>) -> Vec<T> {
 /// Reads every pronunciation, in parallel chunks, into one flat token list with a span per
 /// entry, and lists the entries that need the phoneset's detailed per-token check.
 fn parse_all(entries: &[Entry], phoneset: &Phoneset) -> (Vec<Token>, Vec<Range<usize>>, Vec<EntryId>) {
-    let nucleus: Vec<bool> = phoneset.phones().iter().map(|p| p.is_nucleus()).collect();
-    let required = phoneset.stress_required();
+    let table = TokenTable::new(phoneset);
     let pieces: Vec<(Vec<Token>, Vec<usize>, Vec<EntryId>)> = entries
         .par_chunks(CHUNK)
         .enumerate()
@@ -192,11 +198,9 @@ fn parse_all(entries: &[Entry], phoneset: &Phoneset) -> (Vec<Token>, Vec<Range<u
             for (i, entry) in chunk.iter().enumerate() {
                 let mut clean = true;
                 for text in entry.pronunciation.split_whitespace() {
-                    let (bare, mark) = phoneset.split_stress(text);
-                    let phone = phoneset.lookup(bare);
-                    let is_nucleus = phone.and_then(|p| nucleus.get(usize::from(p))).copied().unwrap_or(false);
-                    clean &= phone.is_some() && (is_nucleus || mark.is_none()) && !(is_nucleus && required && mark.is_none());
-                    tokens.push(Token { phone, stress: mark.map(|m| m.level) });
+                    let (token, ok) = table.read(phoneset, text);
+                    clean &= ok;
+                    tokens.push(token);
                 }
                 ends.push(tokens.len());
                 if !clean {
@@ -222,6 +226,65 @@ fn parse_all(entries: &[Entry], phoneset: &Phoneset) -> (Vec<Token>, Vec<Range<u
     (tokens, spans, flagged)
 }
 
+/// Every well-formed token of a phoneset (each symbol bare and with each declared mark), read
+/// once through the phoneset itself, so the per-token work of an audit is one hash lookup.
+struct TokenTable {
+    known: HashMap<String, (Token, bool), BuildHasherDefault<Fnv1a>>,
+    nucleus: Vec<bool>,
+    required: bool,
+}
+
+impl TokenTable {
+    fn new(phoneset: &Phoneset) -> TokenTable {
+        let nucleus: Vec<bool> = phoneset.phones().iter().map(|p| p.is_nucleus()).collect();
+        let required = phoneset.stress_required();
+        let mut table = TokenTable { known: HashMap::default(), nucleus, required };
+        for phone in phoneset.phones() {
+            let candidates = std::iter::once(phone.symbol.clone())
+                .chain(phoneset.stress_marks().iter().map(|m| format!("{}{}", phone.symbol, m.mark)));
+            for text in candidates {
+                let read = table.classify(phoneset, &text);
+                table.known.insert(text, read);
+            }
+        }
+        table
+    }
+
+    /// The token and whether it is clean (known, marked only on a nucleus, marked if required).
+    fn read(&self, phoneset: &Phoneset, text: &str) -> (Token, bool) {
+        match self.known.get(text) {
+            Some(&read) => read,
+            None => self.classify(phoneset, text),
+        }
+    }
+
+    fn classify(&self, phoneset: &Phoneset, text: &str) -> (Token, bool) {
+        let (bare, mark) = phoneset.split_stress(text);
+        let phone = phoneset.lookup(bare);
+        let is_nucleus = phone.and_then(|p| self.nucleus.get(usize::from(p))).copied().unwrap_or(false);
+        let clean = phone.is_some() && (is_nucleus || mark.is_none()) && !(is_nucleus && self.required && mark.is_none());
+        (Token { phone, stress: mark.map(|m| m.level) }, clean)
+    }
+}
+
+/// The FNV-1a hash (G. Fowler, L. C. Noll, K.-P. Vo, 1991): fast for the short phone tokens the
+/// table is keyed by, which need no protection against chosen collisions.
+#[derive(Default)]
+struct Fnv1a(u64);
+
+impl Hasher for Fnv1a {
+    fn finish(&self) -> u64 {
+        self.0
+    }
+    fn write(&mut self, bytes: &[u8]) {
+        let mut hash = if self.0 == 0 { 0xcbf2_9ce4_8422_2325 } else { self.0 };
+        for &b in bytes {
+            hash = (hash ^ u64::from(b)).wrapping_mul(0x0100_0000_01b3);
+        }
+        self.0 = hash;
+    }
+}
+
 /// The key under which spellings of one word are grouped: surrounding whitespace trimmed, inner
 /// runs of whitespace folded to one space, then the lexicon key (NFC, lower-cased when the policy
 /// folds case). Borrowed when nothing changes.
@@ -243,13 +306,22 @@ pub fn spelling_key<'w>(word: &'w str, policy: &HeadwordPolicy) -> Cow<'w, str> 
 /// Trims whitespace and folds inner runs of whitespace to one U+0020 SPACE. Borrowed when the word
 /// is already tidy.
 pub(crate) fn collapse_whitespace(word: &str) -> Cow<'_, str> {
-    let tidy = word.trim() == word && {
-        let mut previous_space = false;
-        word.chars().all(|c| {
-            let ok = if c == ' ' { !previous_space } else { !c.is_whitespace() };
-            previous_space = c == ' ';
-            ok
-        })
+    let tidy = if word.is_ascii() {
+        let bytes = word.as_bytes();
+        let edge = |b: Option<&u8>| b.is_some_and(|b| b.is_ascii_whitespace());
+        !edge(bytes.first())
+            && !edge(bytes.last())
+            && !bytes.windows(2).any(|w| w == b"  ")
+            && !bytes.iter().any(|&b| b.is_ascii_whitespace() && b != b' ')
+    } else {
+        word.trim() == word && {
+            let mut previous_space = false;
+            word.chars().all(|c| {
+                let ok = if c == ' ' { !previous_space } else { !c.is_whitespace() };
+                previous_space = c == ' ';
+                ok
+            })
+        }
     };
     if tidy {
         Cow::Borrowed(word)

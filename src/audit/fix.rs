@@ -67,6 +67,14 @@ pub fn repaired_headword(word: &str) -> String {
     repair_headword(word).0
 }
 
+/// True when the headword needs no repair (fast for the common tidy case).
+pub(super) fn is_tidy(word: &str) -> bool {
+    let quick = invisible_characters(word).is_empty()
+        && matches!(collapse_whitespace(word), std::borrow::Cow::Borrowed(_))
+        && is_nfc_quick(word.chars()) == IsNormalized::Yes;
+    quick || repaired_headword(word) == word
+}
+
 /// The repaired headword and the list of repairs made (empty when it was already right).
 fn repair_headword(word: &str) -> (String, Vec<String>) {
     let mut repairs = Vec::new();

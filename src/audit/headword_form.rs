@@ -5,7 +5,7 @@
 //! a decomposed (non-NFC) spelling or repeated inner spaces are warnings. Rows with invisible
 //! characters are left to `invisible-character`.
 
-use super::fix::repaired_headword;
+use super::fix::{is_tidy, repaired_headword};
 use super::normalization_duplicate::visible_rows;
 use super::{Check, Context, Finding, Severity};
 
@@ -25,6 +25,10 @@ impl Check for HeadwordForm {
     fn run(&self, context: &Context<'_>) -> Vec<Finding> {
         let entries = context.entries();
         context.each_group(1, |group, out| {
+            let first = &entries[group[0]];
+            if group.iter().all(|&id| entries[id].word == first.word) && is_tidy(&first.word) {
+                return; // the common case, decided without allocating
+            }
             let rows = visible_rows(entries, group);
             let Some((_, first)) = rows.first() else { return };
             if rows.iter().any(|(_, e)| e.word != first.word) {

@@ -6,7 +6,7 @@
 //! NFC), the earliest on a tie; every row spelt otherwise is reported against it. Rows whose
 //! headword holds invisible characters are left to `invisible-character`.
 
-use super::fix::repaired_headword;
+use super::fix::{is_tidy, repaired_headword};
 use super::invisible_character::invisible_characters;
 use super::{Check, Context, Finding, Severity};
 use crate::lexicon::{Entry, EntryId};
@@ -70,7 +70,7 @@ fn reference_spelling<'e>(rows: &[(EntryId, &'e Entry)]) -> Option<(EntryId, &'e
         return None;
     }
     let count = |w: &str| rows.iter().filter(|(_, e)| e.word == w).count();
-    let tidy = |e: &Entry| repaired_headword(&e.word) == e.word;
+    let tidy = |e: &Entry| is_tidy(&e.word);
     let mut best: Option<(bool, usize, EntryId, &'e Entry)> = None;
     for &(id, entry) in rows {
         let rank = (tidy(entry), count(&entry.word));

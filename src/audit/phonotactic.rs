@@ -3,6 +3,9 @@
 //! in the phoneset; this check only applies them to every fully known pronunciation.
 
 use super::{Check, Context, Finding, Severity};
+use crate::lexicon::{Entry, EntryId};
+use crate::phoneset::{PhonotacticViolation, Pronunciation};
+use rayon::prelude::*;
 
 /// Reports matches of the phoneset's phonotactic constraints.
 pub struct Phonotactic;
@@ -22,21 +25,37 @@ impl Check for Phonotactic {
         if phoneset.constraints().is_empty() {
             return Vec::new();
         }
-        context.each_entry(|id, entry, out| {
-            let Some(pronunciation) = context.parsed(id).pronunciation() else { return };
-            for violation in phoneset.phonotactic_violations(&pronunciation) {
-                let token = entry.pronunciation.split_whitespace().nth(violation.position).unwrap_or("?");
-                let message = format!(
-                    "{} (constraint {}, at phone {} `{token}`)",
-                    violation.message,
-                    violation.constraint_id,
-                    violation.position + 1
-                );
-                let finding = Finding::new(self.id(), self.severity(), id, entry, message)
-                    .suggest("check the transcription around that phone");
-                out.push(finding);
-            }
-        })
+        // One pronunciation buffer per work item, reused across its entries.
+        context
+            .entries()
+            .par_iter()
+            .enumerate()
+            .with_min_len(4096)
+            .fold(
+                || (Vec::new(), Pronunciation::default()),
+                |(mut out, mut buffer), (id, entry)| {
+                    if context.parsed(id).fill_pronunciation(&mut buffer) {
+                        for violation in phoneset.phonotactic_violations(&buffer) {
+                            out.push(self.finding(id, entry, &violation));
+                        }
+                    }
+                    (out, buffer)
+                },
+            )
+            .map(|(out, _)| out)
+            .reduce(Vec::new, |mut a, mut b| {
+                a.append(&mut b);
+                a
+            })
+    }
+}
+
+impl Phonotactic {
+    fn finding(&self, id: EntryId, entry: &Entry, violation: &PhonotacticViolation) -> Finding {
+        let token = entry.pronunciation.split_whitespace().nth(violation.position).unwrap_or("?");
+        let message =
+            format!("{} (constraint {}, at phone {} `{token}`)", violation.message, violation.constraint_id, violation.position + 1);
+        Finding::new(self.id(), self.severity(), id, entry, message).suggest("check the transcription around that phone")
     }
 }
 

@@ -7,7 +7,7 @@
 //! synthesis and redundant only for builds that strip stress, so that is reported as info. Exact
 //! copies are `duplicate-entry`'s. Each later variant is reported against the first it repeats.
 
-use super::{Check, Context, Finding, Severity};
+use super::{Check, Context, Finding, Severity, Token};
 use crate::phoneset::{Phoneset, StressLevel};
 use std::collections::HashMap;
 
@@ -26,14 +26,20 @@ impl Check for RedundantVariant {
     }
     fn run(&self, context: &Context<'_>) -> Vec<Finding> {
         let phoneset = context.phoneset();
-        let free = FreeVariation::new(&context.stress().free_variation);
+        let free = FreeVariation::new(phoneset, &context.stress().free_variation);
         let entries = context.entries();
         context.each_group(2, |group, out| {
-            let variants: Vec<Variant> = group.iter().map(|&id| Variant::new(phoneset, &free, &entries[id].pronunciation)).collect();
+            let variants: Vec<Option<&[Token]>> = group
+                .iter()
+                .map(|&id| {
+                    let parsed = context.parsed(id);
+                    (parsed.problems.is_empty() && parsed.all_known()).then_some(parsed.tokens)
+                })
+                .collect();
             for (n, &id) in group.iter().enumerate() {
-                let Some((earlier, how)) = (0..n).find_map(|m| variants[m].compare(&variants[n]).map(|how| (m, how))) else {
-                    continue;
-                };
+                let Some(later) = variants[n] else { continue };
+                let found = (0..n).find_map(|m| variants[m].and_then(|earlier| compare(&free, earlier, later)).map(|how| (m, how)));
+                let Some((earlier, how)) = found else { continue };
                 let first = group[earlier];
                 let (severity, what) = match how {
                     Redundancy::MinorStress => (Severity::Warning, "only by secondary or unstressed marks".to_string()),
@@ -60,81 +66,69 @@ enum Redundancy {
     FreeAndStress,
 }
 
-/// Token → representative of its free-variation group.
+/// How `later` repeats `earlier`, if it does (exact copies are not this check's). Both are
+/// fully known pronunciations.
+fn compare(free: &FreeVariation<'_>, earlier: &[Token], later: &[Token]) -> Option<Redundancy> {
+    if earlier == later || earlier.is_empty() || earlier.len() != later.len() {
+        return None;
+    }
+    let pairs = || earlier.iter().zip(later);
+    if pairs().all(|(a, b)| a.phone == b.phone) {
+        let primary = |t: &Token| t.stress == Some(StressLevel::Primary);
+        let same_primaries = pairs().all(|(a, b)| primary(a) == primary(b));
+        return Some(if same_primaries { Redundancy::MinorStress } else { Redundancy::StressShift });
+    }
+    if free.is_empty() {
+        return None;
+    }
+    if pairs().all(|(a, b)| free.fold(*a) == free.fold(*b)) {
+        return Some(Redundancy::Free);
+    }
+    pairs().all(|(a, b)| free.fold(*a).phone == free.fold(*b).phone).then_some(Redundancy::FreeAndStress)
+}
+
+/// The project's free-variation groups, read into tokens: token → representative of its group.
 struct FreeVariation<'p> {
     groups: &'p [Vec<String>],
-    representative: HashMap<&'p str, &'p str>,
+    representative: HashMap<Token, Token>,
 }
 
 impl<'p> FreeVariation<'p> {
-    fn new(groups: &'p [Vec<String>]) -> FreeVariation<'p> {
+    fn new(phoneset: &Phoneset, groups: &'p [Vec<String>]) -> FreeVariation<'p> {
+        let read = |text: &str| {
+            let (bare, mark) = phoneset.split_stress(text);
+            phoneset.lookup(bare).map(|phone| Token { phone: Some(phone), stress: mark.map(|m| m.level) })
+        };
         let mut representative = HashMap::new();
         for group in groups {
-            if let Some(first) = group.first() {
-                for member in group {
-                    representative.insert(member.as_str(), first.as_str());
+            let members: Vec<Token> = group.iter().filter_map(|t| read(t)).collect();
+            if let Some(&first) = members.first() {
+                for member in members {
+                    representative.insert(member, first);
                 }
             }
         }
         FreeVariation { groups, representative }
     }
 
+    fn is_empty(&self) -> bool {
+        self.representative.is_empty()
+    }
+
     /// The token with free variation folded: the whole token if it is listed, else its bare
-    /// symbol (keeping the mark) if that is listed.
-    fn fold(&self, phoneset: &Phoneset, token: &str) -> String {
-        if let Some(rep) = self.representative.get(token) {
-            return rep.to_string();
+    /// phone (keeping the stress) if that is listed.
+    fn fold(&self, token: Token) -> Token {
+        if let Some(&rep) = self.representative.get(&token) {
+            return rep;
         }
-        let (bare, mark) = phoneset.split_stress(token);
-        match (self.representative.get(bare), mark) {
-            (Some(rep), Some(m)) => format!("{rep}{}", m.mark),
-            (Some(rep), None) => rep.to_string(),
-            (None, _) => token.to_string(),
+        match self.representative.get(&Token { stress: None, ..token }) {
+            Some(&rep) => Token { phone: rep.phone, stress: token.stress },
+            None => token,
         }
     }
 
     fn describe(&self) -> String {
         self.groups.iter().map(|g| g.join("~")).collect::<Vec<_>>().join(", ")
-    }
-}
-
-/// The comparison keys of one pronunciation.
-struct Variant {
-    tokens: Vec<String>,
-    bare: Vec<String>,
-    folded: Vec<String>,
-    folded_bare: Vec<String>,
-    primaries: Vec<usize>,
-}
-
-impl Variant {
-    fn new(phoneset: &Phoneset, free: &FreeVariation<'_>, pronunciation: &str) -> Variant {
-        let tokens: Vec<String> = pronunciation.split_whitespace().map(str::to_string).collect();
-        let bare_of = |t: &str| phoneset.split_stress(t).0.to_string();
-        let bare = tokens.iter().map(|t| bare_of(t)).collect();
-        let folded: Vec<String> = tokens.iter().map(|t| free.fold(phoneset, t)).collect();
-        let folded_bare = folded.iter().map(|t| bare_of(t)).collect();
-        let primaries = tokens
-            .iter()
-            .enumerate()
-            .filter(|(_, t)| phoneset.split_stress(t).1.is_some_and(|s| s.level == StressLevel::Primary))
-            .map(|(i, _)| i)
-            .collect();
-        Variant { tokens, bare, folded, folded_bare, primaries }
-    }
-
-    /// How `later` repeats `self`, if it does (exact copies are not this check's).
-    fn compare(&self, later: &Variant) -> Option<Redundancy> {
-        if self.tokens == later.tokens || self.tokens.is_empty() {
-            return None;
-        }
-        if self.bare == later.bare {
-            return Some(if self.primaries == later.primaries { Redundancy::MinorStress } else { Redundancy::StressShift });
-        }
-        if self.folded == later.folded {
-            return Some(Redundancy::Free);
-        }
-        (self.folded_bare == later.folded_bare).then_some(Redundancy::FreeAndStress)
     }
 }
 
