@@ -11,6 +11,7 @@ pub mod eval;
 pub mod g2p;
 pub mod lexicon;
 pub mod phoneset;
+pub mod pls;
 pub mod project;
 pub mod queue;
 pub mod safe_io;

@@ -21,6 +21,10 @@ enum Command {
     Find(cli::find::Args),
     Stats(cli::stats::Args),
     Variants(cli::variants::Args),
+    Train(cli::train::Args),
+    Guess(cli::guess::Args),
+    Split(cli::split::Args),
+    Evaluate(cli::evaluate::Args),
 }
 
 fn main() -> ExitCode {
@@ -31,6 +35,10 @@ fn main() -> ExitCode {
         Command::Find(args) => cli::find::run(args),
         Command::Stats(args) => cli::stats::run(args),
         Command::Variants(args) => cli::variants::run(args),
+        Command::Train(args) => cli::train::run(args),
+        Command::Guess(args) => cli::guess::run(args),
+        Command::Split(args) => cli::split::run(args),
+        Command::Evaluate(args) => cli::evaluate::run(args),
     };
     match result {
         Ok(code) => code,

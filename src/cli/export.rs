@@ -12,12 +12,25 @@ use std::process::ExitCode;
 pub enum ExportLayout {
     /// `word PH PH ...` per line, sorted.
     Plain,
+    /// A W3C PLS 1.0 document (see --alphabet).
+    Pls,
+}
+
+/// How PLS phonemes are written.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
+pub enum PlsAlphabet {
+    /// IPA with stress marks before stressed syllables.
+    Ipa,
+    /// The phoneset's own symbols (alphabet x-orthoepy-<phoneset>).
+    Symbols,
 }
 
 /// Write the build lexicon: one line per pronunciation, sorted by headword then variant order,
 /// deprecated entries left out; optionally the phone inventory it uses.
 ///
-/// Example: orthoepy export lexicon.csv --format plain -o build/lexicon.txt --phones build/phones.txt
+/// Examples:
+///   orthoepy export lexicon.csv --format plain -o build/lexicon.txt --phones build/phones.txt
+///   orthoepy export lexicon.csv --format pls --alphabet ipa --lang en-GB -o lexicon.pls
 #[derive(Debug, clap::Args)]
 #[command(verbatim_doc_comment)]
 pub struct Args {
@@ -38,18 +51,37 @@ pub struct Args {
     /// Mark second and later pronunciations with (2), (3), ...
     #[arg(long)]
     variant_suffix: bool,
+    /// PLS only: the phoneme alphabet.
+    #[arg(long, value_enum, default_value = "ipa")]
+    alphabet: PlsAlphabet,
+    /// PLS only: the document language (BCP 47).
+    #[arg(long, default_value = "en-US")]
+    lang: String,
     #[command(flatten)]
     project: ProjectArgs,
 }
 
 pub fn run(args: Args) -> anyhow::Result<ExitCode> {
-    let (lexicon, _) = args.project.load_lexicon(args.lexicon.as_deref())?;
+    let (lexicon, project) = args.project.load_lexicon(args.lexicon.as_deref())?;
     let options = PlainExport { strip_stress: args.strip_stress, variant_suffix: args.variant_suffix, ..Default::default() };
     let build = write_plain(lexicon.entries(), lexicon.policy(), &options);
+    let text = match args.format {
+        ExportLayout::Plain => build.text.clone(),
+        ExportLayout::Pls => {
+            let spec = project.as_ref().map_or("en-arpa", |p| p.phoneset.as_str());
+            let set = orthoepy::phoneset::Phoneset::resolve(spec, &std::env::current_dir()?)
+                .with_context(|| format!("cannot load phoneset {spec}"))?;
+            let alphabet = match args.alphabet {
+                PlsAlphabet::Ipa => orthoepy::pls::Alphabet::Ipa,
+                PlsAlphabet::Symbols => orthoepy::pls::Alphabet::Symbols,
+            };
+            orthoepy::pls::write_pls(lexicon.entries(), lexicon.policy(), &set, alphabet, &args.lang)?
+        }
+    };
     if args.output.as_os_str() == "-" {
-        print!("{}", build.text);
+        print!("{text}");
     } else {
-        atomic_write(&args.output, build.text.as_bytes(), false)
+        atomic_write(&args.output, text.as_bytes(), false)
             .with_context(|| format!("cannot write {}", args.output.display()))?;
     }
     if let Some(path) = &args.phones {

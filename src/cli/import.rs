@@ -11,6 +11,8 @@ use std::process::ExitCode;
 pub enum ImportLayout {
     /// `word PH PH ...` per line, optional `(2)` variant suffix, `#` comments.
     Plain,
+    /// A W3C PLS 1.0 document, alphabet `ipa` or `x-orthoepy-<phoneset>`.
+    Pls,
 }
 
 /// Read a lexicon in another layout and write it as a CSV store.
@@ -56,17 +58,33 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     let source = args.source.clone().unwrap_or_else(|| {
         args.file.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_default()
     });
-    let import = read_plain(&bytes, &source);
-    for bad in &import.rejected {
-        eprintln!("{}:{}:{}: {}", args.file.display(), bad.line, bad.column, bad.problem);
-    }
-    if args.strict && !import.rejected.is_empty() {
-        anyhow::bail!("{} line(s) could not be read; nothing was written", import.rejected.len());
-    }
-    let policy = orthoepy::lexicon::HeadwordPolicy { fold_case: args.fold_case };
-    let mut lexicon = Lexicon::from_entries(import.entries, policy);
     let phoneset = orthoepy::phoneset::Phoneset::resolve(&args.phoneset, &std::env::current_dir()?)
         .with_context(|| format!("cannot load phoneset {}", args.phoneset))?;
+    let (entries, rejected) = match args.layout {
+        ImportLayout::Plain => {
+            let import = read_plain(&bytes, &source);
+            let rejected: Vec<String> = import
+                .rejected
+                .iter()
+                .map(|bad| format!("{}:{}:{}: {}", args.file.display(), bad.line, bad.column, bad.problem))
+                .collect();
+            (import.entries, rejected)
+        }
+        ImportLayout::Pls => {
+            let import = orthoepy::pls::read_pls(&bytes, &phoneset, &source)
+                .map_err(|e| anyhow::anyhow!("{}:{e}", args.file.display()))?;
+            let rejected = import.rejected.iter().map(|(line, m)| format!("{}:{line}: {m}", args.file.display())).collect();
+            (import.entries, rejected)
+        }
+    };
+    for bad in &rejected {
+        eprintln!("{bad}");
+    }
+    if args.strict && !rejected.is_empty() {
+        anyhow::bail!("{} item(s) could not be read; nothing was written", rejected.len());
+    }
+    let policy = orthoepy::lexicon::HeadwordPolicy { fold_case: args.fold_case };
+    let mut lexicon = Lexicon::from_entries(entries, policy);
     let outside = lexicon.entries().iter().filter(|e| phoneset.parse(&e.pronunciation).is_err()).count();
     let words = lexicon.index().word_count();
     lexicon.save_as(&args.output).context("cannot write the lexicon")?;
@@ -75,7 +93,7 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
         lexicon.entries().len(),
         words,
         args.output.display(),
-        import.rejected.len(),
+        rejected.len(),
         outside,
         phoneset.id(),
     );

@@ -5,10 +5,14 @@
 //! into messages for people and exit codes (0 success, 1 findings the user asked to fail on,
 //! 2 could not run). They hold no logic a library user would need.
 
+pub mod evaluate;
 pub mod export;
 pub mod find;
+pub mod guess;
 pub mod import;
+pub mod split;
 pub mod stats;
+pub mod train;
 pub mod variants;
 
 use anyhow::Context;

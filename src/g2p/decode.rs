@@ -30,7 +30,7 @@ pub struct DecodeOptions {
 
 impl Default for DecodeOptions {
     fn default() -> Self {
-        DecodeOptions { nbest: 5, beam_width: 48, log_beam: 16.0, max_insertions: 2 }
+        DecodeOptions { nbest: 5, beam_width: 16, log_beam: 10.0, max_insertions: 1 }
     }
 }
 
@@ -219,6 +219,8 @@ impl Model {
         let mut finals: FastMap<u64, (f64, f64, u32)> = FastMap::default();
         let insertions = self.inventory.with_letters(&[]);
         let mut letter_ids: Vec<u32> = Vec::with_capacity(max_letters);
+        let mut best_at = vec![f64::NEG_INFINITY; n + 1];
+        let bound = |g: u32| f64::from(self.bounds.get(g as usize).copied().unwrap_or(0.0));
         for i in 0..=n {
             let mut column = std::mem::take(&mut columns[i]);
             column.prune(opts);
@@ -230,9 +232,13 @@ impl Model {
                     continue;
                 }
                 let ctx = self.ngram.context(&p.history[..hist_len]);
+                let floor = column.items[0].score - opts.log_beam;
                 for &g in insertions {
+                    if p.score + bound(g) < floor {
+                        break;
+                    }
                     let lp = f64::from(self.ngram.log_prob(ctx, g));
-                    if p.score + lp < column.items[0].score - opts.log_beam {
+                    if p.score + lp < floor {
                         continue;
                     }
                     let (node, hash) = self.extend(&mut nodes, &p, g, NONE);
@@ -271,7 +277,15 @@ impl Model {
                         break;
                     }
                     for &g in self.inventory.with_letters(&letter_ids) {
+                        let floor = best_at[i + a] - opts.log_beam;
+                        if p.score + bound(g) < floor {
+                            break;
+                        }
                         let lp = f64::from(self.ngram.log_prob(ctx, g));
+                        if p.score + lp < floor {
+                            continue;
+                        }
+                        best_at[i + a] = best_at[i + a].max(p.score + lp);
                         let (node, hash) = self.extend(&mut nodes, p, g, i as u32);
                         columns[i + a].push(Partial { node, history: push_history(&p.history, order, g), score: p.score + lp, best: p.best + lp, phone_hash: hash, insertions: 0 });
                     }

@@ -251,19 +251,16 @@ mod tests {
         k
     }
 
-    /// Hand-checkable EM step. Letters {a=0, b=1}, phones {A=0, B=1}; one sample "ab" → A B;
-    /// graphones with at most one letter and one phone. Under a uniform model every
-    /// segmentation of the same length has the same probability, so the posterior of a
-    /// graphone is the (length-weighted) share of segmentations that use it.
-    /// With V = 8 graphones + end = 9 symbols, p = 1/9 each; a segmentation with k graphones
-    /// has probability (1/9)^(k+1). Segmentations of "ab"/"AB" into singular graphones:
-    /// the lattice is a 3×3 grid with steps (1,0), (0,1), (1,1). Paths with d diagonal steps
-    /// have 4-d graphones: d=2: 1 path (a:A b:B), k=2; d=1: 6 paths (k=3); d=0: 6 paths (k=4).
-    /// Z = 1·9^-3 + 6·9^-4 + 6·9^-5. The diagonal graphone a:A is used by the d=2 path, by
-    /// 1 of the d=1 paths at the start (a:A then 1 of the 3 orderings of the rest: b:ε ε:B or
-    /// ε:B b:ε, or b:B is d=2) — counting directly: paths through a:A are a:A followed by any
-    /// path from (1,1) to (2,2): b:B (k=2 total), b:ε ε:B, ε:B b:ε (k=3 total each).
-    /// So E[a:A] = (9^-3 + 2·9^-4) / Z.
+    /// Hand-checkable E-step. Letters {a=0, b=1}, phones {A=0, B=1}; one sample "ab" → A B;
+    /// all 8 graphones with at most one letter and one phone, plus the end symbol: 9 symbols,
+    /// each with probability 1/9 under the uniform model. A segmentation into k graphones then
+    /// has probability (1/9)^(k+1) (the +1 is the end symbol).
+    /// The segmentations are the monotone paths from (0,0) to (2,2) with steps (1,0) letter:ε,
+    /// (0,1) ε:phone and (1,1) letter:phone. With d diagonal steps a path has 4−d steps and
+    /// there are 1 (d=2), 3!/(1!1!1!) = 6 (d=1) and 4!/(2!2!) = 6 (d=0) paths, so
+    /// Z = 9^-3 + 6·9^-4 + 6·9^-5.
+    /// The paths through a:A are a:A followed by a path from (1,1) to (2,2): b:B (2 graphones
+    /// in all) or b:ε ε:B / ε:B b:ε (3 graphones), so E[a:A] = (9^-3 + 2·9^-4) / Z.
     #[test]
     fn uniform_posterior_of_diagonal_graphone() {
         let mut inv = Inventory::default();

@@ -244,6 +244,15 @@ impl Inventory {
         self.by_letters.get(&pack(letters, &[])).map_or(&[], Vec::as_slice)
     }
 
+    /// Orders every same-letters candidate list by descending `score` (used by the decoder
+    /// to stop early once candidates cannot survive the beam).
+    pub fn sort_candidates(&mut self, score: &[f32]) {
+        let at = |g: &u32| score.get(*g as usize).copied().unwrap_or(f32::NEG_INFINITY);
+        for list in self.by_letters.values_mut() {
+            list.sort_by(|a, b| at(b).total_cmp(&at(a)).then(a.cmp(b)));
+        }
+    }
+
     /// The graphone with id `id`.
     pub fn get(&self, id: u32) -> Option<&Graphone> {
         self.graphones.get(id as usize)

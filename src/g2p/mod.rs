@@ -21,4 +21,4 @@ pub use graphone::{strip_stress, LetterUnit, SymbolOptions, MAX_UNIT};
 pub use model::Model;
 pub use model_file::{ModelFileError, FORMAT_VERSION, MAGIC};
 pub use ngram::MAX_ORDER;
-pub use train::{train, TrainError, TrainOptions, TrainProgress};
+pub use train::{train, training_pairs, TrainError, TrainOptions, TrainProgress};

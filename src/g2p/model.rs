@@ -15,9 +15,26 @@ pub struct Model {
     pub(crate) phones: SymbolTable,
     pub(crate) inventory: Inventory,
     pub(crate) ngram: NgramModel,
+    /// Per graphone: upper bound of its log-probability in any context (see
+    /// [`NgramModel::upper_bounds`]); kept in step with `ngram` by [`Model::set_ngram`].
+    pub(crate) bounds: Vec<f32>,
 }
 
 impl Model {
+    /// Assembles a model and its decoding caches.
+    pub(crate) fn new(symbols: SymbolOptions, phoneset_id: String, letters: SymbolTable, phones: SymbolTable, inventory: Inventory, ngram: NgramModel) -> Model {
+        let mut model = Model { symbols, phoneset_id, letters, phones, inventory, ngram: NgramModel::uniform(1), bounds: Vec::new() };
+        model.set_ngram(ngram);
+        model
+    }
+
+    /// Replaces the n-gram model and refreshes the decoding caches.
+    pub(crate) fn set_ngram(&mut self, ngram: NgramModel) {
+        self.bounds = ngram.upper_bounds();
+        self.inventory.sort_candidates(&self.bounds);
+        self.ngram = ngram;
+    }
+
     /// Identifier of the phone set the pronunciations were written in (e.g. `en-arpa`).
     pub fn phoneset_id(&self) -> &str {
         &self.phoneset_id

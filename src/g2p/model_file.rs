@@ -327,5 +327,5 @@ fn decode_payload(r: &mut Reader<'_>) -> Result<Model, ModelFileError> {
     if r.pos != r.data.len() {
         return Err(invalid(r.offset(), "extra bytes after the model"));
     }
-    Ok(Model { symbols, phoneset_id, letters, phones, inventory, ngram })
+    Ok(Model::new(symbols, phoneset_id, letters, phones, inventory, ngram))
 }

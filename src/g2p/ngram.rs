@@ -155,7 +155,7 @@ fn heldout_log_likelihood(top: &Evidence, heldout: &Evidence, discounts: &[f64],
 }
 
 /// Lowest and highest discount tried when tuning.
-const DISCOUNT_RANGE: (f64, f64) = (0.02, 2.5);
+const DISCOUNT_RANGE: (f64, f64) = (0.02, 6.0);
 
 /// Tunes the discounts (one coordinate sweep, highest order first, golden-section search of
 /// `steps` evaluations each) to maximise the held-out log-likelihood; returns the tuned
@@ -389,6 +389,18 @@ impl NgramModel {
             acc += node.backoff;
             c = node.suffix as usize;
         }
+    }
+
+    /// For every symbol, an upper bound of its log-probability in any context: the larger of
+    /// its unigram value and its largest explicit value (back-off weights are ≤ 0).
+    pub fn upper_bounds(&self) -> Vec<f32> {
+        let mut bounds = self.unigram.clone();
+        for (&s, &lp) in self.symbols.iter().zip(&self.logps) {
+            if let Some(b) = bounds.get_mut(s as usize) {
+                *b = b.max(lp);
+            }
+        }
+        bounds
     }
 
     /// Model order (history length + 1).

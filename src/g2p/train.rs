@@ -58,7 +58,7 @@ impl Default for TrainOptions {
             symbols: SymbolOptions::default(),
             heldout_percent: 5,
             first_iterations: 40,
-            iterations: 3,
+            iterations: 2,
             tolerance: 1e-3,
             min_graphone_evidence: 0.5,
             beam: LatticeBeam::default(),
@@ -266,19 +266,12 @@ pub fn train(data: &[(String, Vec<String>)], opts: &TrainOptions, progress: &mut
         .num_threads(opts.threads)
         .build()
         .map_err(|e| TrainError::Threads { threads: opts.threads, reason: e.to_string() })?;
-    let mut model = Model {
-        symbols: opts.symbols,
-        phoneset_id: opts.phoneset_id.clone(),
-        letters: SymbolTable::default(),
-        phones: SymbolTable::default(),
-        inventory: Inventory::default(),
-        ngram: NgramModel::uniform(1),
-    };
+    let mut model = Model::new(opts.symbols, opts.phoneset_id.clone(), SymbolTable::default(), SymbolTable::default(), Inventory::default(), NgramModel::uniform(1));
     let (train, heldout, refs) = prepare(data, opts, &mut model)?;
     let mut all = train.clone();
     all.extend(heldout.iter().cloned());
     model.inventory = candidate_inventory(&all, opts.max_letters, opts.max_phones);
-    model.ngram = NgramModel::uniform(model.inventory.len() + 1);
+    model.set_ngram(NgramModel::uniform(model.inventory.len() + 1));
     let mut discounts = vec![0.5];
     let mut last: Option<Expectation> = None;
     for order in 1..=opts.order {
@@ -301,7 +294,7 @@ pub fn train(data: &[(String, Vec<String>)], opts: &TrainOptions, progress: &mut
             let vocab = model.inventory.len() + 1;
             let (tuned, heldout_ll) = pool.install(|| tune_discounts(&e.evidence, &h.evidence, &discounts, vocab, opts.tuning_steps));
             discounts = tuned;
-            model.ngram = pool.install(|| NgramModel::estimate(&e.evidence, &discounts, vocab));
+            model.set_ngram(pool.install(|| NgramModel::estimate(&e.evidence, &discounts, vocab)));
             let converged = previous.is_some_and(|p: f64| (e.log_likelihood - p).abs() <= opts.tolerance * p.abs());
             let done = converged || iteration == max_iter;
             let per = (done && opts.heldout_error && !refs.is_empty()).then(|| pool.install(|| heldout_per(&model, &refs)));
@@ -327,8 +320,30 @@ pub fn train(data: &[(String, Vec<String>)], opts: &TrainOptions, progress: &mut
         let h = pool.install(|| expectation(&heldout, &model.inventory, &model.ngram, opts.order, &opts.beam));
         if let Some(mut e) = last {
             super::ngram::merge_evidence(&mut e.evidence, h.evidence);
-            model.ngram = pool.install(|| NgramModel::estimate(&e.evidence, &discounts, model.inventory.len() + 1));
+            let vocab = model.inventory.len() + 1;
+            model.set_ngram(pool.install(|| NgramModel::estimate(&e.evidence, &discounts, vocab)));
         }
     }
     Ok(model)
+}
+
+/// The (word, phones) pairs of a lexicon that are fit to train or score a model: entries that
+/// are imported or accepted (machine proposals and deprecated entries are left out) and have
+/// at least one phone.
+///
+/// ```
+/// use orthoepy::lexicon::{Entry, Status};
+/// let mut proposed = Entry::new("tern", "T ER1 N");
+/// proposed.status = Status::Proposed;
+/// let pairs = orthoepy::g2p::training_pairs(&[Entry::new("pier", "P IH1 R"), proposed]);
+/// assert_eq!(pairs, vec![("pier".to_string(), vec!["P".to_string(), "IH1".into(), "R".into()])]);
+/// ```
+pub fn training_pairs(entries: &[crate::lexicon::Entry]) -> Vec<(String, Vec<String>)> {
+    use crate::lexicon::Status;
+    entries
+        .iter()
+        .filter(|e| matches!(e.status, Status::Imported | Status::Accepted))
+        .map(|e| (e.word.clone(), e.phones().map(String::from).collect::<Vec<_>>()))
+        .filter(|(_, p)| !p.is_empty())
+        .collect()
 }

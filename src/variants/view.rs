@@ -142,7 +142,7 @@ fn align(set: &Phoneset, a: &Pronunciation, b: &Pronunciation) -> Vec<(Option<us
 pub fn feature_view(set: &Phoneset, canonical: &Pronunciation, variant: &Pronunciation) -> FeatureView {
     let path = align(set, canonical, variant);
     let symbol = |p: &Pronunciation, i: Option<usize>| {
-        i.and_then(|i| p.phones.get(i)).map(|t| Pronunciation { phones: vec![t.clone()] }.render(set))
+        i.and_then(|i| p.phones.get(i)).map(|t| Pronunciation { phones: vec![*t] }.render(set))
     };
     let columns: Vec<Column> = path
         .iter()
@@ -185,7 +185,7 @@ pub fn feature_view(set: &Phoneset, canonical: &Pronunciation, variant: &Pronunc
 
 impl FeatureView {
     /// Plain text: a header of aligned phones (`A>B` changed, `+B` inserted, `-A` deleted), then
-    /// one line per feature; a changed cell reads `old>new` and its column is starred.
+    /// one line per feature; a changed cell reads `old>new*`, `+new*` (inserted) or `-old*` (deleted).
     pub fn render_text(&self) -> String {
         let header: Vec<String> = self
             .columns
@@ -201,12 +201,14 @@ impl FeatureView {
             })
             .collect();
         let cell = |row: &FeatureRow, k: usize| -> String {
-            let get = |v: &Vec<Option<String>>| v.get(k).cloned().flatten().unwrap_or_else(|| "·".into());
-            let (a, b) = (get(&row.canonical), get(&row.variant));
-            if row.changed.get(k).copied().unwrap_or(false) {
-                format!("{a}>{b}*")
-            } else {
-                a
+            let get = |v: &Vec<Option<String>>| v.get(k).cloned().flatten();
+            match (get(&row.canonical), get(&row.variant), row.changed.get(k).copied().unwrap_or(false)) {
+                (Some(a), _, false) => a,
+                (None, _, false) => "·".into(),
+                (Some(a), Some(b), true) => format!("{a}>{b}*"),
+                (None, Some(b), true) => format!("+{b}*"),
+                (Some(a), None, true) => format!("-{a}*"),
+                (None, None, true) => "·".into(),
             }
         };
         let label_width = self.rows.iter().map(|r| r.feature.chars().count()).max().unwrap_or(5).max(5);

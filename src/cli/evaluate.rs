@@ -1,0 +1,57 @@
+//! `orthoepy evaluate`: PER/WER of a model on a held-out lexicon.
+
+use super::DataFormat;
+use anyhow::Context;
+use orthoepy::eval::{evaluate_model, Evaluation};
+use orthoepy::g2p::{training_pairs, Model};
+use orthoepy::lexicon::{HeadwordPolicy, Lexicon};
+use std::path::PathBuf;
+use std::process::ExitCode;
+
+/// Score a model on a test store: word and phone error rates with and without stress, a
+/// breakdown by word length, and the most frequent phone confusions.
+///
+/// Example: orthoepy evaluate model.g2p test.csv --format json
+#[derive(Debug, clap::Args)]
+#[command(verbatim_doc_comment)]
+pub struct Args {
+    /// The model file written by `orthoepy train`.
+    model: PathBuf,
+    /// The test store (CSV), e.g. written by `orthoepy split`.
+    test: PathBuf,
+    /// Output format.
+    #[arg(long, value_enum, default_value = "text")]
+    format: DataFormat,
+    /// Worker threads (default: one per core).
+    #[arg(long, value_name = "T", default_value_t = 0)]
+    threads: usize,
+}
+
+fn print_text(e: &Evaluation) {
+    for (label, r) in [("with stress", &e.stressed), ("without stress", &e.unstressed)] {
+        println!("{label:<15} WER {:6.2}%  PER {:6.2}%  ({} words, {} reference phones)", 100.0 * r.wer, 100.0 * r.per, r.words, r.reference_phones);
+    }
+    println!("\nby word length (letters, with stress):");
+    for b in &e.by_length {
+        println!("  {:>3}{}  {:>6} words  WER {:6.2}%  PER {:6.2}%", b.letters, if b.letters >= 15 { "+" } else { " " }, b.rates.words, 100.0 * b.rates.wer, 100.0 * b.rates.per);
+    }
+    println!("\nmost frequent confusions (reference → hypothesis):");
+    for c in &e.confusions {
+        let side = |s: &Option<String>| s.clone().unwrap_or_else(|| "—".to_string());
+        println!("  {:>6}  {} → {}", c.count, side(&c.reference), side(&c.hypothesis));
+    }
+}
+
+/// Runs the command.
+pub fn run(args: Args) -> anyhow::Result<ExitCode> {
+    let model = Model::load(&args.model).context("cannot load the model")?;
+    let lexicon = Lexicon::load(&args.test, HeadwordPolicy::default()).context("cannot load the test store")?;
+    let pairs = training_pairs(lexicon.entries());
+    let pool = rayon::ThreadPoolBuilder::new().num_threads(args.threads).build().context("cannot start worker threads")?;
+    let evaluation = pool.install(|| evaluate_model(&model, &pairs));
+    match args.format {
+        DataFormat::Json => super::print_json(&evaluation)?,
+        DataFormat::Text => print_text(&evaluation),
+    }
+    Ok(ExitCode::SUCCESS)
+}

@@ -1,0 +1,93 @@
+//! `orthoepy train`: trains a joint-sequence G2P model from a lexicon and writes the model file.
+
+use super::ProjectArgs;
+use anyhow::Context;
+use orthoepy::g2p::{train, training_pairs, LetterUnit, SymbolOptions, TrainOptions};
+use std::path::PathBuf;
+use std::process::ExitCode;
+
+/// Train a grapheme-to-phoneme model (joint-sequence graphone n-gram) from imported and
+/// accepted entries of a lexicon.
+///
+/// Example: orthoepy train lexicon.csv -o model.g2p --order 8 --threads 2
+#[derive(Debug, clap::Args)]
+#[command(verbatim_doc_comment)]
+pub struct Args {
+    /// The CSV store (default: the project's lexicon).
+    lexicon: Option<PathBuf>,
+    /// Model file to write (default: the project's model).
+    #[arg(short = 'o', long, value_name = "MODEL")]
+    output: Option<PathBuf>,
+    /// N-gram order over graphones (1..=9).
+    #[arg(long, value_name = "N")]
+    order: Option<usize>,
+    /// Most letters and most phones per graphone (1..=3).
+    #[arg(long, value_name = "L")]
+    graphone_size: Option<usize>,
+    /// Worker threads (default: one per core).
+    #[arg(long, value_name = "T", default_value_t = 0)]
+    threads: usize,
+    /// Train on phones with stress marks removed.
+    #[arg(long)]
+    strip_stress: bool,
+    /// Treat extended grapheme clusters, not code points, as letters.
+    #[arg(long)]
+    grapheme_clusters: bool,
+    /// Percent of training words held out to tune discounts (0..=50).
+    #[arg(long, value_name = "P")]
+    heldout_percent: Option<u32>,
+    /// Print nothing but errors.
+    #[arg(long)]
+    quiet: bool,
+    #[command(flatten)]
+    project: ProjectArgs,
+}
+
+/// Runs the command.
+pub fn run(args: Args) -> anyhow::Result<ExitCode> {
+    let (lexicon, project) = args.project.load_lexicon(args.lexicon.as_deref())?;
+    let output = match (&args.output, project.as_ref().and_then(|p| p.model.clone())) {
+        (Some(o), _) => o.clone(),
+        (None, Some(m)) => m,
+        (None, None) => anyhow::bail!("no model file given and the project names none; pass -o MODEL"),
+    };
+    let defaults = TrainOptions::default();
+    let size = args.graphone_size.unwrap_or(defaults.max_letters);
+    let opts = TrainOptions {
+        order: args.order.unwrap_or(defaults.order),
+        max_letters: size,
+        max_phones: size,
+        threads: args.threads,
+        heldout_percent: args.heldout_percent.unwrap_or(defaults.heldout_percent),
+        symbols: SymbolOptions {
+            letter_unit: if args.grapheme_clusters { LetterUnit::GraphemeCluster } else { LetterUnit::CodePoint },
+            lowercase: lexicon.policy().fold_case || defaults.symbols.lowercase,
+            strip_stress: args.strip_stress,
+        },
+        phoneset_id: project.as_ref().map(|p| p.phoneset.clone()).unwrap_or_default(),
+        ..defaults
+    };
+    let pairs = training_pairs(lexicon.entries());
+    let bar = if args.quiet { indicatif::ProgressBar::hidden() } else { super::progress_bar(opts.order as u64, "training") };
+    let start = std::time::Instant::now();
+    let model = train(&pairs, &opts, &mut |p| {
+        bar.set_position(p.order as u64 - 1);
+        let per = p.heldout_per.map(|x| format!(", held-out PER {:.2}%", 100.0 * x)).unwrap_or_default();
+        bar.set_message(format!("order {} iteration {}: log-likelihood {:.0}{per}", p.order, p.iteration, p.log_likelihood));
+    })
+    .context("training failed")?;
+    bar.finish_and_clear();
+    model.save(&output).context("cannot write the model")?;
+    if !args.quiet {
+        eprintln!(
+            "trained on {} pronunciations in {:.0} s: order {}, {} graphones, {} n-grams → {}",
+            pairs.len(),
+            start.elapsed().as_secs_f64(),
+            model.order(),
+            model.graphone_count(),
+            model.ngram_count(),
+            output.display()
+        );
+    }
+    Ok(ExitCode::SUCCESS)
+}

@@ -1,0 +1,465 @@
+//! W3C Pronunciation Lexicon Specification (PLS) 1.0 interchange (W3C Recommendation, 14 October
+//! 2008): writing a lexicon as a PLS document and reading one back.
+//!
+//! This module owns the XML side only. A pronunciation is written either in IPA (alphabet `ipa`),
+//! with stress marks placed before the stressed syllable, or as the phoneset's own symbols under a
+//! private alphabet name `x-orthoepy-<phoneset id>` (PLS allows `x-` alphabets). Syllable onsets
+//! for the stress marks follow the maximal onset principle (D. Kahn, Syllable-based
+//! generalizations in English phonology, 1976) with the legal onsets taken from the consonant
+//! clusters that begin words in the lexicon itself. Reading accepts both alphabets, maps IPA back
+//! to phone symbols by longest match, and refuses oversized or malformed documents with the line
+//! and column of the problem. Lexemes with several graphemes give one entry per grapheme.
+
+use crate::lexicon::{normalize_key, Entry, HeadwordPolicy, Status};
+use crate::phoneset::{Phoneset, StressLevel};
+use quick_xml::events::Event;
+use std::collections::HashSet;
+
+/// The PLS namespace.
+pub const PLS_NAMESPACE: &str = "http://www.w3.org/2005/01/pronunciation-lexicon";
+
+/// The largest PLS document read (bytes).
+pub const MAX_PLS_BYTES: usize = 256 * 1024 * 1024;
+
+/// Deepest element nesting accepted (a PLS document needs three levels).
+const MAX_DEPTH: usize = 16;
+
+/// How phonemes are written.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Alphabet {
+    /// IPA, with ˈ and ˌ before stressed syllables.
+    Ipa,
+    /// The phoneset's symbols separated by spaces, alphabet `x-orthoepy-<id>`.
+    Symbols,
+}
+
+/// Errors of reading or writing PLS.
+#[derive(Debug, thiserror::Error)]
+pub enum PlsError {
+    /// The document is malformed or not PLS, at a known place.
+    #[error("{line}:{column}: {message}")]
+    Syntax {
+        /// 1-based line.
+        line: usize,
+        /// 1-based column.
+        column: usize,
+        /// What is wrong and what to do.
+        message: String,
+    },
+    /// The document is larger than [`MAX_PLS_BYTES`].
+    #[error("document of {0} bytes is over the {MAX_PLS_BYTES}-byte limit; split it")]
+    TooLarge(usize),
+    /// A pronunciation cannot be written in IPA.
+    #[error("{word}: phone {symbol:?} is not in phoneset {phoneset}; fix it (orthoepy audit) or export with symbols")]
+    UnknownPhone {
+        /// The headword.
+        word: String,
+        /// The phone token.
+        symbol: String,
+        /// The phoneset id.
+        phoneset: String,
+    },
+}
+
+/// Writes entries as a PLS document. Deprecated entries are left out; lexemes are sorted by
+/// normalised headword and keep the order of their pronunciations.
+///
+/// ```
+/// use orthoepy::lexicon::{Entry, HeadwordPolicy};
+/// use orthoepy::phoneset::Phoneset;
+/// use orthoepy::pls::{write_pls, Alphabet};
+/// let set = Phoneset::shipped("en-arpa").unwrap();
+/// let entries = [Entry::new("astray", "AH0 S T R EY1"), Entry::new("street", "S T R IY1 T")];
+/// let xml = write_pls(&entries, &HeadwordPolicy::default(), &set, Alphabet::Ipa, "en-US").unwrap();
+/// assert!(xml.contains("<grapheme>astray</grapheme><phoneme>ʌˈstɹeɪ</phoneme>"));
+/// ```
+pub fn write_pls(
+    entries: &[Entry],
+    policy: &HeadwordPolicy,
+    set: &Phoneset,
+    alphabet: Alphabet,
+    lang: &str,
+) -> Result<String, PlsError> {
+    let onsets = word_initial_onsets(entries, set);
+    let mut rows: Vec<(String, usize, &Entry)> = entries
+        .iter()
+        .enumerate()
+        .filter(|(_, e)| e.status != Status::Deprecated)
+        .map(|(i, e)| (normalize_key(e.word.trim(), policy).into_owned(), i, e))
+        .collect();
+    rows.sort_by(|a, b| (&a.0, a.1).cmp(&(&b.0, b.1)));
+    let alphabet_name = match alphabet {
+        Alphabet::Ipa => "ipa".to_string(),
+        Alphabet::Symbols => format!("x-orthoepy-{}", set.id()),
+    };
+    let mut out = String::new();
+    out.push_str("<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n");
+    out.push_str(&format!(
+        "<lexicon version=\"1.0\" xmlns=\"{PLS_NAMESPACE}\" alphabet=\"{}\" xml:lang=\"{}\">\n",
+        escape(&alphabet_name),
+        escape(lang)
+    ));
+    let mut i = 0;
+    while i < rows.len() {
+        let key = &rows[i].0;
+        out.push_str("  <lexeme><grapheme>");
+        out.push_str(&escape(rows[i].2.word.trim()));
+        out.push_str("</grapheme>");
+        let mut seen: Vec<String> = Vec::new();
+        while i < rows.len() && rows[i].0 == *key {
+            let entry = rows[i].2;
+            let phoneme = match alphabet {
+                Alphabet::Symbols => crate::lexicon::join_phones(entry.phones()),
+                Alphabet::Ipa => to_ipa(entry, set, &onsets)?,
+            };
+            if !seen.contains(&phoneme) {
+                out.push_str("<phoneme>");
+                out.push_str(&escape(&phoneme));
+                out.push_str("</phoneme>");
+                seen.push(phoneme);
+            }
+            i += 1;
+        }
+        out.push_str("</lexeme>\n");
+    }
+    out.push_str("</lexicon>\n");
+    Ok(out)
+}
+
+/// The consonant clusters that begin words in `entries` (each as phone symbols).
+fn word_initial_onsets(entries: &[Entry], set: &Phoneset) -> HashSet<Vec<String>> {
+    let mut onsets = HashSet::new();
+    for entry in entries {
+        let cluster: Vec<String> = entry
+            .phones()
+            .map(|t| set.split_stress(t).0)
+            .take_while(|base| set.lookup(base).is_some_and(|id| !set.phone(id).is_nucleus()))
+            .map(str::to_string)
+            .collect();
+        for len in 1..=cluster.len() {
+            onsets.insert(cluster[..len].to_vec());
+        }
+    }
+    onsets
+}
+
+fn to_ipa(entry: &Entry, set: &Phoneset, onsets: &HashSet<Vec<String>>) -> Result<String, PlsError> {
+    let mut phones = Vec::new();
+    for token in entry.phones() {
+        let (base, stress) = set.split_stress(token);
+        let id = set.lookup(base).ok_or_else(|| PlsError::UnknownPhone {
+            word: entry.word.clone(),
+            symbol: token.to_string(),
+            phoneset: set.id().to_string(),
+        })?;
+        phones.push((base.to_string(), set.phone(id).ipa.clone(), set.phone(id).is_nucleus(), stress.map(|s| s.level)));
+    }
+    // Where each stress mark goes: before the longest legal onset preceding the stressed nucleus.
+    let mut marks = vec![None; phones.len()];
+    let mut previous_nucleus: Option<usize> = None;
+    for v in 0..phones.len() {
+        if !phones[v].2 {
+            continue;
+        }
+        let mark = match phones[v].3 {
+            Some(StressLevel::Primary) => Some('ˈ'),
+            Some(StressLevel::Secondary) => Some('ˌ'),
+            _ => None,
+        };
+        if let Some(mark) = mark {
+            let first_consonant = previous_nucleus.map_or(0, |u| u + 1);
+            let mut start = v;
+            for s in first_consonant..v {
+                let cluster: Vec<String> = phones[s..v].iter().map(|p| p.0.clone()).collect();
+                if s == 0 || onsets.contains(&cluster) {
+                    start = s;
+                    break;
+                }
+            }
+            if start == v && v > first_consonant {
+                start = v - 1; // a single consonant is always a possible onset
+            }
+            marks[start] = Some(mark);
+        }
+        previous_nucleus = Some(v);
+    }
+    // A "." (the IPA syllable break) separates two phones wherever the reader would otherwise
+    // read them as one longer phone; such places are syllable or morpheme boundaries in practice.
+    let table = ipa_table(set);
+    let all: Vec<char> = phones.iter().flat_map(|p| p.1.chars()).collect();
+    let mut out = String::new();
+    let mut at = 0;
+    for (i, p) in phones.iter().enumerate() {
+        if let Some(mark) = marks[i] {
+            out.push(mark);
+        }
+        out.push_str(&p.1);
+        let ipa: Vec<char> = p.1.chars().collect();
+        if i + 1 < phones.len() && marks[i + 1].is_none() && would_merge(&all[at..], &ipa, &table) {
+            out.push('.');
+        }
+        at += ipa.len();
+    }
+    Ok(out)
+}
+
+/// The phones' IPA as character sequences, longest first, phonemes before allophones: the order
+/// in which the reader tries them.
+fn ipa_table(set: &Phoneset) -> Vec<(Vec<char>, usize, bool)> {
+    let mut table: Vec<(Vec<char>, usize, bool)> = set
+        .phones()
+        .iter()
+        .enumerate()
+        .map(|(i, p)| (p.ipa.chars().collect::<Vec<char>>(), i, p.is_allophone()))
+        .filter(|(ipa, _, _)| !ipa.is_empty())
+        .collect();
+    table.sort_by(|a, b| b.0.len().cmp(&a.0.len()).then(a.2.cmp(&b.2)));
+    table
+}
+
+/// True when the reader, at the start of `rest`, would take something other than `ipa` (for
+/// example ɔ followed by ɪ read as the diphthong ɔɪ, or t followed by ʃ read as the affricate).
+fn would_merge(rest: &[char], ipa: &[char], table: &[(Vec<char>, usize, bool)]) -> bool {
+    table.iter().find(|(t, _, _)| rest.starts_with(t)).is_some_and(|(t, _, _)| t.len() != ipa.len())
+}
+
+fn escape(text: &str) -> String {
+    quick_xml::escape::escape(text).into_owned()
+}
+
+/// The result of reading a PLS document.
+#[derive(Debug, Default)]
+pub struct PlsImport {
+    /// Entries, in document order, status `imported`.
+    pub entries: Vec<Entry>,
+    /// Phonemes that could not be read, as (line, message).
+    pub rejected: Vec<(usize, String)>,
+}
+
+/// Reads a PLS document into entries of `set`'s symbols. IPA phonemes are segmented by longest
+/// match over the phoneset's IPA; ˈ and ˌ give the next nucleus primary or secondary stress, and
+/// other nuclei get the unstressed mark when the phoneset declares one.
+///
+/// ```
+/// use orthoepy::phoneset::Phoneset;
+/// let set = Phoneset::shipped("en-arpa").unwrap();
+/// let xml = r#"<lexicon version="1.0" xmlns="http://www.w3.org/2005/01/pronunciation-lexicon"
+///   alphabet="ipa" xml:lang="en-US"><lexeme><grapheme>quay</grapheme><phoneme>ˈki</phoneme></lexeme></lexicon>"#;
+/// let import = orthoepy::pls::read_pls(xml.as_bytes(), &set, "pls").unwrap();
+/// assert_eq!(import.entries[0].pronunciation, "K IY1");
+/// ```
+pub fn read_pls(bytes: &[u8], set: &Phoneset, source: &str) -> Result<PlsImport, PlsError> {
+    if bytes.len() > MAX_PLS_BYTES {
+        return Err(PlsError::TooLarge(bytes.len()));
+    }
+    let mut reader = quick_xml::Reader::from_reader(bytes);
+    reader.config_mut().trim_text(true);
+    let at = |offset: usize, message: String| {
+        let before = &bytes[..offset.min(bytes.len())];
+        let line = before.iter().filter(|&&b| b == b'\n').count() + 1;
+        let start = before.iter().rposition(|&b| b == b'\n').map_or(0, |i| i + 1);
+        let column = String::from_utf8_lossy(&before[start..]).chars().count() + 1;
+        PlsError::Syntax { line, column, message }
+    };
+    let mut import = PlsImport::default();
+    let mut alphabet: Option<Alphabet> = None;
+    let mut stack: Vec<String> = Vec::new();
+    let (mut graphemes, mut phonemes): (Vec<String>, Vec<(String, usize)>) = (Vec::new(), Vec::new());
+    let mut buf = Vec::new();
+    // Line numbers are counted incrementally: (offset, line) of the last position asked for.
+    let mut counted = (0usize, 1usize);
+    let mut line_at = |offset: usize| {
+        let offset = offset.min(bytes.len()).max(counted.0);
+        counted.1 += bytes[counted.0..offset].iter().filter(|&&b| b == b'\n').count();
+        counted.0 = offset;
+        counted.1
+    };
+    loop {
+        let offset = reader.buffer_position() as usize;
+        let event = reader.read_event_into(&mut buf).map_err(|e| at(offset, format!("malformed XML: {e}")))?;
+        match event {
+            Event::Start(e) => {
+                let name = String::from_utf8_lossy(e.local_name().as_ref()).into_owned();
+                if stack.len() >= MAX_DEPTH {
+                    return Err(at(offset, "elements nested too deeply for a PLS document".into()));
+                }
+                if name == "lexicon" && stack.is_empty() {
+                    alphabet = Some(read_alphabet(&e, set).map_err(|m| at(offset, m))?);
+                } else if stack.is_empty() {
+                    return Err(at(offset, format!("root element is <{name}>; a PLS document starts with <lexicon>")));
+                }
+                if name == "lexeme" {
+                    graphemes.clear();
+                    phonemes.clear();
+                }
+                stack.push(name);
+            }
+            Event::Text(t) => {
+                let text = t.unescape().map_err(|e| at(offset, format!("bad text: {e}")))?.into_owned();
+                let line = line_at(offset);
+                match stack.last().map(String::as_str) {
+                    Some("grapheme") => graphemes.push(text),
+                    Some("phoneme") => phonemes.push((text, line)),
+                    _ => {}
+                }
+            }
+            Event::End(_) => {
+                if stack.pop().as_deref() == Some("lexeme") {
+                    let alphabet = alphabet.unwrap_or(Alphabet::Ipa);
+                    for (phoneme, line) in &phonemes {
+                        match read_phoneme(phoneme, alphabet, set) {
+                            Ok(pron) => {
+                                for g in &graphemes {
+                                    let mut entry = Entry::new(g.trim(), &pron);
+                                    entry.status = Status::Imported;
+                                    entry.source = source.to_string();
+                                    entry.line = *line;
+                                    import.entries.push(entry);
+                                }
+                            }
+                            Err(message) => import.rejected.push((*line, message)),
+                        }
+                    }
+                }
+            }
+            Event::Eof => break,
+            _ => {}
+        }
+        buf.clear();
+    }
+    if alphabet.is_none() {
+        return Err(at(0, "no <lexicon> element; this is not a PLS document".into()));
+    }
+    Ok(import)
+}
+
+fn read_alphabet(e: &quick_xml::events::BytesStart, set: &Phoneset) -> Result<Alphabet, String> {
+    let own = format!("x-orthoepy-{}", set.id());
+    for attr in e.attributes().flatten() {
+        if attr.key.local_name().as_ref() == b"alphabet" {
+            let value = String::from_utf8_lossy(&attr.value).into_owned();
+            return match value.as_str() {
+                "ipa" => Ok(Alphabet::Ipa),
+                v if v == own => Ok(Alphabet::Symbols),
+                other => Err(format!("alphabet {other:?} is not readable here; use \"ipa\" or {own:?}")),
+            };
+        }
+    }
+    Err("<lexicon> has no alphabet attribute (PLS requires one)".into())
+}
+
+fn read_phoneme(text: &str, alphabet: Alphabet, set: &Phoneset) -> Result<String, String> {
+    let symbols = match alphabet {
+        Alphabet::Symbols => text.split_whitespace().map(str::to_string).collect::<Vec<_>>().join(" "),
+        Alphabet::Ipa => segment_ipa(text, set)?,
+    };
+    set.parse(&symbols).map(|p| p.render(set)).map_err(|e| format!("{text:?}: {e}"))
+}
+
+/// Segments IPA into phone symbols by longest match over the phoneset's phonemes (allophones are
+/// tried after phonemes of the same length).
+fn segment_ipa(text: &str, set: &Phoneset) -> Result<String, String> {
+    let chars: Vec<char> = text.chars().collect();
+    let is_boundary = |c: char| c.is_whitespace() || c == '.';
+    let table = ipa_table(set);
+    let unstressed = set.mark_for(StressLevel::Unstressed).map(str::to_string);
+    let mut out: Vec<String> = Vec::new();
+    let mut pending: Option<StressLevel> = None;
+    let mut i = 0;
+    while i < chars.len() {
+        match chars[i] {
+            'ˈ' | '\'' => pending = Some(StressLevel::Primary),
+            'ˌ' => pending = Some(StressLevel::Secondary),
+            c if is_boundary(c) => {}
+            _ => {
+                // A phone never spans a syllable break or a space.
+                let end = chars[i..].iter().position(|&c| is_boundary(c)).map_or(chars.len(), |n| i + n);
+                let Some((ipa, id, _)) = table.iter().find(|(ipa, _, _)| chars[i..end].starts_with(ipa)) else {
+                    return Err(format!("IPA {:?} at character {} matches no phone of {}", chars[i], i + 1, set.id()));
+                };
+                let phone = set.phone(*id as crate::phoneset::PhoneId);
+                let mut symbol = phone.symbol.clone();
+                if phone.is_nucleus() {
+                    let level = pending.take();
+                    let mark = match level {
+                        Some(l) => set.mark_for(l).map(str::to_string),
+                        None => unstressed.clone(),
+                    };
+                    symbol.push_str(mark.as_deref().unwrap_or(""));
+                }
+                out.push(symbol);
+                i += ipa.len();
+                continue;
+            }
+        }
+        i += 1;
+    }
+    Ok(out.join(" "))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn arpa() -> Phoneset {
+        Phoneset::shipped("en-arpa").unwrap()
+    }
+
+    #[test]
+    fn stress_goes_before_the_maximal_legal_onset() {
+        let set = arpa();
+        // "street" supplies the word-initial onset S T R, so "astray" is a.ˈstray (Kahn 1976).
+        let entries = [Entry::new("street", "S T R IY1 T"), Entry::new("astray", "AH0 S T R EY1"), Entry::new("atlas", "AE1 T L AH0 S")];
+        let onsets = word_initial_onsets(&entries, &set);
+        assert_eq!(to_ipa(&entries[1], &set, &onsets).unwrap(), "ʌˈstɹeɪ");
+        // No English word starts with T L, so the mark in "atlas" stays at the word start.
+        assert_eq!(to_ipa(&entries[2], &set, &onsets).unwrap(), "ˈætlʌs");
+    }
+
+    #[test]
+    fn round_trip_through_ipa_and_symbols() {
+        let set = arpa();
+        let entries = vec![
+            Entry::new("drawing", "D R AO1 IH0 NG"),
+            Entry::new("courtship", "K AO1 R T SH IH2 P"),
+            Entry::new("ferry", "F EH1 R IY0"),
+            Entry::new("harbour", "HH AA1 R B ER0"),
+            Entry::new("timetable", "T AY1 M T EY2 B AH0 L"),
+        ];
+        for alphabet in [Alphabet::Ipa, Alphabet::Symbols] {
+            let xml = write_pls(&entries, &HeadwordPolicy::default(), &set, alphabet, "en-GB").unwrap();
+            let back = read_pls(xml.as_bytes(), &set, "pls").unwrap();
+            assert!(back.rejected.is_empty(), "{:?}", back.rejected);
+            let mut got: Vec<(String, String)> = back.entries.into_iter().map(|e| (e.word, e.pronunciation)).collect();
+            got.sort();
+            let mut want: Vec<(String, String)> = entries.iter().map(|e| (e.word.clone(), e.pronunciation.clone())).collect();
+            want.sort();
+            assert_eq!(got, want, "{alphabet:?}");
+        }
+    }
+
+    #[test]
+    fn malformed_documents_are_located() {
+        let set = arpa();
+        let bad = "<lexicon version=\"1.0\" alphabet=\"ipa\">\n  <lexeme><grapheme>a</grapheme></lexem>\n</lexicon>";
+        match read_pls(bad.as_bytes(), &set, "t") {
+            Err(PlsError::Syntax { line, .. }) => assert_eq!(line, 2),
+            other => panic!("{other:?}"),
+        }
+        assert!(matches!(read_pls(b"<words/>", &set, "t"), Err(PlsError::Syntax { .. })));
+        let deep = format!("<lexicon alphabet=\"ipa\">{}", "<a>".repeat(100));
+        assert!(matches!(read_pls(deep.as_bytes(), &set, "t"), Err(PlsError::Syntax { .. })));
+        let foreign = "<lexicon version=\"1.0\" alphabet=\"x-other\"></lexicon>";
+        assert!(matches!(read_pls(foreign.as_bytes(), &set, "t"), Err(PlsError::Syntax { .. })));
+    }
+
+    #[test]
+    fn unreadable_phonemes_are_reported_not_fatal() {
+        let set = arpa();
+        let xml = "<lexicon version=\"1.0\" alphabet=\"ipa\">\n<lexeme><grapheme>x</grapheme><phoneme>ʘ</phoneme></lexeme>\n</lexicon>";
+        let import = read_pls(xml.as_bytes(), &set, "t").unwrap();
+        assert!(import.entries.is_empty());
+        assert_eq!(import.rejected.len(), 1);
+        assert_eq!(import.rejected[0].0, 2);
+    }
+}

