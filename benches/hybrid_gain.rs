@@ -139,8 +139,11 @@ fn main() {
         cold.push(scored(top(&fallback.guess(word, 5))));
     }
     let secs = start.elapsed().as_secs_f64();
+    let rules_start = Instant::now();
+    let transcribed = test.iter().filter(|(w, _)| rules.transcribe(w).is_ok()).count();
+    println!("letter-to-sound rules alone: {:.0} words/s ({transcribed} words, one thread)", test.len() as f64 / rules_start.elapsed().as_secs_f64());
     let pick = |all: &[Scored]| all.iter().zip(&subset).filter(|(_, &s)| s).map(|(x, _)| x.clone()).collect::<Vec<_>>();
-    println!("test words: {} ({} derived forms or compounds of training words); decoding {:.0} words/s", test.len(), subset.iter().filter(|&&s| s).count(), test.len() as f64 / secs);
+    println!("test words: {} ({} derived forms or compounds of training words); all four guessers {:.0} words/s", test.len(), subset.iter().filter(|&&s| s).count(), test.len() as f64 / secs);
     for (title, filter) in [("all test words", false), ("derived/compound subset", true)] {
         println!("{title} (stress kept | stress stripped):");
         for (label, list) in [("model alone", &alone), ("hybrid + model", &mixed), ("letter-to-sound rules alone", &ruled), ("hybrid + rules (no model)", &cold)] {

@@ -25,6 +25,24 @@ fn pronunciations(lexicon: &Lexicon) -> HashMap<String, Vec<String>> {
     map
 }
 
+/// CMUdict loaded once per test with everything a guesser needs.
+struct Fixture {
+    en: Phoneset,
+    config: LanguageConfig,
+    lexicon: Lexicon,
+    prons: HashMap<String, Vec<String>>,
+}
+
+impl Fixture {
+    fn new() -> Fixture {
+        let en = Phoneset::shipped("en-arpa").unwrap();
+        let config = LanguageConfig::shipped("en", &en).unwrap();
+        let lexicon = cmudict();
+        let prons = pronunciations(&lexicon);
+        Fixture { en, config, lexicon, prons }
+    }
+}
+
 fn from(candidates: &[Candidate], pick: impl Fn(&Source) -> bool) -> Option<String> {
     candidates.iter().find(|c| c.sources.iter().any(&pick)).map(|c| c.pronunciation.clone())
 }
@@ -37,12 +55,9 @@ fn from(candidates: &[Candidate], pick: impl Fn(&Source) -> bool) -> Option<Stri
 /// (common practice). CMUdict writes the reduced vowel as IH0 or AH0; both count as /ɪ~ə/.
 #[test]
 fn allomorphs_follow_the_textbook_rule_on_cmudict_pairs() {
-    let en = Phoneset::shipped("en-arpa").unwrap();
-    let config = LanguageConfig::shipped("en", &en).unwrap();
-    let lexicon = cmudict();
+    let Fixture { en, config, lexicon, prons } = Fixture::new();
     let index = lexicon.index();
     let guesser = Guesser::new(&lexicon, &index, &en, &config);
-    let prons = pronunciations(&lexicon);
     for (ending, suffix) in [("s", "plural"), ("ed", "past")] {
         let mut pairs = 0;
         let mut right = 0;
@@ -83,12 +98,9 @@ fn allomorphs_follow_the_textbook_rule_on_cmudict_pairs() {
 /// & Halle 1968, common practice) — is compared with the word's CMUdict pronunciations.
 #[test]
 fn compound_splitting_on_cmudict_closed_compounds() {
-    let en = Phoneset::shipped("en-arpa").unwrap();
-    let config = LanguageConfig::shipped("en", &en).unwrap();
-    let lexicon = cmudict();
+    let Fixture { en, config, lexicon, prons } = Fixture::new();
     let index = lexicon.index();
     let guesser = Guesser::new(&lexicon, &index, &en, &config);
-    let prons = pronunciations(&lexicon);
     let mut words: Vec<&String> = prons.keys().filter(|w| w.len() >= 7 && w.chars().all(|c| c.is_ascii_lowercase())).collect();
     words.sort();
     let (mut total, mut right, mut unstressed_right) = (0usize, 0usize, 0usize);
@@ -102,7 +114,7 @@ fn compound_splitting_on_cmudict_closed_compounds() {
         let candidates = guesser.guess(word, 10);
         let Some(got) = from(&candidates, |s| matches!(s, Source::Compound { .. })) else { continue };
         let expected = &prons[word.as_str()];
-        if expected.iter().any(|e| *e == got) {
+        if expected.contains(&got) {
             right += 1;
         }
         if expected.iter().any(|e| strip(e) == strip(&got)) {

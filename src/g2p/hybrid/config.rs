@@ -13,9 +13,6 @@ use toml::Spanned;
 
 use crate::phoneset::{Phoneset, Pronunciation};
 
-/// Ids of the shipped language configurations.
-pub const SHIPPED_LANGUAGES: &[&str] = &["en", "es"];
-
 fn shipped_text(id: &str) -> Option<&'static str> {
     match id {
         "en" => Some(include_str!("../../../rules/lang/en.toml")),

@@ -20,7 +20,7 @@ mod compound;
 mod config;
 mod derivation;
 
-pub use config::{Allomorph, CompoundLimits, ConfigError, LanguageConfig, Scores, Suffix, SHIPPED_LANGUAGES};
+pub use config::{Allomorph, CompoundLimits, ConfigError, LanguageConfig, Scores, Suffix};
 
 use crate::g2p::lts::RuleSet;
 use crate::lexicon::{Lexicon, LexiconIndex};

@@ -145,6 +145,24 @@ impl RuleSet {
         RuleSet::parse(text, &format!("shipped:{id}"), phoneset)
     }
 
+    /// A shipped rule set when `spec` is a shipped id (`en`, `es`), else the rule file at that path
+    /// (as a project's `letter_to_sound` names it).
+    pub fn resolve(spec: &str, phoneset: &Phoneset) -> Result<RuleSet, LtsError> {
+        match shipped_text(spec) {
+            Some(_) => RuleSet::shipped(spec, phoneset),
+            None => RuleSet::load(Path::new(spec), phoneset),
+        }
+    }
+
+    /// The id of the shipped rule set written for a phoneset (`en-arpa` → `en`).
+    ///
+    /// ```
+    /// assert_eq!(orthoepy::g2p::lts::RuleSet::shipped_for_phoneset("es-ipa"), Some("es"));
+    /// ```
+    pub fn shipped_for_phoneset(phoneset_id: &str) -> Option<&'static str> {
+        SHIPPED.iter().find(|(_, p)| *p == phoneset_id).map(|(id, _)| *id)
+    }
+
     /// Loads a rule file from disk.
     pub fn load(path: &Path, phoneset: &Phoneset) -> Result<RuleSet, LtsError> {
         let text = std::fs::read_to_string(path)
