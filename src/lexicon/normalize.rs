@@ -49,13 +49,26 @@ pub enum HeadwordError {
 /// assert!(normalize_headword(" pier", &fold).is_err());
 /// ```
 pub fn normalize_headword(word: &str, policy: &HeadwordPolicy) -> Result<String, HeadwordError> {
+    check_headword(word)?;
+    Ok(normalize_key(word, policy).into_owned())
+}
+
+/// The checks of [`normalize_headword`] without computing the key: not empty, no surrounding
+/// whitespace.
+///
+/// ```
+/// use orthoepy::lexicon::{check_headword, HeadwordError};
+/// assert!(check_headword("quay").is_ok());
+/// assert_eq!(check_headword(""), Err(HeadwordError::Empty));
+/// ```
+pub fn check_headword(word: &str) -> Result<(), HeadwordError> {
     if word.is_empty() {
         return Err(HeadwordError::Empty);
     }
     if word.trim() != word {
         return Err(HeadwordError::SurroundingWhitespace(word.to_string()));
     }
-    Ok(normalize_key(word, policy).into_owned())
+    Ok(())
 }
 
 /// The key without the whitespace checks, for callers that already validated the headword or that

@@ -9,7 +9,7 @@
 //! writes nothing. The module must not interpret phone symbols: that is the phoneset's job.
 
 use super::entry::{Entry, Status};
-use super::normalize::{normalize_headword, normalize_key, HeadwordError, HeadwordPolicy};
+use super::normalize::{check_headword, normalize_key, HeadwordError, HeadwordPolicy};
 use crate::safe_io::{self, Fingerprint};
 use rayon::prelude::*;
 use std::fmt;
@@ -187,7 +187,7 @@ impl Lexicon {
         let body_start = reader.position().byte() as usize;
         let body = text.get(body_start..).unwrap_or("");
         let first_line = text[..body_start.min(text.len())].matches('\n').count() + 1;
-        let rows = RowParser { text, path, policy, mode, layout: &layout, fields: header.len() };
+        let rows = RowParser { text, path, mode, layout: &layout, fields: header.len() };
         // Large stores are cut at record boundaries and parsed on all cores; the first error in
         // file order is the one reported.
         let chunks = split_records(body, first_line, PARALLEL_CHUNK_BYTES);
@@ -341,7 +341,6 @@ fn split_records(body: &str, first_line: usize, chunk: usize) -> Vec<(&str, usiz
 struct RowParser<'a> {
     text: &'a str,
     path: &'a Path,
-    policy: HeadwordPolicy,
     mode: LoadMode,
     layout: &'a ColumnLayout,
     fields: usize,
@@ -374,7 +373,7 @@ impl RowParser<'_> {
             let field = |i: usize| record.get(i).unwrap_or("");
             let word = field(layout.word);
             let headword_check = match self.mode {
-                LoadMode::Strict => normalize_headword(word, &self.policy).map(drop),
+                LoadMode::Strict => check_headword(word),
                 LoadMode::Repair if word.is_empty() => Err(HeadwordError::Empty),
                 LoadMode::Repair => Ok(()),
             };
