@@ -29,9 +29,9 @@ impl From<FailOn> for Severity {
     }
 }
 
-/// Check a lexicon for unknown phones, broken stress, duplicates, bad headwords and entries that
-/// look wrong. Exit 0 when clean, 1 when findings at or above --fail-on exist, 2 when the audit
-/// could not run.
+/// Check a lexicon for invalid phones, broken stress, duplicates and suspicious entries.
+///
+/// Exit 0 when clean, 1 when findings at or above --fail-on exist, 2 when the audit could not run.
 ///
 /// --fix makes only safe repairs (Unicode NFC, trimming, single spaces, dropping invisible
 /// characters and exact duplicate rows), prints each change, saves atomically keeping a .bak,

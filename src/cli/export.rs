@@ -25,8 +25,9 @@ pub enum PlsAlphabet {
     Symbols,
 }
 
-/// Write the build lexicon: one line per pronunciation, sorted by headword then variant order,
-/// deprecated entries left out; optionally the phone inventory it uses.
+/// Write the deterministic build lexicon (plain or W3C PLS) and its phone list.
+///
+/// One line per pronunciation, sorted by headword then variant order, deprecated entries left out.
 ///
 /// Examples:
 ///   orthoepy export lexicon.csv --format plain -o build/lexicon.txt --phones build/phones.txt

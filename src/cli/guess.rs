@@ -23,8 +23,10 @@ pub enum GuessFormat {
     Json,
 }
 
-/// Guess pronunciations. Words come from the command line, or one a line from standard input
-/// when none are given or the only word is `-`.
+/// Guess pronunciations for new words (model N-best, letter-to-sound rules, or the hybrid).
+///
+/// Words come from the command line, or one a line from standard input when none are given or
+/// the only word is `-`.
 ///
 /// With MODEL only: the model's N-best list. With `--rules LANG`: a shipped letter-to-sound rule
 /// set alone (`en`, `es`; no model argument). Inside a project whose orthoepy.toml names a

@@ -7,9 +7,10 @@ use orthoepy::lexicon::Lexicon;
 use std::path::PathBuf;
 use std::process::ExitCode;
 
-/// Split a lexicon into train and test stores by word (all variants of a word on one side),
-/// by the FNV-1a hash of the NFC lower-case word: a word is a test word when hash mod 100 is
-/// below the test percentage.
+/// Split a lexicon into train and test stores by word, deterministically.
+///
+/// All variants of a word go to one side, chosen by the FNV-1a hash of the NFC lower-case word:
+/// a word is a test word when hash mod 100 is below the test percentage.
 ///
 /// Example: orthoepy split lexicon.csv --test-percent 10 --train train.csv --test test.csv
 #[derive(Debug, clap::Args)]
