@@ -84,11 +84,16 @@ fn help_overlay_lists_every_key() {
 }
 
 #[test]
-fn readme_keys_section_matches_the_help() {
-    let readme = include_str!("../demo-lexicon/README.md");
-    let section = readme.split("## KEYS").nth(1).unwrap();
-    for (keys, what) in KEYS {
-        assert!(section.contains(&format!("| {keys} | {what} |")), "README lacks row for {keys:?}");
+fn readme_keys_sections_match_the_help() {
+    let readmes = [
+        ("demo-lexicon/README.md", include_str!("../demo-lexicon/README.md"), "## KEYS"),
+        ("README.md", include_str!("../README.md"), "## Review screen keys"),
+    ];
+    for (name, readme, heading) in readmes {
+        let section = readme.split(heading).nth(1).unwrap_or_else(|| panic!("{name} has no {heading:?} section"));
+        for (keys, what) in KEYS {
+            assert!(section.contains(&format!("| {keys} | {what} |")), "{name} lacks row for {keys:?}");
+        }
     }
 }
 
