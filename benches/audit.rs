@@ -51,20 +51,6 @@ fn main() {
     let once = Command::new(&args[0]).arg("--once").arg(&store).output().expect("re-run self");
     let once = String::from_utf8_lossy(&once.stdout).trim().to_string();
     println!("rust load+audit: median_ms={full:.1} ({once})");
-    let python = Command::new("python3")
-        .arg(concat!(env!("CARGO_MANIFEST_DIR"), "/benches/audit_baseline.py"))
-        .arg(&store)
-        .arg(concat!(env!("CARGO_MANIFEST_DIR"), "/phonesets/en-arpa.toml"))
-        .arg("3")
-        .output();
-    match python {
-        Ok(out) if out.status.success() => {
-            let text = String::from_utf8_lossy(&out.stdout).trim().to_string();
-            let py_ms: f64 = text.rsplit("median_ms=").next().and_then(|v| v.parse().ok()).unwrap_or(f64::NAN);
-            println!("{text}");
-            println!("ratio python/rust = {:.1}x", py_ms / full);
-        }
-        Ok(out) => println!("python baseline failed: {}", String::from_utf8_lossy(&out.stderr)),
-        Err(_) => println!("python3 not available: baseline skipped"),
-    }
+    let phoneset_file = Path::new(env!("CARGO_MANIFEST_DIR")).join("phonesets/en-arpa.toml");
+    bench_util::compare_with_python("audit_baseline.py", &[store.as_os_str(), phoneset_file.as_os_str(), "3".as_ref()], full);
 }

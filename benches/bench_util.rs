@@ -42,3 +42,22 @@ pub fn cmudict_store(dir: &Path) -> PathBuf {
     lexicon.save_as(&path).expect("write the store");
     path
 }
+
+/// Runs a Python baseline script (`benches/NAME` with `args`), prints its report line, and prints
+/// the ratio of its `median_ms=` figure to `rust_ms`.
+pub fn compare_with_python(script: &str, args: &[&std::ffi::OsStr], rust_ms: f64) {
+    let output = std::process::Command::new("python3")
+        .arg(Path::new(env!("CARGO_MANIFEST_DIR")).join("benches").join(script))
+        .args(args)
+        .output();
+    match output {
+        Ok(out) if out.status.success() => {
+            let text = String::from_utf8_lossy(&out.stdout).trim().to_string();
+            let py_ms: f64 = text.rsplit("median_ms=").next().and_then(|v| v.parse().ok()).unwrap_or(f64::NAN);
+            println!("{text}");
+            println!("ratio python/rust = {:.1}x", py_ms / rust_ms);
+        }
+        Ok(out) => println!("python baseline failed: {}", String::from_utf8_lossy(&out.stderr)),
+        Err(_) => println!("python3 not available: baseline skipped"),
+    }
+}

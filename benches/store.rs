@@ -39,18 +39,5 @@ fn main() {
     let once = Command::new(&args[0]).arg("--once").arg(&store).output().expect("re-run self");
     let once = String::from_utf8_lossy(&once.stdout).trim().to_string();
     println!("rust open+index: median_ms={median:.1} ({once})");
-    let python = Command::new("python3")
-        .arg(concat!(env!("CARGO_MANIFEST_DIR"), "/benches/store_baseline.py"))
-        .arg(&store)
-        .arg("5")
-        .output();
-    match python {
-        Ok(out) if out.status.success() => {
-            let text = String::from_utf8_lossy(&out.stdout).trim().to_string();
-            let py_ms: f64 = text.rsplit("median_ms=").next().and_then(|v| v.parse().ok()).unwrap_or(f64::NAN);
-            println!("{text}");
-            println!("ratio python/rust = {:.1}x", py_ms / median);
-        }
-        _ => println!("python3 not available: baseline skipped"),
-    }
+    bench_util::compare_with_python("store_baseline.py", &[store.as_os_str(), "5".as_ref()], median);
 }
