@@ -39,7 +39,8 @@ fn default_dir() -> PathBuf {
     std::env::temp_dir().join(format!("orthoepy-demo-{stamp}-{}", std::process::id()))
 }
 
-/// Write the demo files into `dir` and fill its queue; returns the project.
+/// Write the demo files into `dir` and fill its queue (new words, most frequent first, then the
+/// variants of the project's accent profiles); returns the project.
 pub fn make_demo(dir: &Path) -> anyhow::Result<Project> {
     anyhow::ensure!(
         !dir.join("orthoepy.toml").exists(),
@@ -57,6 +58,10 @@ pub fn make_demo(dir: &Path) -> anyhow::Result<Project> {
     let words = dir.join("new-words.txt");
     let corpus = dir.join("passenger-queries.txt");
     let mut items = super::queue::intake(&lexicon, Some(&words), Some((&corpus, TokenRule::default(), 1)))?;
+    // Then the variants the operator's speakers use: the project's accent profiles.
+    for profile in &project.profiles {
+        items.extend(super::queue::variant_items(&project, &lexicon, profile)?);
+    }
     super::queue::guess_missing(&mut items, &super::queue::ProjectGuesser::open(&project, lexicon)?);
     super::queue::add_to_queue(&project, items)?;
     Ok(project)
