@@ -6,12 +6,13 @@
 //!
 //! Run: `cargo bench --bench g2p_cmudict`. Environment overrides (for exploring settings):
 //! `G2P_ORDER`, `G2P_L` (graphone size), `G2P_WORDS` (use only the first N entries),
-//! `G2P_STRIP` (1 = train and score without stress), `G2P_THREADS`.
+//! `G2P_STRIP` (1 = train and score without stress), `G2P_THREADS`, `G2P_ITERATIONS` (EM
+//! iterations per order above 1), `G2P_LATTICE_STATES` (training lattice states per position).
 
 use std::time::Instant;
 
 use orthoepy::eval::{evaluate_model, split_by_word};
-use orthoepy::g2p::{train, training_pairs, Model, SymbolOptions, TrainOptions};
+use orthoepy::g2p::{train, training_pairs, LatticeBeam, Model, SymbolOptions, TrainOptions};
 use orthoepy::lexicon::plain::read_plain;
 
 fn env(name: &str) -> Option<usize> {
@@ -38,6 +39,8 @@ fn main() {
         max_letters: l,
         max_phones: l,
         threads: env("G2P_THREADS").unwrap_or(0),
+        iterations: env("G2P_ITERATIONS").unwrap_or(defaults.iterations),
+        beam: LatticeBeam { max_states: env("G2P_LATTICE_STATES").unwrap_or(defaults.beam.max_states), ..defaults.beam },
         symbols: SymbolOptions { strip_stress: strip, ..SymbolOptions::default() },
         phoneset_id: "en-arpa".into(),
         ..defaults

@@ -12,8 +12,17 @@
 //!
 //! where `h'` drops the oldest graphone. The lower-order evidence is the mass the discount moved
 //! down: `c(h',q) = Σ_x min(c(x h',q), D)`, which for integer counts and `D ≤ 1` is proportional
-//! to the Kneser–Ney continuation count. N-grams whose dropped symbol is the start padding keep
-//! their full evidence (as in Kneser–Ney for sentence starts). The order-1 distribution is
+//! to the Kneser–Ney continuation count.
+//!
+//! Word starts: histories are padded with `order-1` start symbols, so an n-gram near the start
+//! of a word such as `(S, S, S, a, b)` is the same event as `(S, a, b)`. Such padded n-grams
+//! (two leading start symbols) are not estimated at their own order — they hand their full
+//! evidence down and form no history there — so each word-start event is smoothed once, at
+//! the shortest order holding it, like the `<s>` n-grams of Kneser–Ney, which have no
+//! continuation counts. (Counting them at every order discounts the same evidence again at
+//! each level, and the tuned discounts of high orders then run to the top of their range.)
+//! An n-gram `(S, a, b)` does pass only its discounted mass to `(a, b)`, since `a` also occurs
+//! after other graphones. The order-1 distribution is
 //! interpolated with the uniform distribution over the vocabulary, so every symbol has
 //! non-zero probability and each conditional distribution sums to one.
 
@@ -86,6 +95,13 @@ fn history_of(key: &Key, len: usize) -> History {
     h
 }
 
+/// Whether an n-gram starts with two start paddings: it is then the same event as the
+/// n-gram one shorter (the padding only fills the history), so it is estimated once, at the
+/// shortest order that holds it (see the module docs).
+fn padded(key: &Key) -> bool {
+    key[0] == START && key[1] == START
+}
+
 /// Per-history totals of one order: `(T(h), Σ_q min(c(h,q), D))`.
 type Totals = FastMap<History, (f64, f64)>;
 
@@ -106,7 +122,7 @@ impl Levels {
             let mut lower = Evidence::default();
             let source = if k == order { top } else { &counts[k - 1] };
             for (key, &c) in source {
-                let moved = if key[0] == START { c } else { c.min(d) };
+                let moved = if padded(key) { c } else { c.min(d) };
                 *lower.entry(drop_oldest(key)).or_insert(0.0) += moved;
             }
             counts[k - 2] = lower;
@@ -117,6 +133,9 @@ impl Levels {
             let source = if k == order { top } else { &counts[k - 1] };
             let mut t = Totals::default();
             for (key, &c) in source {
+                if padded(key) {
+                    continue;
+                }
                 let e = t.entry(history_of(key, k - 1)).or_insert((0.0, 0.0));
                 e.0 += c;
                 e.1 += c.min(d);
@@ -277,7 +296,7 @@ impl NgramModel {
             let d = discounts[k - 1];
             let source = if k == order { top } else { &levels.counts[k - 1] };
             for (key, &c) in source {
-                if c <= d {
+                if c <= d || padded(key) {
                     continue;
                 }
                 let lp = levels.prob(top, discounts, vocab, key, k).max(1e-300).ln() as f32;
@@ -480,6 +499,58 @@ mod tests {
             let total: f64 = (0..3).map(|q| f64::from(m.log_prob(ctx, q)).exp()).sum();
             assert!((total - 1.0).abs() < 1e-5, "history ({a},{b}): sum {total}");
         }
+    }
+
+    /// Order-5 evidence as the E-step makes it: each "word" (a symbol sequence ending in the
+    /// end symbol 3) contributes its padded n-grams with a fractional weight (hand-made).
+    fn padded_evidence(order: usize) -> Evidence {
+        let words: [(&[u32], f64); 5] = [(&[0, 1, 2, 3], 0.7), (&[0, 1, 2, 3], 0.3), (&[1, 1, 0, 2, 3], 1.0), (&[2, 0, 3], 0.45), (&[0, 2, 1, 1, 2, 0, 3], 2.2)];
+        let mut e = Evidence::default();
+        for (word, weight) in words {
+            let mut h = start_history(order);
+            for &q in word {
+                *e.entry(key_of(&h, order, q)).or_insert(0.0) += weight;
+                h = push_history(&h, order, q);
+            }
+        }
+        e
+    }
+
+    #[test]
+    fn high_order_fractional_distributions_sum_to_one() {
+        // Every conditional distribution of an interpolated model sums to 1 over the
+        // vocabulary (Kneser & Ney 1995), here at order 5 with fractional evidence, padded word
+        // starts and discounts above 1; and the back-off form returns the interpolated value.
+        let order = 5;
+        let e = padded_evidence(order);
+        for discounts in [[0.3, 0.5, 0.7, 0.8, 0.9], [0.1, 1.5, 0.2, 2.5, 0.6]] {
+            let m = NgramModel::estimate(&e, &discounts, 4);
+            let levels = Levels::derive(&e, &discounts);
+            let mut histories: Vec<History> = e.keys().map(|k| history_of(k, order - 1)).collect();
+            histories.push(history_of(&[2, 2, 2, 2, 0, NONE, NONE, NONE, NONE], order - 1));
+            for h in histories {
+                let ctx = m.context(&h[..order - 1]);
+                let total: f64 = (0..4).map(|q| f64::from(m.log_prob(ctx, q)).exp()).sum();
+                assert!((total - 1.0).abs() < 1e-5, "history {h:?}: sum {total} with {discounts:?}");
+                for q in 0..4 {
+                    let direct = levels.prob(&e, &discounts, 4, &key_of(&h, order, q), order);
+                    let stored = f64::from(m.log_prob(ctx, q)).exp();
+                    assert!((direct - stored).abs() < 1e-5 * direct.max(1e-3), "{h:?} {q}: {direct} vs {stored}");
+                }
+            }
+        }
+    }
+
+    #[test]
+    fn padded_word_starts_are_estimated_once() {
+        // (S, S, S, S, 0) predicts the same event as (S, 0) (Kneser & Ney 1995 give `<s>`
+        // n-grams no continuation counts): no stored history may start with two paddings, and
+        // the start of a word is looked up in the one-padding context.
+        let e = padded_evidence(5);
+        let m = NgramModel::estimate(&e, &[0.3, 0.5, 0.7, 0.8, 0.9], 4);
+        assert!(m.contexts().iter().all(|c| !c.history.starts_with(&[START, START])));
+        let h = start_history(5);
+        assert_eq!(m.contexts()[m.context(&h[..4]) as usize - 1].history, [START]);
     }
 
     #[test]
