@@ -195,14 +195,16 @@ fn review_needs_a_terminal_and_demo_makes_a_ready_project() {
     let items = list(&dir);
     let items = items.as_array().unwrap();
     assert!(items.len() >= 15);
-    // Every item has guessed candidates except "café": the shipped English letter-to-sound
-    // rules have no rule for "é", so the reviewer types that one in the editor.
+    // Every item has candidates: the demo ships a trained model, which answers even for "café"
+    // (a letter never seen in CMUdict training gets an answer and a warning).
     let bare: Vec<&str> = items
         .iter()
         .filter(|i| i["candidates"].as_array().unwrap().is_empty())
         .filter_map(|i| i["word"].as_str())
         .collect();
-    assert_eq!(bare, vec!["café"]);
+    assert!(bare.is_empty(), "items without candidates: {bare:?}");
+    // The invented accent profile's proposals are queued after the new words.
+    assert!(items.iter().any(|i| i["kind"] == "variant"), "no variant items in the demo queue");
     let counts: Vec<u64> = items.iter().filter_map(|i| i["count"].as_u64()).collect();
     assert!(counts.windows(2).all(|w| w[0] >= w[1]), "most frequent first");
     orthoepy(&dir, &["review"]).assert().code(2);

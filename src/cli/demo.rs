@@ -25,13 +25,14 @@ pub struct Args {
 }
 
 /// The demo project's files, built into the binary so the demo works from anywhere.
-const FILES: &[(&str, &str)] = &[
-    ("orthoepy.toml", include_str!("../../demo-lexicon/orthoepy.toml")),
-    ("lexicon.csv", include_str!("../../demo-lexicon/lexicon.csv")),
-    ("new-words.txt", include_str!("../../demo-lexicon/new-words.txt")),
-    ("passenger-queries.txt", include_str!("../../demo-lexicon/passenger-queries.txt")),
-    ("saltmarsh-coast.toml", include_str!("../../demo-lexicon/saltmarsh-coast.toml")),
-    ("README.md", include_str!("../../demo-lexicon/README.md")),
+const FILES: &[(&str, &[u8])] = &[
+    ("orthoepy.toml", include_bytes!("../../demo-lexicon/orthoepy.toml")),
+    ("lexicon.csv", include_bytes!("../../demo-lexicon/lexicon.csv")),
+    ("new-words.txt", include_bytes!("../../demo-lexicon/new-words.txt")),
+    ("passenger-queries.txt", include_bytes!("../../demo-lexicon/passenger-queries.txt")),
+    ("saltmarsh-coast.toml", include_bytes!("../../demo-lexicon/saltmarsh-coast.toml")),
+    ("model.g2p", include_bytes!("../../demo-lexicon/model.g2p")),
+    ("README.md", include_bytes!("../../demo-lexicon/README.md")),
 ];
 
 fn default_dir() -> PathBuf {
