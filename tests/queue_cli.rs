@@ -116,6 +116,14 @@ fn decide(dir: &Path, item: &str, word: &str, action: Action) {
     j.append(Record::Decide(Decision { item: item.into(), word: word.into(), action, note: "reviewed by t".into() })).unwrap();
 }
 
+/// A project whose queue holds `words` (one a line) as new-word items without candidates.
+fn project_with_queued_words(dir: &Path, words: &str) {
+    project(dir);
+    std::fs::write(dir.join("w.txt"), words).unwrap();
+    let w = dir.join("w.txt").display().to_string();
+    orthoepy(dir, &["queue", "add", "--no-guess", "--words", &w]).assert().success();
+}
+
 fn accept(p: &str) -> Action {
     Action::Accept { pronunciation: p.into(), source: "g2p".into(), score: Some(0.4), edited: false }
 }
@@ -124,10 +132,7 @@ fn accept(p: &str) -> Action {
 fn apply_merges_once_and_marks_the_journal() {
     let tmp = tempfile::tempdir().unwrap();
     let dir = tmp.path();
-    project(dir);
-    std::fs::write(dir.join("w.txt"), "Kelport\nSaltmarsh\n").unwrap();
-    let w = dir.join("w.txt").display().to_string();
-    orthoepy(dir, &["queue", "add", "--no-guess", "--words", &w]).assert().success();
+    project_with_queued_words(dir, "Kelport\nSaltmarsh\n");
     decide(dir, "new:kelport", "Kelport", accept("K EH1 L P AO2 R T"));
     decide(dir, "new:saltmarsh", "Saltmarsh", Action::Reject);
     let out = orthoepy(dir, &["apply", "--format", "json"]).output().unwrap();
@@ -150,10 +155,7 @@ fn apply_merges_once_and_marks_the_journal() {
 fn apply_refuses_when_the_lexicon_now_contradicts_a_decision() {
     let tmp = tempfile::tempdir().unwrap();
     let dir = tmp.path();
-    project(dir);
-    std::fs::write(dir.join("w.txt"), "Kelport\n").unwrap();
-    let w = dir.join("w.txt").display().to_string();
-    orthoepy(dir, &["queue", "add", "--no-guess", "--words", &w]).assert().success();
+    project_with_queued_words(dir, "Kelport\n");
     decide(dir, "new:kelport", "Kelport", accept("K EH1 L P AO2 R T"));
     // Someone else adds the word with another pronunciation meanwhile.
     let mut text = std::fs::read_to_string(dir.join("lexicon.csv")).unwrap();
@@ -170,10 +172,7 @@ fn apply_refuses_when_the_lexicon_now_contradicts_a_decision() {
 fn torn_journal_tail_is_reported_and_ignored() {
     let tmp = tempfile::tempdir().unwrap();
     let dir = tmp.path();
-    project(dir);
-    std::fs::write(dir.join("w.txt"), "Kelport\nSaltmarsh\n").unwrap();
-    let w = dir.join("w.txt").display().to_string();
-    orthoepy(dir, &["queue", "add", "--no-guess", "--words", &w]).assert().success();
+    project_with_queued_words(dir, "Kelport\nSaltmarsh\n");
     decide(dir, "new:kelport", "Kelport", Action::SetAside);
     decide(dir, "new:saltmarsh", "Saltmarsh", Action::Reject);
     let bytes = std::fs::read(dir.join("journal.jsonl")).unwrap();
