@@ -15,5 +15,6 @@ pub mod pls;
 pub mod project;
 pub mod queue;
 pub mod safe_io;
+pub mod text_position;
 pub mod tui;
 pub mod variants;

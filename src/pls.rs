@@ -255,10 +255,7 @@ pub fn read_pls(bytes: &[u8], set: &Phoneset, source: &str) -> Result<PlsImport,
     let mut reader = quick_xml::Reader::from_reader(bytes);
     reader.config_mut().trim_text(true);
     let at = |offset: usize, message: String| {
-        let before = &bytes[..offset.min(bytes.len())];
-        let line = before.iter().filter(|&&b| b == b'\n').count() + 1;
-        let start = before.iter().rposition(|&b| b == b'\n').map_or(0, |i| i + 1);
-        let column = String::from_utf8_lossy(&before[start..]).chars().count() + 1;
+        let (line, column) = crate::text_position::line_column(bytes, offset);
         PlsError::Syntax { line, column, message }
     };
     let mut import = PlsImport::default();

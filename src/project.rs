@@ -22,6 +22,7 @@
 //! ```
 
 use crate::lexicon::HeadwordPolicy;
+use crate::text_position::line_column;
 use serde::Deserialize;
 use std::path::{Path, PathBuf};
 
@@ -171,7 +172,7 @@ impl Project {
     /// Parses project TOML; relative paths are resolved against `root`, `path` names the file in errors.
     pub fn parse(text: &str, root: &Path, path: &Path) -> Result<Project, ProjectError> {
         let file: ProjectFile = toml::from_str(text).map_err(|err| {
-            let (line, column) = err.span().map(|s| line_column(text, s.start)).unwrap_or((1, 1));
+            let (line, column) = err.span().map(|s| line_column(text.as_bytes(), s.start)).unwrap_or((1, 1));
             ProjectError::Syntax { path: path.to_path_buf(), line, column, message: err.message().to_string() }
         })?;
         let root = root.to_path_buf();
@@ -218,13 +219,6 @@ impl Project {
 /// True when a phoneset/rules/profile spec names a file rather than a shipped id.
 fn looks_like_path(spec: &str) -> bool {
     spec.contains('/') || spec.contains('\\') || spec.ends_with(".toml")
-}
-
-fn line_column(text: &str, offset: usize) -> (usize, usize) {
-    let before = &text[..offset.min(text.len())];
-    let line = before.matches('\n').count() + 1;
-    let column = before.rsplit('\n').next().map(|l| l.chars().count()).unwrap_or(0) + 1;
-    (line, column)
 }
 
 #[cfg(test)]

@@ -11,6 +11,7 @@
 use super::entry::{Entry, Status};
 use super::normalize::{check_headword, normalize_key, HeadwordError, HeadwordPolicy};
 use crate::safe_io::{self, Fingerprint};
+use crate::text_position::line_column;
 use rayon::prelude::*;
 use std::fmt;
 use std::path::{Path, PathBuf};
@@ -169,7 +170,7 @@ impl Lexicon {
     pub fn parse(bytes: &[u8], path: &Path, policy: HeadwordPolicy, mode: LoadMode) -> Result<Lexicon, LexiconError> {
         let body = bytes.strip_prefix(BOM).unwrap_or(bytes);
         let text = std::str::from_utf8(body).map_err(|err| {
-            let (line, column) = line_column(&body[..err.valid_up_to()]);
+            let (line, column) = line_column(body, err.valid_up_to());
             LexiconError::Parse { path: path.to_path_buf(), line, column, problem: ParseProblem::BadUtf8 }
         })?;
         let fail = |line: usize, column: usize, problem| LexiconError::Parse {
@@ -448,14 +449,6 @@ fn csv_error(err: csv::Error, path: &Path, text: &str, lines_before: usize) -> L
         _ => ParseProblem::Csv(err.to_string()),
     };
     LexiconError::Parse { path: path.to_path_buf(), line, column: field_column(text, line, 0), problem }
-}
-
-/// 1-based line and character column just after `prefix`.
-fn line_column(prefix: &[u8]) -> (usize, usize) {
-    let line = prefix.iter().filter(|&&b| b == b'\n').count() + 1;
-    let start = prefix.iter().rposition(|&b| b == b'\n').map(|i| i + 1).unwrap_or(0);
-    let column = String::from_utf8_lossy(&prefix[start..]).chars().count() + 1;
-    (line, column)
 }
 
 /// The 1-based character column where field `index` starts on `line` of `text`.

@@ -2,6 +2,7 @@
 //! kept for error positions. No checking happens here (that is `schema.rs` and `build.rs`), and
 //! nothing outside the phoneset module sees these types.
 
+use crate::text_position::line_column;
 use std::collections::BTreeMap;
 use std::ops::Range;
 
@@ -115,7 +116,7 @@ pub(crate) fn parse_toml<T: serde::de::DeserializeOwned>(
     file: &str,
 ) -> Result<T, PhonesetError> {
     toml::from_str(text).map_err(|e| {
-        let (line, column) = e.span().map(|s| line_col(text, s.start)).unwrap_or((0, 0));
+        let (line, column) = e.span().map(|s| line_column(text.as_bytes(), s.start)).unwrap_or((0, 0));
         PhonesetError::Syntax {
             file: file.to_string(),
             line,
@@ -125,19 +126,7 @@ pub(crate) fn parse_toml<T: serde::de::DeserializeOwned>(
     })
 }
 
-/// 1-based line and character column of byte offset `at` in `text`.
-pub(crate) fn line_col(text: &str, at: usize) -> (usize, usize) {
-    let at = at.min(text.len());
-    let before = text.get(..at).unwrap_or(text);
-    let line = before.matches('\n').count() + 1;
-    let line_start = before.rfind('\n').map(|i| i + 1).unwrap_or(0);
-    let column = before
-        .get(line_start..)
-        .map(|s| s.chars().count())
-        .unwrap_or(0)
-        + 1;
-    (line, column)
-}
+
 
 /// Collects self-check problems with positions in one source text.
 pub(crate) struct Problems<'t> {
@@ -156,7 +145,7 @@ impl<'t> Problems<'t> {
 
     /// Records `problem` at byte span `span`.
     pub fn add(&mut self, span: Range<usize>, problem: CheckProblem) {
-        let (line, column) = line_col(self.text, span.start);
+        let (line, column) = line_column(self.text.as_bytes(), span.start);
         self.found.push((
             span.start,
             Located {
@@ -169,7 +158,7 @@ impl<'t> Problems<'t> {
 
     /// The 1-based line of byte span `span`.
     pub fn line_of(&self, span: &Range<usize>) -> usize {
-        line_col(self.text, span.start).0
+        line_column(self.text.as_bytes(), span.start).0
     }
 
     /// Finishes: `Ok` when no problem was recorded, else [`PhonesetError::Invalid`] in file order.

@@ -66,12 +66,7 @@ pub(crate) struct SourceText<'a> {
 impl SourceText<'_> {
     /// 1-based (line, character column) of a byte offset.
     pub fn position(&self, byte: usize) -> (usize, usize) {
-        let byte = byte.min(self.text.len());
-        let before = self.text.get(..byte).unwrap_or("");
-        let line = before.matches('\n').count() + 1;
-        let line_start = before.rfind('\n').map_or(0, |i| i + 1);
-        let column = before.get(line_start..).map_or(0, |s| s.chars().count()) + 1;
-        (line, column)
+        crate::text_position::line_column(self.text.as_bytes(), byte)
     }
 
     /// Position of character `offset` inside a string value spanned by `span`. Exact for a

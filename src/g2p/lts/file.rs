@@ -59,11 +59,7 @@ struct Positions<'a> {
 
 impl Positions<'_> {
     fn at(&self, offset: usize) -> (usize, usize) {
-        let before = self.text.get(..offset).unwrap_or(self.text);
-        let line = before.matches('\n').count() + 1;
-        let line_start = before.rfind('\n').map_or(0, |i| i + 1);
-        let column = before.get(line_start..).map_or(0, |s| s.chars().count()) + 1;
-        (line, column)
+        crate::text_position::line_column(self.text.as_bytes(), offset)
     }
 }
 
