@@ -7,12 +7,15 @@
 //! Run: `cargo bench --bench g2p_cmudict`. Environment overrides (for exploring settings):
 //! `G2P_ORDER`, `G2P_L` (graphone size), `G2P_WORDS` (use only the first N entries),
 //! `G2P_STRIP` (1 = train and score without stress), `G2P_THREADS`, `G2P_ITERATIONS` (EM
-//! iterations per order above 1), `G2P_LATTICE_STATES` (training lattice states per position).
+//! iterations per order above 1), `G2P_LATTICE_STATES` (training lattice states per position),
+//! `G2P_TOLERANCE_PPM` (EM stopping tolerance in parts per million of the log-likelihood),
+//! `G2P_HELDOUT` (percent of training words held out for tuning), `G2P_SAVE` (write the
+//! trained model to this path).
 
 use std::time::Instant;
 
-use orthoepy::eval::{evaluate_model, split_by_word};
-use orthoepy::g2p::{train, training_pairs, LatticeBeam, Model, SymbolOptions, TrainOptions};
+use orthoepy::eval::{evaluate_model, evaluate_model_with, split_by_word};
+use orthoepy::g2p::{train, training_pairs, DecodeOptions, LatticeBeam, Model, SymbolOptions, TrainOptions};
 use orthoepy::lexicon::plain::read_plain;
 
 fn env(name: &str) -> Option<usize> {
@@ -40,6 +43,8 @@ fn main() {
         max_phones: l,
         threads: env("G2P_THREADS").unwrap_or(0),
         iterations: env("G2P_ITERATIONS").unwrap_or(defaults.iterations),
+        tolerance: env("G2P_TOLERANCE_PPM").map_or(defaults.tolerance, |ppm| ppm as f64 * 1e-6),
+        heldout_percent: env("G2P_HELDOUT").map_or(defaults.heldout_percent, |p| p as u32),
         beam: LatticeBeam { max_states: env("G2P_LATTICE_STATES").unwrap_or(defaults.beam.max_states), ..defaults.beam },
         symbols: SymbolOptions { strip_stress: strip, ..SymbolOptions::default() },
         phoneset_id: "en-arpa".into(),
@@ -57,7 +62,7 @@ fn main() {
             p.graphones,
             p.ngrams,
             p.heldout_per.map_or("-".to_string(), |x| format!("{:.2}%", 100.0 * x)),
-            p.discounts.iter().map(|d| (d * 100.0).round() / 100.0).collect::<Vec<_>>(),
+            p.discounts.iter().map(|d| d.0.map(|x| (x * 100.0).round() / 100.0)).collect::<Vec<_>>(),
             start.elapsed().as_secs_f64()
         )
     }) {
@@ -68,6 +73,11 @@ fn main() {
         }
     };
     println!("training time {:.1} s, model file {} bytes", start.elapsed().as_secs_f64(), model.to_bytes().len());
+    if let Ok(path) = std::env::var("G2P_SAVE") {
+        if let Err(e) = model.save(std::path::Path::new(&path)) {
+            eprintln!("cannot save the model: {e}");
+        }
+    }
     let eval = evaluate_model(&model, &test_set);
     println!(
         "with stress:    WER {:.2}%  PER {:.2}%  ({} words)",
@@ -76,6 +86,15 @@ fn main() {
         eval.stressed.words
     );
     println!("without stress: WER {:.2}%  PER {:.2}%", 100.0 * eval.unstressed.wer, 100.0 * eval.unstressed.per);
+    let wide = DecodeOptions { nbest: 1, beam_width: 256, log_beam: 40.0, ..DecodeOptions::default() };
+    let exact = evaluate_model_with(&model, &test_set, &wide);
+    println!(
+        "search errors of the default beam: WER {:.2}% with beam width {} / {} nats (default beam {:.2}%)",
+        100.0 * exact.stressed.wer,
+        wide.beam_width,
+        wide.log_beam,
+        100.0 * eval.stressed.wer
+    );
     decode_speed(&model, &test_set);
 }
 

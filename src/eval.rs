@@ -20,7 +20,7 @@ use rayon::prelude::*;
 use serde::Serialize;
 use unicode_normalization::UnicodeNormalization;
 
-use crate::g2p::{strip_stress, Model};
+use crate::g2p::{strip_stress, DecodeOptions, Model};
 
 /// The split hash of a word (see the module docs).
 ///
@@ -284,11 +284,17 @@ pub fn group_references(pairs: &[(String, Vec<String>)]) -> Vec<(String, Vec<Vec
 /// pool) and scores it against all its variants. References are normalised like the model's
 /// training data (stress stripped if the model was trained without stress).
 pub fn evaluate_model(model: &Model, test: &[(String, Vec<String>)]) -> Evaluation {
+    evaluate_model_with(model, test, &DecodeOptions { nbest: 1, ..DecodeOptions::default() })
+}
+
+/// [`evaluate_model`] with explicit search settings (e.g. a wider beam, to measure how many
+/// errors the default beam's search adds).
+pub fn evaluate_model_with(model: &Model, test: &[(String, Vec<String>)], search: &DecodeOptions) -> Evaluation {
     let opts = model.symbol_options();
     let words: Vec<Scored> = group_references(test)
         .into_par_iter()
         .map(|(word, refs)| {
-            let hypothesis = model.guess(&word, 1).hypotheses.into_iter().next().map(|h| h.phones).unwrap_or_default();
+            let hypothesis = model.guess_with(&word, search).hypotheses.into_iter().next().map(|h| h.phones).unwrap_or_default();
             let references = refs.iter().map(|r| r.iter().map(|p| opts.phone(p)).collect()).collect();
             Scored { word, hypothesis, references }
         })

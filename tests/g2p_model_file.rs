@@ -86,3 +86,15 @@ fn missing_file_names_the_path() {
     let err = Model::load(std::path::Path::new("/nonexistent/harbour.g2p")).expect_err("missing");
     assert!(err.to_string().contains("harbour.g2p"), "{err}");
 }
+
+#[test]
+fn format_version_1_files_still_read() {
+    // Written by the build before modified Kneser–Ney (one discount per order): trained with
+    // `orthoepy train --order 2` on the six words of `small_model` (invented demo words).
+    let bytes = std::fs::read(concat!(env!("CARGO_MANIFEST_DIR"), "/tests/fixtures/g2p-model-format-1.g2p")).expect("fixture present");
+    assert_eq!(u16::from_le_bytes([bytes[8], bytes[9]]), 1);
+    let model = Model::from_bytes(&bytes).expect("version 1 reads");
+    let best = &model.guess("ferry", 1).hypotheses[0];
+    assert_eq!(best.phones, ["F", "EH1", "R", "IY0"]);
+    assert_eq!(&model.to_bytes()[8..10], &FORMAT_VERSION.to_le_bytes(), "saving writes the current version");
+}

@@ -3,15 +3,16 @@
 //! | bytes | field |
 //! |---|---|
 //! | 8 | magic `b"OEPYG2P\x1a"` |
-//! | 2 | format version (`u16`, currently 1) |
+//! | 2 | format version (`u16`, currently 2; version 1 is still read) |
 //! | 8 | payload length (`u64`) |
 //! | 4 | CRC-32 (IEEE) of the payload |
 //! | … | payload |
 //!
 //! The payload holds, in order: phone-set id; letter unit, case folding and stress flags (one
 //! byte each); the letter table; the phone table (strings are `u32` byte length + UTF-8); the
-//! graphones (`u8` count + `u32` ids, letters then phones); the n-gram order (`u8`) and one
-//! `f64` discount per order; the unigram table (`u32` count + `f32` log-probabilities); the
+//! graphones (`u8` count + `u32` ids, letters then phones); the n-gram order (`u8`) and three
+//! `f64` discounts per order (one per evidence class, see [`super::ngram::Discount`]; version 1
+//! stored one, read as the same value for every class); the unigram table (`u32` count + `f32` log-probabilities); the
 //! contexts (`u32` count; each: `u8` history length + `u32` symbols, `f32` back-off,
 //! `u32` entry count + (`u32` symbol, `f32` log-probability) pairs).
 //!
@@ -23,12 +24,14 @@ use std::path::{Path, PathBuf};
 
 use super::graphone::{Graphone, Inventory, LetterUnit, SymbolOptions, SymbolTable};
 use super::model::Model;
-use super::ngram::{Context, NgramModel, NgramError};
+use super::ngram::{Context, Discount, NgramModel, NgramError};
 
 /// First bytes of every model file.
 pub const MAGIC: [u8; 8] = *b"OEPYG2P\x1a";
-/// Format version written by this build (and the only one it reads).
-pub const FORMAT_VERSION: u16 = 1;
+/// Format version written by this build. It also reads [`OLDEST_READ_VERSION`] and later.
+pub const FORMAT_VERSION: u16 = 2;
+/// The oldest format version this build still reads.
+pub const OLDEST_READ_VERSION: u16 = 1;
 const HEADER_LEN: usize = 8 + 2 + 8 + 4;
 
 /// Why a model file could not be read or written.
@@ -54,12 +57,14 @@ pub enum ModelFileError {
     #[error("not an orthoepy G2P model (wrong magic bytes); pass a file written by `orthoepy train`")]
     NotAModel,
     /// Written by another format version.
-    #[error("model format version {found} is not supported (this build reads version {supported}); retrain the model")]
+    #[error("model format version {found} is not supported (this build reads versions {oldest} to {newest}); retrain the model")]
     UnsupportedVersion {
         /// Version in the file.
         found: u16,
-        /// Version this build reads.
-        supported: u16,
+        /// Oldest version this build reads.
+        oldest: u16,
+        /// Newest version this build reads (the one it writes).
+        newest: u16,
     },
     /// The file ends before the data it announces.
     #[error("model file is truncated at byte {offset}: {needed} more bytes expected; the file is incomplete, copy or train it again")]
@@ -207,7 +212,7 @@ impl Model {
             w.ids(&g.phones);
         }
         w.u8(self.ngram.order() as u8);
-        self.ngram.discounts().iter().for_each(|&d| w.f64(d));
+        self.ngram.discounts().iter().flat_map(|d| d.0).for_each(|d| w.f64(d));
         w.len(self.ngram.unigram().len());
         self.ngram.unigram().iter().for_each(|&p| w.f32(p));
         w.len(self.ngram.contexts().len());
@@ -244,8 +249,8 @@ impl Model {
         }
         header.take(MAGIC.len())?;
         let version = u16::from_le_bytes(header.array()?);
-        if version != FORMAT_VERSION {
-            return Err(ModelFileError::UnsupportedVersion { found: version, supported: FORMAT_VERSION });
+        if !(OLDEST_READ_VERSION..=FORMAT_VERSION).contains(&version) {
+            return Err(ModelFileError::UnsupportedVersion { found: version, oldest: OLDEST_READ_VERSION, newest: FORMAT_VERSION });
         }
         let length = u64::from_le_bytes(header.array()?);
         let stored = header.u32()?;
@@ -261,17 +266,13 @@ impl Model {
         if computed != stored {
             return Err(ModelFileError::Checksum { stored, computed });
         }
-        decode_payload(&mut Reader { data: payload, pos: 0, base: HEADER_LEN })
+        decode_payload(&mut Reader { data: payload, pos: 0, base: HEADER_LEN }, version)
     }
 
-    /// Writes the model to `path` (through a temporary file in the same directory, then rename).
+    /// Writes the model to `path` atomically (temporary file in the same folder, fsync, rename;
+    /// see [`crate::safe_io::atomic_write`]), so an interrupted save leaves the old file whole.
     pub fn save(&self, path: &Path) -> Result<(), ModelFileError> {
-        let io = |source| ModelFileError::Io { path: path.to_path_buf(), source };
-        let mut tmp = path.as_os_str().to_owned();
-        tmp.push(".tmp");
-        let tmp = PathBuf::from(tmp);
-        std::fs::write(&tmp, self.to_bytes()).map_err(io)?;
-        std::fs::rename(&tmp, path).map_err(io)
+        crate::safe_io::atomic_write(path, &self.to_bytes(), false).map_err(|source| ModelFileError::Io { path: path.to_path_buf(), source })
     }
 
     /// Reads a model file.
@@ -281,7 +282,7 @@ impl Model {
     }
 }
 
-fn decode_payload(r: &mut Reader<'_>) -> Result<Model, ModelFileError> {
+fn decode_payload(r: &mut Reader<'_>, version: u16) -> Result<Model, ModelFileError> {
     let phoneset_id = r.str()?;
     let at = r.offset();
     let letter_unit = match r.u8()? {
@@ -308,7 +309,13 @@ fn decode_payload(r: &mut Reader<'_>) -> Result<Model, ModelFileError> {
     let inventory = Inventory::from_graphones(graphones).ok_or_else(|| invalid(at, "graphone inventory has an empty, oversized or repeated graphone"))?;
     let at = r.offset();
     let order = r.u8()? as usize;
-    let discounts = (0..order).map(|_| r.f64()).collect::<Read<Vec<f64>>>()?;
+    let discount = |r: &mut Reader<'_>| -> Read<Discount> {
+        if version == 1 {
+            return Ok(Discount::flat(r.f64()?));
+        }
+        Ok(Discount([r.f64()?, r.f64()?, r.f64()?]))
+    };
+    let discounts = (0..order).map(|_| discount(r)).collect::<Read<Vec<Discount>>>()?;
     let n = r.count(4)?;
     let unigram = (0..n).map(|_| r.f32()).collect::<Read<Vec<f32>>>()?;
     if unigram.len() != inventory.len() + 1 {

@@ -3,15 +3,18 @@
 //! for look-ups. It owns no graphone spelling and no lattice; symbols are plain `u32` ids where
 //! `0..vocab-1` are graphones and `vocab-1` is the end-of-word symbol.
 //!
-//! Smoothing is interpolated absolute discounting with Kneser–Ney style lower orders, generalised
-//! to fractional evidence (Kneser & Ney, "Improved backing-off for m-gram language modeling",
-//! ICASSP 1995; Bisani & Ney 2008, section 3.3, discount on evidence). For a history `h` with
-//! evidence `c(h,q)` and total `T(h)`, and the discount `D` of that order:
+//! Smoothing is interpolated modified Kneser–Ney, generalised to fractional evidence (Kneser &
+//! Ney, "Improved backing-off for m-gram language modeling", ICASSP 1995; Chen & Goodman, "An
+//! empirical study of smoothing techniques for language modeling", TR-10-98, Harvard, 1998, for
+//! the three discounts per order; Bisani & Ney 2008, section 3.3, for discounting evidence).
+//! Each order has three discounts `D₁, D₂, D₃₊`; an n-gram's discount `D(c)` is chosen by its
+//! evidence `c` rounded to the nearest integer (1 or less, 2, 3 or more) and never exceeds `c`.
+//! For a history `h` with evidence `c(h,q)` and total `T(h)`:
 //!
-//! `p(q|h) = max(c(h,q) - D, 0) / T(h) + γ(h) · p(q|h')`, `γ(h) = Σ_q min(c(h,q), D) / T(h)`,
+//! `p(q|h) = (c(h,q) - D(c(h,q))) / T(h) + γ(h) · p(q|h')`, `γ(h) = Σ_q D(c(h,q)) / T(h)`,
 //!
-//! where `h'` drops the oldest graphone. The lower-order evidence is the mass the discount moved
-//! down: `c(h',q) = Σ_x min(c(x h',q), D)`, which for integer counts and `D ≤ 1` is proportional
+//! where `h'` drops the oldest graphone. The lower-order evidence is the mass the discounts moved
+//! down: `c(h',q) = Σ_x D(c(x h',q))`, which for integer counts and `D ≤ 1` is proportional
 //! to the Kneser–Ney continuation count.
 //!
 //! Word starts: histories are padded with `order-1` start symbols, so an n-gram near the start
@@ -83,6 +86,53 @@ pub fn merge_evidence(into: &mut Evidence, other: Evidence) {
     }
 }
 
+/// Number of evidence classes with their own discount in each order.
+pub const DISCOUNT_CLASSES: usize = 3;
+
+/// The discounts of one order: for evidence that rounds to 1 or less, to 2, and to 3 or more
+/// (the three discounts of modified Kneser–Ney, Chen & Goodman 1998).
+///
+/// ```
+/// use orthoepy::g2p::Discount;
+/// let d = Discount([0.7, 1.1, 1.4]);
+/// assert_eq!(d.moved(0.4), 0.4); // never more than the evidence itself
+/// assert_eq!(d.moved(1.2), 0.7);
+/// assert_eq!(d.moved(2.2), 1.1);
+/// assert_eq!(d.moved(9.0), 1.4);
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Discount(pub [f64; DISCOUNT_CLASSES]);
+
+impl Discount {
+    /// The same discount for every evidence class (plain absolute discounting).
+    pub fn flat(d: f64) -> Discount {
+        Discount([d; DISCOUNT_CLASSES])
+    }
+
+    /// The evidence class of `c`: 0 below 1.5, 1 below 2.5, 2 otherwise.
+    #[inline]
+    fn class(c: f64) -> usize {
+        if c < 1.5 {
+            0
+        } else if c < 2.5 {
+            1
+        } else {
+            2
+        }
+    }
+
+    /// The mass moved from evidence `c` to the lower order: `min(c, D(c))`.
+    #[inline]
+    pub fn moved(&self, c: f64) -> f64 {
+        c.min(self.0[Discount::class(c)])
+    }
+
+    /// Whether every discount is finite.
+    fn is_finite(&self) -> bool {
+        self.0.iter().all(|d| d.is_finite())
+    }
+}
+
 fn drop_oldest(key: &Key) -> Key {
     let mut k = [NONE; MAX_ORDER];
     k[..MAX_ORDER - 1].copy_from_slice(&key[1..]);
@@ -102,7 +152,7 @@ fn padded(key: &Key) -> bool {
     key[0] == START && key[1] == START
 }
 
-/// Per-history totals of one order: `(T(h), Σ_q min(c(h,q), D))`.
+/// Per-history totals of one order: `(T(h), Σ_q D(c(h,q)))`.
 type Totals = FastMap<History, (f64, f64)>;
 
 /// Evidence of every order derived from the top order, plus per-history totals.
@@ -114,105 +164,125 @@ struct Levels {
 
 impl Levels {
     /// Derives lower orders from `top` (evidence of order `discounts.len()`), see module docs.
-    fn derive(top: &Evidence, discounts: &[f64]) -> Levels {
+    fn derive(top: &Evidence, discounts: &[Discount]) -> Levels {
         let order = discounts.len();
-        let mut counts: Vec<Evidence> = vec![Evidence::default(); order];
-        for k in (2..=order).rev() {
+        let mut levels = Levels { order, counts: vec![Evidence::default(); order], totals: vec![Totals::default(); order] };
+        levels.rederive(top, discounts, order);
+        levels
+    }
+
+    /// Recomputes what the discounts of `changed` (1-based) and below determine: the evidence
+    /// of every lower order and the totals of `changed` and below. Higher orders are kept, so
+    /// tuning one order's discounts costs only the orders beneath it.
+    fn rederive(&mut self, top: &Evidence, discounts: &[Discount], changed: usize) {
+        for k in (2..=changed).rev() {
             let d = discounts[k - 1];
             let mut lower = Evidence::default();
-            let source = if k == order { top } else { &counts[k - 1] };
-            for (key, &c) in source {
-                let moved = if padded(key) { c } else { c.min(d) };
+            for (key, &c) in self.source(top, k) {
+                let moved = if padded(key) { c } else { d.moved(c) };
                 *lower.entry(drop_oldest(key)).or_insert(0.0) += moved;
             }
-            counts[k - 2] = lower;
+            self.counts[k - 2] = lower;
         }
-        let mut totals = Vec::with_capacity(order);
-        for k in 1..=order {
+        for k in 1..=changed {
             let d = discounts[k - 1];
-            let source = if k == order { top } else { &counts[k - 1] };
             let mut t = Totals::default();
-            for (key, &c) in source {
+            for (key, &c) in self.source(top, k) {
                 if padded(key) {
                     continue;
                 }
                 let e = t.entry(history_of(key, k - 1)).or_insert((0.0, 0.0));
                 e.0 += c;
-                e.1 += c.min(d);
+                e.1 += d.moved(c);
             }
-            totals.push(t);
+            self.totals[k - 1] = t;
         }
-        Levels { order, counts, totals }
     }
 
-    fn count(&self, top: &Evidence, k: usize, key: &Key) -> f64 {
-        let source = if k == self.order { top } else { &self.counts[k - 1] };
-        source.get(key).copied().unwrap_or(0.0)
+    /// The evidence of order `k` (1-based).
+    fn source<'a>(&'a self, top: &'a Evidence, k: usize) -> &'a Evidence {
+        if k == self.order {
+            top
+        } else {
+            &self.counts[k - 1]
+        }
     }
 
     /// Interpolated probability of the last symbol of `key`, an n-gram of length `n`.
-    fn prob(&self, top: &Evidence, discounts: &[f64], vocab: usize, key: &Key, n: usize) -> f64 {
+    fn prob(&self, top: &Evidence, discounts: &[Discount], vocab: usize, key: &Key, n: usize) -> f64 {
         let mut p = 1.0 / vocab as f64;
         for k in 1..=n {
             let mut sub = [NONE; MAX_ORDER];
             sub[..k].copy_from_slice(&key[n - k..n]);
             if let Some(&(total, kept)) = self.totals[k - 1].get(&history_of(&sub, k - 1)) {
                 if total > 0.0 {
-                    let c = self.count(top, k, &sub);
-                    p = (c - discounts[k - 1]).max(0.0) / total + kept / total * p;
+                    let c = self.source(top, k).get(&sub).copied().unwrap_or(0.0);
+                    p = (c - discounts[k - 1].moved(c)) / total + kept / total * p;
                 }
             }
         }
         p
     }
+
+    /// Log-likelihood of `heldout` evidence (keys of the top order).
+    fn log_likelihood(&self, top: &Evidence, heldout: &Evidence, discounts: &[Discount], vocab: usize) -> f64 {
+        heldout.iter().map(|(key, &e)| e * self.prob(top, discounts, vocab, key, self.order).max(1e-300).ln()).sum()
+    }
 }
 
 /// Log-likelihood of `heldout` evidence under the model smoothed from `top` with `discounts`.
-fn heldout_log_likelihood(top: &Evidence, heldout: &Evidence, discounts: &[f64], vocab: usize) -> f64 {
-    let levels = Levels::derive(top, discounts);
-    heldout.iter().map(|(key, &e)| e * levels.prob(top, discounts, vocab, key, discounts.len()).max(1e-300).ln()).sum()
+#[cfg(test)]
+fn heldout_log_likelihood(top: &Evidence, heldout: &Evidence, discounts: &[Discount], vocab: usize) -> f64 {
+    Levels::derive(top, discounts).log_likelihood(top, heldout, discounts, vocab)
 }
 
-/// Lowest and highest discount tried when tuning.
-const DISCOUNT_RANGE: (f64, f64) = (0.02, 6.0);
+/// Lowest and highest value tried for each discount class when tuning. A class's discount
+/// above its largest evidence (1.5, 2.5) would act as that evidence, so the ranges stop there.
+const DISCOUNT_RANGES: [(f64, f64); DISCOUNT_CLASSES] = [(0.02, 1.5), (0.02, 2.5), (0.02, 6.0)];
 
-/// Tunes the discounts (one coordinate sweep, highest order first, golden-section search of
-/// `steps` evaluations each) to maximise the held-out log-likelihood; returns the tuned
-/// discounts and that log-likelihood. `initial.len()` is the order.
-pub fn tune_discounts(top: &Evidence, heldout: &Evidence, initial: &[f64], vocab: usize, steps: usize) -> (Vec<f64>, f64) {
+/// Tunes the discounts (one coordinate sweep, highest order first and within an order the
+/// class of the largest evidence first, golden-section search of `steps` evaluations each) to
+/// maximise the held-out log-likelihood; returns the tuned discounts and that log-likelihood.
+/// `initial.len()` is the order.
+pub fn tune_discounts(top: &Evidence, heldout: &Evidence, initial: &[Discount], vocab: usize, steps: usize) -> (Vec<Discount>, f64) {
     let mut discounts = initial.to_vec();
     if heldout.is_empty() {
         return (discounts, 0.0);
     }
+    let mut levels = Levels::derive(top, &discounts);
     let phi = (5f64.sqrt() - 1.0) / 2.0;
     for k in (0..discounts.len()).rev() {
-        let eval = |d: f64, ds: &mut Vec<f64>| {
-            ds[k] = d;
-            heldout_log_likelihood(top, heldout, ds, vocab)
-        };
-        let (mut lo, mut hi) = DISCOUNT_RANGE;
-        let mut x1 = hi - phi * (hi - lo);
-        let mut x2 = lo + phi * (hi - lo);
-        let mut f1 = eval(x1, &mut discounts);
-        let mut f2 = eval(x2, &mut discounts);
-        for _ in 0..steps {
-            if f1 > f2 {
-                hi = x2;
-                x2 = x1;
-                f2 = f1;
-                x1 = hi - phi * (hi - lo);
-                f1 = eval(x1, &mut discounts);
-            } else {
-                lo = x1;
-                x1 = x2;
-                f1 = f2;
-                x2 = lo + phi * (hi - lo);
-                f2 = eval(x2, &mut discounts);
+        for class in (0..DISCOUNT_CLASSES).rev() {
+            let mut eval = |d: f64, ds: &mut Vec<Discount>| {
+                ds[k].0[class] = d;
+                levels.rederive(top, ds, k + 1);
+                levels.log_likelihood(top, heldout, ds, vocab)
+            };
+            let (mut lo, mut hi) = DISCOUNT_RANGES[class];
+            let mut x1 = hi - phi * (hi - lo);
+            let mut x2 = lo + phi * (hi - lo);
+            let mut f1 = eval(x1, &mut discounts);
+            let mut f2 = eval(x2, &mut discounts);
+            for _ in 0..steps {
+                if f1 > f2 {
+                    hi = x2;
+                    x2 = x1;
+                    f2 = f1;
+                    x1 = hi - phi * (hi - lo);
+                    f1 = eval(x1, &mut discounts);
+                } else {
+                    lo = x1;
+                    x1 = x2;
+                    f1 = f2;
+                    x2 = lo + phi * (hi - lo);
+                    f2 = eval(x2, &mut discounts);
+                }
             }
+            discounts[k].0[class] = if f1 > f2 { x1 } else { x2 };
+            levels.rederive(top, &discounts, k + 1);
         }
-        discounts[k] = if f1 > f2 { x1 } else { x2 };
     }
-    let ll = heldout_log_likelihood(top, heldout, &discounts, vocab);
+    let ll = levels.log_likelihood(top, heldout, &discounts, vocab);
     (discounts, ll)
 }
 
@@ -240,7 +310,7 @@ struct Node {
 #[derive(Clone, Debug)]
 pub struct NgramModel {
     order: usize,
-    discounts: Vec<f64>,
+    discounts: Vec<Discount>,
     unigram: Vec<f32>,
     contexts: Vec<Context>,
     nodes: Vec<Node>,
@@ -276,12 +346,12 @@ impl NgramModel {
     /// The uniform model over `vocab` symbols, of order 1.
     pub fn uniform(vocab: usize) -> NgramModel {
         let lp = -(vocab.max(1) as f32).ln();
-        NgramModel::from_parts(1, vec![0.5], vec![lp; vocab.max(1)], Vec::new())
+        NgramModel::from_parts(1, vec![Discount::flat(0.5)], vec![lp; vocab.max(1)], Vec::new())
             .unwrap_or_else(|_| unreachable!("uniform model parts are valid by construction"))
     }
 
     /// Smooths `top` (evidence of order `discounts.len()`) into a model; see the module docs.
-    pub fn estimate(top: &Evidence, discounts: &[f64], vocab: usize) -> NgramModel {
+    pub fn estimate(top: &Evidence, discounts: &[Discount], vocab: usize) -> NgramModel {
         let order = discounts.len();
         let levels = Levels::derive(top, discounts);
         let unigram: Vec<f32> = (0..vocab as u32)
@@ -294,9 +364,8 @@ impl NgramModel {
         let mut by_history: FastMap<History, Vec<(u32, f32)>> = FastMap::default();
         for k in 2..=order {
             let d = discounts[k - 1];
-            let source = if k == order { top } else { &levels.counts[k - 1] };
-            for (key, &c) in source {
-                if c <= d || padded(key) {
+            for (key, &c) in levels.source(top, k) {
+                if d.moved(c) >= c || padded(key) {
                     continue;
                 }
                 let lp = levels.prob(top, discounts, vocab, key, k).max(1e-300).ln() as f32;
@@ -319,7 +388,7 @@ impl NgramModel {
     }
 
     /// Assembles a model from stored parts, validating every field (used by the model file).
-    pub fn from_parts(order: usize, discounts: Vec<f64>, unigram: Vec<f32>, contexts: Vec<Context>) -> Result<NgramModel, NgramError> {
+    pub fn from_parts(order: usize, discounts: Vec<Discount>, unigram: Vec<f32>, contexts: Vec<Context>) -> Result<NgramModel, NgramError> {
         if order == 0 || order > MAX_ORDER || discounts.len() != order || discounts.iter().any(|d| !d.is_finite()) {
             return Err(NgramError::Order(order));
         }
@@ -427,8 +496,8 @@ impl NgramModel {
         self.order
     }
 
-    /// The discount of each order, lowest first.
-    pub fn discounts(&self) -> &[f64] {
+    /// The discounts of each order, lowest first.
+    pub fn discounts(&self) -> &[Discount] {
         &self.discounts
     }
 
@@ -451,6 +520,10 @@ impl NgramModel {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    fn flat(ds: &[f64]) -> Vec<Discount> {
+        ds.iter().map(|&d| Discount::flat(d)).collect()
+    }
 
     fn bigram_evidence() -> Evidence {
         // A toy corpus over symbols 0,1 and end symbol 2, order 2 (hand-made).
@@ -475,7 +548,7 @@ mod tests {
         // Property of interpolated absolute discounting (Kneser & Ney 1995): for every history
         // the probabilities over the whole vocabulary sum to 1.
         let e = bigram_evidence();
-        let m = NgramModel::estimate(&e, &[0.4, 0.7], 3);
+        let m = NgramModel::estimate(&e, &flat(&[0.4, 0.7]), 3);
         for h in [START, 0, 1] {
             let ctx = m.context(&[h]);
             let total: f64 = (0..3).map(|q| f64::from(m.log_prob(ctx, q)).exp()).sum();
@@ -493,7 +566,7 @@ mod tests {
             k[..3].copy_from_slice(&[a, b, q]);
             e.insert(k, c);
         }
-        let m = NgramModel::estimate(&e, &[0.3, 0.6, 0.9], 3);
+        let m = NgramModel::estimate(&e, &flat(&[0.3, 0.6, 0.9]), 3);
         for (a, b) in [(START, START), (0, 1), (1, 1), (1, 0)] {
             let ctx = m.context(&[a, b]);
             let total: f64 = (0..3).map(|q| f64::from(m.log_prob(ctx, q)).exp()).sum();
@@ -520,10 +593,12 @@ mod tests {
     fn high_order_fractional_distributions_sum_to_one() {
         // Every conditional distribution of an interpolated model sums to 1 over the
         // vocabulary (Kneser & Ney 1995), here at order 5 with fractional evidence, padded word
-        // starts and discounts above 1; and the back-off form returns the interpolated value.
+        // starts, discounts above 1 and different discounts per evidence class (Chen &
+        // Goodman 1998); and the back-off form returns the interpolated value.
         let order = 5;
         let e = padded_evidence(order);
-        for discounts in [[0.3, 0.5, 0.7, 0.8, 0.9], [0.1, 1.5, 0.2, 2.5, 0.6]] {
+        let by_class = vec![Discount([0.2, 0.9, 1.7]); order];
+        for discounts in [flat(&[0.3, 0.5, 0.7, 0.8, 0.9]), flat(&[0.1, 1.5, 0.2, 2.5, 0.6]), by_class] {
             let m = NgramModel::estimate(&e, &discounts, 4);
             let levels = Levels::derive(&e, &discounts);
             let mut histories: Vec<History> = e.keys().map(|k| history_of(k, order - 1)).collect();
@@ -547,10 +622,45 @@ mod tests {
         // n-grams no continuation counts): no stored history may start with two paddings, and
         // the start of a word is looked up in the one-padding context.
         let e = padded_evidence(5);
-        let m = NgramModel::estimate(&e, &[0.3, 0.5, 0.7, 0.8, 0.9], 4);
+        let m = NgramModel::estimate(&e, &flat(&[0.3, 0.5, 0.7, 0.8, 0.9]), 4);
         assert!(m.contexts().iter().all(|c| !c.history.starts_with(&[START, START])));
         let h = start_history(5);
         assert_eq!(m.contexts()[m.context(&h[..4]) as usize - 1].history, [START]);
+    }
+
+    #[test]
+    fn evidence_classes_follow_rounded_counts() {
+        // Chen & Goodman 1998: one discount for counts of 1, one for 2, one for 3 and more;
+        // fractional evidence takes the class of its nearest integer, and no n-gram loses more
+        // than its own evidence.
+        let d = Discount([0.5, 1.0, 2.0]);
+        assert_eq!([d.moved(0.3), d.moved(1.49), d.moved(1.5), d.moved(2.49), d.moved(2.5), d.moved(40.0)], [0.3, 0.5, 1.0, 1.0, 2.0, 2.0]);
+        assert_eq!(Discount([3.0, 3.0, 3.0]).moved(2.0), 2.0);
+    }
+
+    #[test]
+    fn class_discounts_are_tuned_separately() {
+        // Held-out evidence that repeats only the frequent training n-gram and adds an unseen
+        // one: the best model discounts rare evidence more than frequent evidence, which one
+        // flat discount cannot express, so tuning the classes must beat the best flat value.
+        let mut e = Evidence::default();
+        let mut held = Evidence::default();
+        let key = |h: u32, q: u32| {
+            let mut k = [NONE; MAX_ORDER];
+            k[0] = h;
+            k[1] = q;
+            k
+        };
+        for q in 0..8 {
+            e.insert(key(0, q), 1.0);
+        }
+        e.insert(key(0, 8), 30.0);
+        held.insert(key(0, 8), 30.0);
+        held.insert(key(0, 9), 3.0);
+        let (_, flat_best) = (1..300).map(|i| f64::from(i) * 0.02).map(|d| (d, heldout_log_likelihood(&e, &held, &flat(&[0.5, d]), 10))).fold((0.0, f64::MIN), |a, b| if b.1 > a.1 { b } else { a });
+        let (tuned, ll) = tune_discounts(&e, &held, &flat(&[0.5, 0.5]), 10, 20);
+        assert!(ll > flat_best + 1e-3, "{ll} vs flat {flat_best}, {tuned:?}");
+        assert!(tuned[1].0[0] >= 0.9, "singletons never recur, so they should pass down: {tuned:?}");
     }
 
     #[test]
@@ -561,16 +671,16 @@ mod tests {
         k[0] = 1;
         k[1] = 1;
         heldout.insert(k, 1.0); // an n-gram unseen in training: favours larger discounts
-        let before = heldout_log_likelihood(&e, &heldout, &[0.05, 0.05], 3);
-        let (d, after) = tune_discounts(&e, &heldout, &[0.05, 0.05], 3, 12);
+        let before = heldout_log_likelihood(&e, &heldout, &flat(&[0.05, 0.05]), 3);
+        let (d, after) = tune_discounts(&e, &heldout, &flat(&[0.05, 0.05]), 3, 12);
         assert!(after > before, "{after} <= {before} with {d:?}");
     }
 
     #[test]
     fn from_parts_rejects_bad_contexts() {
         let bad = Context { history: vec![7], backoff: 0.0, entries: vec![] };
-        assert!(NgramModel::from_parts(2, vec![0.5, 0.5], vec![-1.0; 3], vec![bad]).is_err());
+        assert!(NgramModel::from_parts(2, flat(&[0.5, 0.5]), vec![-1.0; 3], vec![bad]).is_err());
         let unsorted = Context { history: vec![0], backoff: 0.0, entries: vec![(1, -1.0), (0, -1.0)] };
-        assert!(NgramModel::from_parts(2, vec![0.5, 0.5], vec![-1.0; 3], vec![unsorted]).is_err());
+        assert!(NgramModel::from_parts(2, flat(&[0.5, 0.5]), vec![-1.0; 3], vec![unsorted]).is_err());
     }
 }

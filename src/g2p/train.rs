@@ -11,7 +11,7 @@ use super::em::{expectation, Expectation, LatticeBeam, Sample};
 use super::graphone::{Graphone, Inventory, SymbolOptions, SymbolTable, MAX_UNIT};
 use super::hash::FastMap;
 use super::model::Model;
-use super::ngram::{tune_discounts, Evidence, Key, NgramModel, MAX_ORDER, NONE, START};
+use super::ngram::{tune_discounts, Discount, Evidence, Key, NgramModel, MAX_ORDER, NONE, START};
 use crate::eval::{closest_reference, word_hash};
 
 /// Training settings. The defaults are the configuration measured best on CMUdict under the
@@ -91,7 +91,7 @@ pub struct TrainProgress {
     /// Explicit n-grams (order ≥ 2) in the model.
     pub ngrams: usize,
     /// Tuned discounts, lowest order first.
-    pub discounts: Vec<f64>,
+    pub discounts: Vec<Discount>,
 }
 
 /// Why training could not run.
@@ -272,11 +272,11 @@ pub fn train(data: &[(String, Vec<String>)], opts: &TrainOptions, progress: &mut
     all.extend(heldout.iter().cloned());
     model.inventory = candidate_inventory(&all, opts.max_letters, opts.max_phones);
     model.set_ngram(NgramModel::uniform(model.inventory.len() + 1));
-    let mut discounts = vec![0.5];
+    let mut discounts = vec![Discount::flat(0.5)];
     let mut last: Option<Expectation> = None;
     for order in 1..=opts.order {
         if order > 1 {
-            let top = discounts.last().copied().unwrap_or(0.5);
+            let top = discounts.last().copied().unwrap_or(Discount::flat(0.5));
             discounts.push(top);
         }
         let max_iter = if order == 1 { opts.first_iterations } else { opts.iterations }.max(1);
