@@ -9,8 +9,10 @@
 //! `G2P_STRIP` (1 = train and score without stress), `G2P_THREADS`, `G2P_ITERATIONS` (EM
 //! iterations per order above 1), `G2P_LATTICE_STATES` (training lattice states per position),
 //! `G2P_TOLERANCE_PPM` (EM stopping tolerance in parts per million of the log-likelihood),
-//! `G2P_HELDOUT` (percent of training words held out for tuning), `G2P_SAVE` (write the
-//! trained model to this path).
+//! `G2P_HELDOUT` (percent of training words held out for tuning), `G2P_MIN_EVIDENCE_CENTI`
+//! (graphone trimming threshold in hundredths), `G2P_SAVE` (write the
+//! trained model to this path), `G2P_LOAD` (evaluate this model file instead of training),
+//! `G2P_BEAMS` (search settings `width:nats,...` to compare with the default beam).
 
 use std::time::Instant;
 
@@ -45,14 +47,41 @@ fn main() {
         iterations: env("G2P_ITERATIONS").unwrap_or(defaults.iterations),
         tolerance: env("G2P_TOLERANCE_PPM").map_or(defaults.tolerance, |ppm| ppm as f64 * 1e-6),
         heldout_percent: env("G2P_HELDOUT").map_or(defaults.heldout_percent, |p| p as u32),
+        min_graphone_evidence: env("G2P_MIN_EVIDENCE_CENTI").map_or(defaults.min_graphone_evidence, |c| c as f64 / 100.0),
         beam: LatticeBeam { max_states: env("G2P_LATTICE_STATES").unwrap_or(defaults.beam.max_states), ..defaults.beam },
         symbols: SymbolOptions { strip_stress: strip, ..SymbolOptions::default() },
         phoneset_id: "en-arpa".into(),
         ..defaults
     };
     println!("train pairs {}, test pairs {}, order {}, L {}, strip stress {}", train_set.len(), test_set.len(), opts.order, l, strip);
+    let model = match std::env::var("G2P_LOAD") {
+        Ok(path) => Model::load(std::path::Path::new(&path)).unwrap_or_else(|e| {
+            eprintln!("{e}");
+            std::process::exit(2);
+        }),
+        Err(_) => train_and_report(&train_set, &opts),
+    };
+    if let Ok(path) = std::env::var("G2P_SAVE") {
+        if let Err(e) = model.save(std::path::Path::new(&path)) {
+            eprintln!("cannot save the model: {e}");
+        }
+    }
+    let eval = evaluate_model(&model, &test_set);
+    println!(
+        "with stress:    WER {:.2}%  PER {:.2}%  ({} words)",
+        100.0 * eval.stressed.wer,
+        100.0 * eval.stressed.per,
+        eval.stressed.words
+    );
+    println!("without stress: WER {:.2}%  PER {:.2}%", 100.0 * eval.unstressed.wer, 100.0 * eval.unstressed.per);
+    decode_speed(&model, &test_set, &DecodeOptions::default());
+    beam_sweep(&model, &test_set);
+}
+
+/// Trains with `opts`, printing one line per EM iteration and the training time.
+fn train_and_report(train_set: &[(String, Vec<String>)], opts: &TrainOptions) -> Model {
     let start = Instant::now();
-    let model = match train(&train_set, &opts, &mut |p| {
+    let model = match train(train_set, opts, &mut |p| {
         println!(
             "  order {} iter {} train LL {:.1} held-out LL {:.1} graphones {} n-grams {} held-out PER {} discounts {:?} [{:.0}s]",
             p.order,
@@ -73,38 +102,34 @@ fn main() {
         }
     };
     println!("training time {:.1} s, model file {} bytes", start.elapsed().as_secs_f64(), model.to_bytes().len());
-    if let Ok(path) = std::env::var("G2P_SAVE") {
-        if let Err(e) = model.save(std::path::Path::new(&path)) {
-            eprintln!("cannot save the model: {e}");
-        }
-    }
-    let eval = evaluate_model(&model, &test_set);
-    println!(
-        "with stress:    WER {:.2}%  PER {:.2}%  ({} words)",
-        100.0 * eval.stressed.wer,
-        100.0 * eval.stressed.per,
-        eval.stressed.words
-    );
-    println!("without stress: WER {:.2}%  PER {:.2}%", 100.0 * eval.unstressed.wer, 100.0 * eval.unstressed.per);
-    let wide = DecodeOptions { nbest: 1, beam_width: 256, log_beam: 40.0, ..DecodeOptions::default() };
-    let exact = evaluate_model_with(&model, &test_set, &wide);
-    println!(
-        "search errors of the default beam: WER {:.2}% with beam width {} / {} nats (default beam {:.2}%)",
-        100.0 * exact.stressed.wer,
-        wide.beam_width,
-        wide.log_beam,
-        100.0 * eval.stressed.wer
-    );
-    decode_speed(&model, &test_set);
+    model
 }
 
-/// Single-thread 5-best decoding speed over the test words.
-fn decode_speed(model: &Model, test: &[(String, Vec<String>)]) {
+/// Word error rate (stress as trained) and 5-best speed for a few search settings, to show
+/// how many errors the default beam's search adds (`G2P_BEAMS`: `width:nats,...`).
+fn beam_sweep(model: &Model, test: &[(String, Vec<String>)]) {
+    let grid = std::env::var("G2P_BEAMS").unwrap_or_else(|_| "256:40".into());
+    for setting in grid.split(',') {
+        let Some((width, nats)) = setting.split_once(':').and_then(|(w, n)| Some((w.parse().ok()?, n.parse().ok()?))) else {
+            eprintln!("G2P_BEAMS: `{setting}` is not width:nats");
+            continue;
+        };
+        let search = DecodeOptions { nbest: 1, beam_width: width, log_beam: nats, ..DecodeOptions::default() };
+        let eval = evaluate_model_with(model, test, &search);
+        print!("beam width {width}, {nats} nats: WER {:.2}%  PER {:.2}%; ", 100.0 * eval.stressed.wer, 100.0 * eval.stressed.per);
+        decode_speed(model, test, &search);
+    }
+}
+
+/// Single-thread 5-best decoding speed over the test words with `search` (its `nbest` is
+/// replaced by 5).
+fn decode_speed(model: &Model, test: &[(String, Vec<String>)], search: &DecodeOptions) {
+    let search = DecodeOptions { nbest: 5, ..*search };
     let words: Vec<&str> = test.iter().map(|p| p.0.as_str()).take(5000).collect();
     let start = Instant::now();
     let mut hyps = 0;
     for w in &words {
-        hyps += model.guess(w, 5).hypotheses.len();
+        hyps += model.guess_with(w, &search).hypotheses.len();
     }
     let secs = start.elapsed().as_secs_f64();
     println!("decode 5-best, 1 thread: {:.0} words/s ({} words, {} hypotheses)", words.len() as f64 / secs, words.len(), hyps);

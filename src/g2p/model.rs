@@ -18,12 +18,15 @@ pub struct Model {
     /// Per graphone: upper bound of its log-probability in any context (see
     /// [`NgramModel::upper_bounds`]); kept in step with `ngram` by [`Model::set_ngram`].
     pub(crate) bounds: Vec<f32>,
+    /// Per context id: upper bound of the log-probability of any phone insertion (graphone
+    /// without letters) there (see [`NgramModel::group_bounds`]); kept in step with `ngram`.
+    pub(crate) insertion_bounds: Vec<f32>,
 }
 
 impl Model {
     /// Assembles a model and its decoding caches.
     pub(crate) fn new(symbols: SymbolOptions, phoneset_id: String, letters: SymbolTable, phones: SymbolTable, inventory: Inventory, ngram: NgramModel) -> Model {
-        let mut model = Model { symbols, phoneset_id, letters, phones, inventory, ngram: NgramModel::uniform(1), bounds: Vec::new() };
+        let mut model = Model { symbols, phoneset_id, letters, phones, inventory, ngram: NgramModel::uniform(1), bounds: Vec::new(), insertion_bounds: Vec::new() };
         model.set_ngram(ngram);
         model
     }
@@ -32,6 +35,7 @@ impl Model {
     pub(crate) fn set_ngram(&mut self, ngram: NgramModel) {
         self.bounds = ngram.upper_bounds();
         self.inventory.sort_candidates(&self.bounds);
+        self.insertion_bounds = ngram.group_bounds(self.inventory.with_letters(&[]));
         self.ngram = ngram;
     }
 
