@@ -5,7 +5,7 @@
 //! are about 24.5% WER / 5.9% PER without stress (Bisani & Ney 2008; from memory).
 //!
 //! Run: `cargo bench --bench g2p_cmudict`. Environment overrides (for exploring settings):
-//! `G2P_ORDER`, `G2P_L` (graphone size), `G2P_WORDS` (use only the first N entries),
+//! `G2P_ORDER`, `G2P_L` (graphone size; `G2P_MAX_LETTERS` / `G2P_MAX_PHONES` set one side), `G2P_WORDS` (use only the first N entries),
 //! `G2P_STRIP` (1 = train and score without stress), `G2P_THREADS`, `G2P_ITERATIONS` (EM
 //! iterations per order above 1), `G2P_LATTICE_STATES` (training lattice states per position),
 //! `G2P_TOLERANCE_PPM` (EM stopping tolerance in parts per million of the log-likelihood),
@@ -41,8 +41,8 @@ fn main() {
     let l = env("G2P_L").unwrap_or(defaults.max_letters);
     let opts = TrainOptions {
         order: env("G2P_ORDER").unwrap_or(defaults.order),
-        max_letters: l,
-        max_phones: l,
+        max_letters: env("G2P_MAX_LETTERS").unwrap_or(l),
+        max_phones: env("G2P_MAX_PHONES").unwrap_or(l),
         threads: env("G2P_THREADS").unwrap_or(0),
         iterations: env("G2P_ITERATIONS").unwrap_or(defaults.iterations),
         tolerance: env("G2P_TOLERANCE_PPM").map_or(defaults.tolerance, |ppm| ppm as f64 * 1e-6),

@@ -46,3 +46,20 @@ fn corrupt_model_exits_2_with_a_message() {
     std::fs::write(dir.path().join("bad.g2p"), b"OEPYG2P\x1a\x01\x00").expect("write");
     orthoepy(dir.path()).args(["guess", "bad.g2p", "quay"]).assert().code(2).stderr(predicates::str::contains("truncated"));
 }
+
+#[test]
+fn graphone_sides_are_set_separately() {
+    // `--max-letters 2 --max-phones 1`: graphones of up to two letters and one phone, so every
+    // alignment piece has at most one phone, and digraphs such as "sh" or doubled consonants
+    // (common practice: English spelling) can be one piece.
+    let dir = tempfile::tempdir().expect("temp dir");
+    let d = dir.path();
+    let csv = write_sample(d);
+    orthoepy(d).args(["train", csv.to_str().unwrap_or_default(), "-o", "m.g2p", "--order", "2", "--max-letters", "2", "--max-phones", "1", "--quiet"]).assert().success();
+    let out = orthoepy(d).args(["guess", "m.g2p", "shipping", "shellfish", "ferry", "--nbest", "3", "--format", "json"]).assert().success().get_output().stdout.clone();
+    let json: serde_json::Value = serde_json::from_slice(&out).expect("guess prints JSON");
+    let pieces: Vec<&serde_json::Value> = json.as_array().into_iter().flatten().flat_map(|g| g["hypotheses"].as_array().into_iter().flatten()).flat_map(|h| h["alignment"].as_array().into_iter().flatten()).collect();
+    assert!(!pieces.is_empty());
+    assert!(pieces.iter().all(|p| p["phones"].as_array().map_or(0, Vec::len) <= 1), "{pieces:?}");
+    assert!(pieces.iter().any(|p| p["letters"].as_str().map_or(0, |l| l.chars().count()) == 2), "{pieces:?}");
+}

@@ -21,9 +21,16 @@ pub struct Args {
     /// N-gram order over graphones (1..=9).
     #[arg(long, value_name = "N")]
     order: Option<usize>,
-    /// Most letters and most phones per graphone (1..=3).
+    /// Most letters and most phones per graphone (1..=3); `--max-letters` and `--max-phones`
+    /// set one side.
     #[arg(long, value_name = "L")]
     graphone_size: Option<usize>,
+    /// Most letters per graphone (1..=3; default: the measured best, see BENCHMARKS.md).
+    #[arg(long, value_name = "N")]
+    max_letters: Option<usize>,
+    /// Most phones per graphone (1..=3).
+    #[arg(long, value_name = "N")]
+    max_phones: Option<usize>,
     /// Worker threads (default: one per core).
     #[arg(long, value_name = "T", default_value_t = 0)]
     threads: usize,
@@ -52,11 +59,10 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
         (None, None) => anyhow::bail!("no model file given and the project names none; pass -o MODEL"),
     };
     let defaults = TrainOptions::default();
-    let size = args.graphone_size.unwrap_or(defaults.max_letters);
     let opts = TrainOptions {
         order: args.order.unwrap_or(defaults.order),
-        max_letters: size,
-        max_phones: size,
+        max_letters: args.max_letters.or(args.graphone_size).unwrap_or(defaults.max_letters),
+        max_phones: args.max_phones.or(args.graphone_size).unwrap_or(defaults.max_phones),
         threads: args.threads,
         heldout_percent: args.heldout_percent.unwrap_or(defaults.heldout_percent),
         symbols: SymbolOptions {

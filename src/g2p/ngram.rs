@@ -662,7 +662,7 @@ mod tests {
     fn group_bounds_hold_in_every_context() {
         // The bound of a symbol group is never below the true best member in any context.
         let e = padded_evidence(5);
-        let m = NgramModel::estimate(&e, &vec![Discount([0.2, 0.9, 1.7]); 5], 4);
+        let m = NgramModel::estimate(&e, &[Discount([0.2, 0.9, 1.7]); 5], 4);
         for group in [vec![0], vec![1, 3], vec![0, 1, 2, 3]] {
             let bounds = m.group_bounds(&group);
             for ctx in 0..=m.contexts().len() as u32 {

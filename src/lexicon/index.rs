@@ -96,7 +96,7 @@ impl PostingMap {
     fn build<K: AsRef<str> + Ord>(mut pairs: Vec<(K, EntryId)>) -> PostingMap {
         let order = |a: &(K, EntryId), b: &(K, EntryId)| a.0.as_ref().cmp(b.0.as_ref()).then(a.1.cmp(&b.1));
         // A saved store is already in key order; checking first makes that case linear.
-        if !pairs.is_sorted_by(|a, b| order(a, b).is_le()) {
+        if !pairs.windows(2).all(|w| order(&w[0], &w[1]).is_le()) {
             pairs.sort_unstable_by(order);
         }
         let mut builder = MapBuilder::memory();
