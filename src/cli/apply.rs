@@ -9,7 +9,8 @@ use std::process::ExitCode;
 /// Merge reviewed decisions into the lexicon (atomic save with a .bak), then mark the journal.
 ///
 /// Refuses (exit 1) when the lexicon now contradicts a decision, e.g. a queued new word was
-/// added meanwhile with another pronunciation; --skip-conflicts merges the rest.
+/// added meanwhile with another pronunciation; --skip-conflicts merges the rest and puts the
+/// conflicting items back in the review queue (their decisions are withdrawn in the journal).
 ///
 /// Example: orthoepy apply --project demo-copy --dry-run
 #[derive(Debug, clap::Args)]
@@ -18,7 +19,7 @@ pub struct Args {
     /// Show what would be merged without changing anything.
     #[arg(long)]
     dry_run: bool,
-    /// Merge what does not conflict and mark the conflicting decisions as handled.
+    /// Merge what does not conflict; the conflicting items go back to review.
     #[arg(long)]
     skip_conflicts: bool,
     /// Output format.
@@ -33,7 +34,7 @@ fn describe(o: &Outcome) -> String {
         Outcome::Added { word, pronunciation } => format!("added     {word} /{pronunciation}/"),
         Outcome::Replaced { word, old, new } => format!("replaced  {word} /{old}/ -> /{new}/"),
         Outcome::Unchanged { word, reason } => format!("unchanged {word}: {reason}"),
-        Outcome::Conflict { word, reason } => format!("CONFLICT  {word}: {reason}"),
+        Outcome::Conflict { word, reason, .. } => format!("CONFLICT  {word}: {reason}"),
     }
 }
 
@@ -68,10 +69,19 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     if report.changed() {
         lexicon.save().context("cannot save the lexicon (nothing was marked applied; run apply again)")?;
     }
+    // Withdraw the conflicting decisions before marking the journal, so a crash in between
+    // leaves them open (the next apply sees them again) rather than marked as merged.
+    for seq in report.conflicts() {
+        journal.append(Record::Revoke { seq }).context("cannot reopen a conflicting decision")?;
+    }
     if report.through > ledger.applied_through() {
         journal.append(Record::Applied { through: report.through }).context("cannot mark the journal applied")?;
     }
     let merged = report.outcomes.iter().filter(|o| matches!(o, Outcome::Added { .. } | Outcome::Replaced { .. })).count();
     eprintln!("merged {merged} decision(s) into {}", project.lexicon.display());
+    let reopened = report.conflicts().len();
+    if reopened > 0 {
+        eprintln!("{reopened} conflicting item(s) are back in the review queue");
+    }
     Ok(ExitCode::SUCCESS)
 }

@@ -1,7 +1,8 @@
 //! Merging decisions into a lexicon, in memory: accepted new words become entries, accepted
 //! variants become extra entries, accepted audit fixes replace the flagged pronunciation.
 //! Decisions the lexicon has meanwhile made moot are skipped; decisions it now contradicts are
-//! conflicts (the caller refuses to save unless told to drop them).
+//! conflicts (the caller refuses to save unless told to merge the rest, and then withdraws the
+//! conflicting decisions so their items come back for review).
 //!
 //! Saving the lexicon and marking the journal are the caller's (through `Lexicon::save` and
 //! [`Journal::append`](super::Journal::append)); this file only edits the in-memory lexicon.
@@ -42,6 +43,8 @@ pub enum Outcome {
     },
     /// The lexicon now contradicts the decision; nothing was changed for it.
     Conflict {
+        /// Journal sequence number of the decision (to withdraw it and review the item again).
+        seq: u64,
         /// Headword.
         word: String,
         /// What contradicts it.
@@ -62,6 +65,11 @@ impl ApplyReport {
     /// Whether any decision conflicts with the lexicon.
     pub fn has_conflicts(&self) -> bool {
         self.outcomes.iter().any(|o| matches!(o, Outcome::Conflict { .. }))
+    }
+
+    /// Journal sequence numbers of the conflicting decisions, oldest first.
+    pub fn conflicts(&self) -> Vec<u64> {
+        self.outcomes.iter().filter_map(|o| if let Outcome::Conflict { seq, .. } = o { Some(*seq) } else { None }).collect()
     }
 
     /// Whether the lexicon was changed.
@@ -92,19 +100,19 @@ impl ApplyReport {
 /// ```
 pub fn apply_decisions(lexicon: &mut Lexicon, queue: &Queue, ledger: &Ledger) -> ApplyReport {
     let mut report = ApplyReport { outcomes: Vec::new(), through: ledger.last_seq() };
-    for (_, decision) in ledger.unapplied() {
+    for (seq, decision) in ledger.unapplied() {
         if decision.action == Action::SetAside {
             continue;
         }
-        report.outcomes.push(apply_one(lexicon, queue, decision));
+        report.outcomes.push(apply_one(lexicon, queue, seq, decision));
     }
     report
 }
 
-fn apply_one(lexicon: &mut Lexicon, queue: &Queue, d: &Decision) -> Outcome {
+fn apply_one(lexicon: &mut Lexicon, queue: &Queue, seq: u64, d: &Decision) -> Outcome {
     let word = d.word.clone();
     let Some(item) = queue.get(&d.item) else {
-        return Outcome::Conflict { word, reason: format!("item {} is no longer in the queue", d.item) };
+        return Outcome::Conflict { seq, word, reason: format!("item {} is no longer in the queue", d.item) };
     };
     let Action::Accept { pronunciation, source, score, edited } = &d.action else {
         return Outcome::Unchanged { word, reason: "rejected".into() };
@@ -125,10 +133,12 @@ fn apply_one(lexicon: &mut Lexicon, queue: &Queue, d: &Decision) -> Outcome {
     entry.note = d.note.clone();
     match &item.kind {
         ItemKind::NewWord if !existing.is_empty() => Outcome::Conflict {
+            seq,
             word,
             reason: format!("added to the lexicon meanwhile as /{}/; review it again", existing.join("/, /")),
         },
         ItemKind::Variant { canonical, .. } if !has(canonical) => Outcome::Conflict {
+            seq,
             word,
             reason: format!("its canonical form /{canonical}/ is no longer in the lexicon"),
         },
@@ -153,6 +163,7 @@ fn apply_one(lexicon: &mut Lexicon, queue: &Queue, d: &Decision) -> Outcome {
                     Outcome::Unchanged { word, reason: "already fixed in the lexicon".into() }
                 }
                 None => Outcome::Conflict {
+                    seq,
                     word,
                     reason: format!("the flagged entry /{current}/ changed since the audit; audit again"),
                 },
