@@ -124,6 +124,8 @@ struct Partial {
     history: History,
     /// Context id of `history` once looked up ([`NONE`] before).
     context: u32,
+    /// Context id of the history before the last graphone (to find `context` quickly).
+    parent_context: u32,
     score: f64,
     best: f64,
     phone_hash: u64,
@@ -228,7 +230,8 @@ impl Model {
         let max_letters = self.inventory.max_letters().max(1);
         let mut nodes = vec![Node { parent: NONE, graphone: NONE, letter: NONE }];
         let mut columns: Vec<Column> = (0..=n).map(|_| Column::default()).collect();
-        columns[0].push(Partial { node: 0, history: start_history(order), context: NONE, score: 0.0, best: 0.0, phone_hash: 0, insertions: 0 });
+        let start = start_history(order);
+        columns[0].push(Partial { node: 0, history: start, context: self.ngram.context(&start[..hist_len]), parent_context: 0, score: 0.0, best: 0.0, phone_hash: 0, insertions: 0 });
         let mut finals: FastMap<u64, (f64, f64, u32)> = FastMap::default();
         let insertions = self.inventory.with_letters(&[]);
         let mut letter_ids: Vec<u32> = Vec::with_capacity(max_letters);
@@ -248,7 +251,7 @@ impl Model {
                 if p.insertions >= opts.max_insertions {
                     continue;
                 }
-                let ctx = self.ngram.context(&p.history[..hist_len]);
+                let ctx = self.context_of(&p, hist_len);
                 column.items[k - 1].context = ctx;
                 if p.score + f64::from(self.insertion_bounds[ctx as usize]) < floor {
                     continue;
@@ -262,12 +265,12 @@ impl Model {
                         continue;
                     }
                     let (node, hash) = self.extend(&mut nodes, &p, g, NONE);
-                    column.push(Partial { node, history: push_history(&p.history, order, g), context: NONE, score: p.score + lp, best: p.best + lp, phone_hash: hash, insertions: p.insertions + 1 });
+                    column.push(Partial { node, history: push_history(&p.history, order, g), context: NONE, parent_context: ctx, score: p.score + lp, best: p.best + lp, phone_hash: hash, insertions: p.insertions + 1 });
                 }
             }
             column.prune(opts);
             for p in &column.items {
-                let ctx = if p.context == NONE { self.ngram.context(&p.history[..hist_len]) } else { p.context };
+                let ctx = self.context_of(p, hist_len);
                 if i == n {
                     let lp = f64::from(self.ngram.log_prob(ctx, end));
                     let e = finals.entry(p.phone_hash).or_insert((f64::NEG_INFINITY, f64::NEG_INFINITY, p.node));
@@ -282,7 +285,7 @@ impl Model {
                     let node = nodes.len() as u32;
                     nodes.push(Node { parent: p.node, graphone: NONE, letter: i as u32 });
                     let lp = f64::from(UNSEEN_LETTER_LOG_PROB);
-                    columns[i + 1].push(Partial { node, score: p.score + lp, best: p.best + lp, insertions: 0, ..*p });
+                    columns[i + 1].push(Partial { node, context: ctx, score: p.score + lp, best: p.best + lp, insertions: 0, ..*p });
                     continue;
                 }
                 for a in 1..=max_letters.min(n - i) {
@@ -307,7 +310,7 @@ impl Model {
                         }
                         best_at[i + a] = best_at[i + a].max(p.score + lp);
                         let (node, hash) = self.extend(&mut nodes, p, g, i as u32);
-                        columns[i + a].push(Partial { node, history: push_history(&p.history, order, g), context: NONE, score: p.score + lp, best: p.best + lp, phone_hash: hash, insertions: 0 });
+                        columns[i + a].push(Partial { node, history: push_history(&p.history, order, g), context: NONE, parent_context: ctx, score: p.score + lp, best: p.best + lp, phone_hash: hash, insertions: 0 });
                     }
                 }
             }
@@ -316,6 +319,17 @@ impl Model {
         let mut out: Vec<Hypothesis> = finals.into_values().map(|(score, _, node)| self.backtrack(&nodes, letters, node, score, total)).collect();
         out.sort_by(|a, b| b.log_prob.total_cmp(&a.log_prob));
         out
+    }
+
+    /// The context id of a partial hypothesis' history (from its parent's, see
+    /// `NgramModel::next_context`).
+    #[inline]
+    fn context_of(&self, p: &Partial, hist_len: usize) -> u32 {
+        if p.context != NONE {
+            p.context
+        } else {
+            self.ngram.next_context(p.parent_context, &p.history[..hist_len])
+        }
     }
 
     fn extend(&self, nodes: &mut Vec<Node>, p: &Partial, g: u32, letter: u32) -> (u32, u64) {

@@ -303,10 +303,17 @@ struct Node {
     suffix: u32,
     first: u32,
     end: u32,
+    /// History length.
+    len: u8,
 }
 
 /// The smoothed n-gram model in back-off form: explicit probabilities for seen n-grams, and a
 /// back-off weight per history. Context id 0 is the empty history (dense unigram table).
+///
+/// Besides the stored contexts, every proper prefix of a stored history is a context too (with
+/// no entries and back-off weight 1, so it answers exactly as its longest stored suffix). With
+/// that closure the context after one more symbol is a suffix of the previous context plus
+/// that symbol, which lets [`NgramModel::next_context`] find it with one or two look-ups.
 #[derive(Clone, Debug)]
 pub struct NgramModel {
     order: usize,
@@ -397,7 +404,8 @@ impl NgramModel {
         }
         let vocab = unigram.len() as u32;
         let mut index = FastMap::default();
-        let mut nodes = vec![Node { backoff: 0.0, suffix: 0, first: 0, end: 0 }];
+        let mut nodes = vec![Node { backoff: 0.0, suffix: 0, first: 0, end: 0, len: 0 }];
+        let mut histories: Vec<History> = vec![[NONE; MAX_HISTORY]];
         let mut symbols = Vec::new();
         let mut logps = Vec::new();
         for (i, c) in contexts.iter().enumerate() {
@@ -427,14 +435,24 @@ impl NgramModel {
                 symbols.push(s);
                 logps.push(lp);
             }
-            nodes.push(Node { backoff: c.backoff, suffix: 0, first, end: symbols.len() as u32 });
+            nodes.push(Node { backoff: c.backoff, suffix: 0, first, end: symbols.len() as u32, len: c.history.len() as u8 });
+            histories.push(h);
+        }
+        for c in &contexts {
+            for len in 1..c.history.len() {
+                let mut h = [NONE; MAX_HISTORY];
+                h[..len].copy_from_slice(&c.history[..len]);
+                if let std::collections::hash_map::Entry::Vacant(slot) = index.entry(h) {
+                    slot.insert(nodes.len() as u32);
+                    nodes.push(Node { backoff: 0.0, suffix: 0, first: 0, end: 0, len: len as u8 });
+                    histories.push(h);
+                }
+            }
         }
         let mut model = NgramModel { order, discounts, unigram, contexts, nodes, symbols, logps, index };
-        for i in 1..model.nodes.len() {
-            let h = &model.contexts[i - 1].history;
-            let mut arr = [NONE; MAX_HISTORY];
-            arr[..h.len()].copy_from_slice(h);
-            let suffix = model.longest_context(&arr, 1, h.len());
+        for (i, h) in histories.iter().enumerate().skip(1) {
+            let len = model.nodes[i].len as usize;
+            let suffix = model.longest_context(h, 1, len);
             model.nodes[i].suffix = suffix;
         }
         Ok(model)
@@ -456,6 +474,19 @@ impl NgramModel {
     #[inline]
     pub fn context(&self, history: &[u32]) -> u32 {
         let take = history.len().min(self.order - 1).min(MAX_HISTORY);
+        let mut arr = [NONE; MAX_HISTORY];
+        arr[..take].copy_from_slice(&history[history.len() - take..]);
+        self.longest_context(&arr, 0, take)
+    }
+
+    /// The context id after `history` (its last `order-1` symbols, newest last) when `previous`
+    /// was the context id of the history one symbol shorter: the same as
+    /// [`Self::context`]`(history)`, found from the longest candidate the prefix closure allows
+    /// (one more symbol than `previous`) instead of from the whole history.
+    #[inline]
+    pub fn next_context(&self, previous: u32, history: &[u32]) -> u32 {
+        let previous_len = self.nodes.get(previous as usize).map_or(0, |n| usize::from(n.len));
+        let take = (previous_len + 1).min(history.len()).min(self.order - 1).min(MAX_HISTORY);
         let mut arr = [NONE; MAX_HISTORY];
         arr[..take].copy_from_slice(&history[history.len() - take..]);
         self.longest_context(&arr, 0, take)
@@ -507,7 +538,7 @@ impl NgramModel {
         bounds[0] = set.iter().filter_map(|&s| self.unigram.get(s as usize)).fold(f32::NEG_INFINITY, |a, &b| a.max(b));
         // Suffix contexts have shorter histories, so visiting by history length sees them first.
         let mut by_length: Vec<usize> = (1..self.nodes.len()).collect();
-        by_length.sort_by_key(|&i| self.contexts[i - 1].history.len());
+        by_length.sort_by_key(|&i| self.nodes[i].len);
         for i in by_length {
             let node = &self.nodes[i];
             let range = node.first as usize..node.end as usize;
@@ -669,6 +700,28 @@ mod tests {
                 let best = group.iter().map(|&q| m.log_prob(ctx, q)).fold(f32::NEG_INFINITY, f32::max);
                 assert!(bounds[ctx as usize] >= best - 1e-6, "context {ctx}, group {group:?}: {} < {best}", bounds[ctx as usize]);
             }
+        }
+    }
+
+    #[test]
+    fn next_context_equals_a_full_lookup() {
+        // The prefix closure makes the incremental context look-up exact: walk every sequence
+        // of up to six symbols and compare with the look-up from the whole history.
+        let order = 5;
+        let e = padded_evidence(order);
+        let m = NgramModel::estimate(&e, &[Discount([0.2, 0.9, 1.7]); 5], 4);
+        let mut frontier = vec![(start_history(order), m.context(&start_history(order)[..order - 1]))];
+        for _ in 0..6 {
+            let mut next = Vec::new();
+            for (h, ctx) in frontier {
+                for q in 0..3 {
+                    let h2 = push_history(&h, order, q);
+                    let full = m.context(&h2[..order - 1]);
+                    assert_eq!(m.next_context(ctx, &h2[..order - 1]), full, "{h2:?}");
+                    next.push((h2, full));
+                }
+            }
+            frontier = next;
         }
     }
 
