@@ -222,3 +222,26 @@ fn quit_keys() {
     update(&mut app, Event::Key(Key::Char('e')));
     assert_eq!(update(&mut app, Event::Key(Key::Ctrl('c'))), vec![Effect::Quit], "Ctrl-c quits from any mode");
 }
+
+#[test]
+fn a_typed_note_goes_with_the_next_decision_and_survives_a_failed_write() {
+    let (_d, mut j) = journal();
+    let l = lookups();
+    let mut app = app();
+    let mut keys = vec![Key::Char('m')];
+    keys.extend(type_text("heard as KEL-port on the harbour radio"));
+    keys.push(Key::Enter);
+    press(&mut app, &keys, &l, &mut j);
+    assert_eq!(app.mode, Mode::Normal);
+    assert_eq!(app.notes.get("new:kelport").map(String::as_str), Some("heard as KEL-port on the harbour radio"));
+    // A failed write keeps the note for the retry.
+    update(&mut app, Event::Key(Key::Char('x')));
+    update(&mut app, Event::JournalFailed("disk full".into()));
+    assert!(app.notes.contains_key("new:kelport"));
+    // Esc on a reopened note line leaves it unchanged; the decision then carries it.
+    press(&mut app, &[Key::Char('m'), Key::Backspace, Key::Esc, Key::Enter], &l, &mut j);
+    let ledger = Ledger::replay(j.records());
+    let (_, d) = ledger.current("new:kelport").expect("decided");
+    assert!(d.note.ends_with("note: heard as KEL-port on the harbour radio"), "{}", d.note);
+    assert!(app.notes.is_empty(), "the note is used once");
+}

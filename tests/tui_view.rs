@@ -107,3 +107,15 @@ fn tiny_terminal_does_not_panic() {
     let screen = text(&render(&empty, 80, 24, true));
     assert!(screen.contains("The queue is empty"));
 }
+
+#[test]
+fn note_line_and_kept_note_are_drawn_at_80x24() {
+    let mut app = ready_app();
+    for key in [Key::Char('m'), Key::Char('o'), Key::Char('k')] {
+        orthoepy::tui::update(&mut app, Event::Key(key));
+    }
+    assert!(text(&render(&app, 80, 24, false)).contains("note> ok"));
+    orthoepy::tui::update(&mut app, Event::Key(Key::Enter));
+    let screen = text(&render(&app, 80, 24, false));
+    assert!(screen.contains("✎ ok") && !screen.contains("note>"), "{screen}");
+}

@@ -9,6 +9,7 @@ pub const KEYS: &[(&str, &str)] = &[
     ("e", "edit it in the phone editor (Tab completes, Esc cancels)"),
     ("x", "reject the item"),
     ("s", "set the item aside"),
+    ("m", "note for this item's next decision (Enter keeps, Esc cancels)"),
     ("n / p", "next / previous item"),
     ("u", "undo the last decision"),
     ("Ctrl-r", "redo"),

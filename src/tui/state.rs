@@ -4,7 +4,7 @@
 //! Plain data plus read-only questions about it ("which items are visible?", "how far along are
 //! we?"). Changing it is `update`'s job; drawing it is the view's.
 
-use std::collections::BTreeMap;
+use std::collections::{BTreeMap, HashMap};
 use std::sync::Arc;
 
 use super::editor::Editor;
@@ -122,6 +122,8 @@ pub enum Mode {
     Search(SearchBox),
     /// The filter line is open (text being typed, last parse error).
     Filter(String, Option<String>),
+    /// The reviewer's note for the current item is being typed.
+    Note(String),
     /// The key help overlay is open.
     Help,
 }
@@ -196,6 +198,9 @@ pub struct App {
     pub phones: Arc<dyn PhoneCheck>,
     /// Name put in the note of accepted entries.
     pub reviewer: String,
+    /// Reviewer's notes typed with `m`, by item key, waiting for that item's next decision
+    /// (kept until the decision is on disk, so a failed write loses nothing).
+    pub notes: HashMap<String, String>,
     /// Set once `q` or Ctrl-c was pressed.
     pub quitting: bool,
 }
@@ -224,6 +229,7 @@ impl App {
             message: String::new(),
             phones,
             reviewer: String::new(),
+            notes: HashMap::new(),
             quitting: false,
         };
         if let Some(first) = app.next_pending_from(0) {

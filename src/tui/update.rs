@@ -204,6 +204,7 @@ fn on_key(app: &mut App, key: Key) -> Vec<Effect> {
         Mode::Edit(ed) => edit_key(app, ed, key),
         Mode::Search(b) => search_key(app, b, key),
         Mode::Filter(text, _) => filter_key(app, text, key),
+        Mode::Note(text) => note_key(app, text, key),
     }
 }
 
@@ -236,6 +237,10 @@ fn normal_key(app: &mut App, key: Key) -> Vec<Effect> {
             app.mode = Mode::Search(SearchBox { query: String::new(), mode: SearchMode::Prefix, hits: Vec::new() })
         }
         Key::Char('f') => app.mode = Mode::Filter(app.filter.text().to_string(), None),
+        Key::Char('m') => match app.keys.get(app.cursor) {
+            Some(key) => app.mode = Mode::Note(app.notes.get(key).cloned().unwrap_or_default()),
+            None => app.message = "the queue is empty".into(),
+        },
         Key::Char('?') => app.mode = Mode::Help,
         _ => {}
     }
@@ -280,13 +285,9 @@ fn decide(app: &mut App, action: Action, detail: String) -> Vec<Effect> {
         app.message = format!("{} is already merged into the lexicon", item.word);
         return Vec::new();
     }
-    let mut note = if app.reviewer.is_empty() { String::new() } else { format!("reviewed by {}", app.reviewer) };
-    if !detail.is_empty() {
-        if !note.is_empty() {
-            note.push_str("; ");
-        }
-        note.push_str(&detail);
-    }
+    let typed = app.notes.get(key).map(|n| format!("note: {n}")).unwrap_or_default();
+    let reviewer = if app.reviewer.is_empty() { String::new() } else { format!("reviewed by {}", app.reviewer) };
+    let note = [reviewer, detail, typed].into_iter().filter(|part| !part.is_empty()).collect::<Vec<_>>().join("; ");
     let decision = Decision { item: key.clone(), word: item.word.clone(), action, note };
     app.pending = Some(PendingWrite::Decide { redo: false });
     app.save = SaveState::Writing;
@@ -347,6 +348,7 @@ fn on_journaled(app: &mut App, seq: u64, record: Record) -> Vec<Effect> {
     app.save = SaveState::Saved(seq);
     match (app.pending.take(), &record) {
         (Some(PendingWrite::Decide { redo }), Record::Decide(d)) => {
+            app.notes.remove(&d.item);
             app.undo.push(seq);
             if !redo {
                 app.redo.clear();
@@ -435,6 +437,34 @@ fn search_key(app: &mut App, mut b: SearchBox, key: Key) -> Vec<Effect> {
     }
     app.mode = Mode::Search(b);
     effect.into_iter().collect()
+}
+
+/// The note line: Enter keeps the note for the current item's next decision (an empty note
+/// removes it), Esc leaves the note as it was.
+fn note_key(app: &mut App, mut text: String, key: Key) -> Vec<Effect> {
+    match key {
+        Key::Esc => return Vec::new(),
+        Key::Enter => {
+            if let Some(item) = app.keys.get(app.cursor).cloned() {
+                let text = text.trim().to_string();
+                if text.is_empty() {
+                    app.notes.remove(&item);
+                    app.message = "note removed".into();
+                } else {
+                    app.message = "note kept; it goes with the next decision on this item".into();
+                    app.notes.insert(item, text);
+                }
+            }
+            return Vec::new();
+        }
+        Key::Backspace => {
+            text.pop();
+        }
+        Key::Char(c) if !c.is_control() => text.push(c),
+        _ => {}
+    }
+    app.mode = Mode::Note(text);
+    Vec::new()
 }
 
 fn filter_key(app: &mut App, mut text: String, key: Key) -> Vec<Effect> {

@@ -134,6 +134,10 @@ fn draw_word(frame: &mut Frame, app: &App, t: Theme, area: Rect) {
                     Span::styled(kind, t.fg(Color::Cyan)),
                     Span::styled(format!("  [{state}]"), t.dim()),
                     Span::styled(format!("  {}", item.origin), t.dim()),
+                    Span::styled(
+                        app.keys.get(app.cursor).and_then(|k| app.notes.get(k)).map(|n| format!("  ✎ {n}")).unwrap_or_default(),
+                        t.fg(Color::Yellow),
+                    ),
                 ]),
                 Line::from(Span::styled(
                     if item.context.is_empty() { "   (no example line)".to_string() } else { format!("   “{}”", item.context) },
@@ -353,9 +357,10 @@ fn draw_keys(frame: &mut Frame, app: &App, t: Theme, area: Rect) {
             }
             Line::from(spans)
         }
+        Mode::Note(text) => Line::from(vec![Span::styled("note> ", t.title()), Span::raw(text.clone()), Span::raw("▏")]),
         _ if !app.message.is_empty() => Line::from(Span::raw(app.message.clone())),
         _ => Line::from(Span::styled(
-            "↑↓ move  Enter accept  e edit  x reject  s aside  n/p item  u undo  / search  f filter  ? help  q quit",
+            "↑↓ move  Enter accept  e edit  x reject  s aside  m note  n/p item  u undo  / search  f filter  ? help  q quit",
             t.dim(),
         )),
     };
