@@ -71,7 +71,8 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     }
     // Withdraw the conflicting decisions before marking the journal, so a crash in between
     // leaves them open (the next apply sees them again) rather than marked as merged.
-    for seq in report.conflicts() {
+    let reopened = report.conflicts();
+    for &seq in &reopened {
         journal.append(Record::Revoke { seq }).context("cannot reopen a conflicting decision")?;
     }
     if report.through > ledger.applied_through() {
@@ -79,9 +80,8 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     }
     let merged = report.outcomes.iter().filter(|o| matches!(o, Outcome::Added { .. } | Outcome::Replaced { .. })).count();
     eprintln!("merged {merged} decision(s) into {}", project.lexicon.display());
-    let reopened = report.conflicts().len();
-    if reopened > 0 {
-        eprintln!("{reopened} conflicting item(s) are back in the review queue");
+    if !reopened.is_empty() {
+        eprintln!("{} conflicting item(s) are back in the review queue", reopened.len());
     }
     Ok(ExitCode::SUCCESS)
 }

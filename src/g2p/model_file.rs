@@ -12,9 +12,9 @@
 //! byte each); the letter table; the phone table (strings are `u32` byte length + UTF-8); the
 //! graphones (`u8` count + `u32` ids, letters then phones); the n-gram order (`u8`) and three
 //! `f64` discounts per order (one per evidence class, see [`super::ngram::Discount`]; version 1
-//! stored one, read as the same value for every class); the unigram table (`u32` count + `f32` log-probabilities); the
-//! contexts (`u32` count; each: `u8` history length + `u32` symbols, `f32` back-off,
-//! `u32` entry count + (`u32` symbol, `f32` log-probability) pairs).
+//! stored one, read as the same value for every class); the unigram table (`u32` count + `f32`
+//! log-probabilities); the contexts (`u32` count; each: `u8` history length + `u32` symbols,
+//! `f32` back-off, `u32` entry count + (`u32` symbol, `f32` log-probability) pairs).
 //!
 //! Reading never panics and never allocates more than the bytes that remain justify: every
 //! count is checked against the remaining length before anything is allocated. This module

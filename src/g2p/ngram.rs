@@ -473,7 +473,14 @@ impl NgramModel {
     /// its last `order-1` symbols that the model stores (0 = the empty history).
     #[inline]
     pub fn context(&self, history: &[u32]) -> u32 {
-        let take = history.len().min(self.order - 1).min(MAX_HISTORY);
+        self.longest_tail_context(history, MAX_HISTORY)
+    }
+
+    /// The longest stored context among the last `most` (and at most `order-1`) symbols of
+    /// `history`.
+    #[inline]
+    fn longest_tail_context(&self, history: &[u32], most: usize) -> u32 {
+        let take = history.len().min(self.order - 1).min(most).min(MAX_HISTORY);
         let mut arr = [NONE; MAX_HISTORY];
         arr[..take].copy_from_slice(&history[history.len() - take..]);
         self.longest_context(&arr, 0, take)
@@ -486,10 +493,7 @@ impl NgramModel {
     #[inline]
     pub fn next_context(&self, previous: u32, history: &[u32]) -> u32 {
         let previous_len = self.nodes.get(previous as usize).map_or(0, |n| usize::from(n.len));
-        let take = (previous_len + 1).min(history.len()).min(self.order - 1).min(MAX_HISTORY);
-        let mut arr = [NONE; MAX_HISTORY];
-        arr[..take].copy_from_slice(&history[history.len() - take..]);
-        self.longest_context(&arr, 0, take)
+        self.longest_tail_context(history, previous_len + 1)
     }
 
     /// Natural-log probability of `symbol` in context `context` (ids from [`Self::context`]).

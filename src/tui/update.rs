@@ -422,10 +422,7 @@ fn search_key(app: &mut App, mut b: SearchBox, key: Key) -> Vec<Effect> {
     match key {
         Key::Esc => return Vec::new(),
         Key::Tab => b.mode = b.mode.next(),
-        Key::Backspace => {
-            b.query.pop();
-        }
-        Key::Char(c) if !c.is_control() => b.query.push(c),
+        _ if edit_line(&mut b.query, key) => {}
         _ => {
             app.mode = Mode::Search(b);
             return Vec::new();
@@ -457,14 +454,28 @@ fn note_key(app: &mut App, mut text: String, key: Key) -> Vec<Effect> {
             }
             return Vec::new();
         }
-        Key::Backspace => {
-            text.pop();
+        _ => {
+            edit_line(&mut text, key);
         }
-        Key::Char(c) if !c.is_control() => text.push(c),
-        _ => {}
     }
     app.mode = Mode::Note(text);
     Vec::new()
+}
+
+/// Typing into a one-line field (search, filter, note): Backspace deletes the last character,
+/// a printable character is appended. Returns whether `key` was one of those.
+fn edit_line(text: &mut String, key: Key) -> bool {
+    match key {
+        Key::Backspace => {
+            text.pop();
+            true
+        }
+        Key::Char(c) if !c.is_control() => {
+            text.push(c);
+            true
+        }
+        _ => false,
+    }
 }
 
 fn filter_key(app: &mut App, mut text: String, key: Key) -> Vec<Effect> {
@@ -485,11 +496,9 @@ fn filter_key(app: &mut App, mut text: String, key: Key) -> Vec<Effect> {
                 return Vec::new();
             }
         },
-        Key::Backspace => {
-            text.pop();
+        _ => {
+            edit_line(&mut text, key);
         }
-        Key::Char(c) if !c.is_control() => text.push(c),
-        _ => {}
     }
     app.mode = Mode::Filter(text, None);
     Vec::new()
