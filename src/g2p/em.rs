@@ -10,7 +10,7 @@ use rayon::prelude::*;
 
 use super::graphone::Inventory;
 use super::hash::FastMap;
-use super::ngram::{key_of, push_history, start_history, Evidence, History, NgramModel, MAX_HISTORY};
+use super::ngram::{key_of, push_history, start_history, Count, Evidence, History, Key, NgramModel, MAX_HISTORY};
 
 /// One training pair after interning: letter ids and phone ids.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -97,6 +97,8 @@ struct Lattice {
     arcs: Vec<Arc>,
     finals: Vec<(u32, f64)>,
     candidates: Vec<(u32, usize, usize)>,
+    /// Expected count of each n-gram in the current sample.
+    word: FastMap<Key, f64>,
 }
 
 /// Shape of the lattice: which graphone lengths exist and the order of the evidence.
@@ -185,14 +187,17 @@ impl Lattice {
         log_z
     }
 
-    /// Backward pass and evidence collection for a lattice whose forward pass gave `log_z`.
+    /// Backward pass and evidence collection for a lattice whose forward pass gave `log_z`:
+    /// the expected count of every n-gram in this sample is added to `evidence` as one
+    /// word's count distribution (see [`Count::from_expected`]).
     fn collect(&mut self, log_z: f64, shape: Shape, floor: f64, evidence: &mut Evidence) {
+        self.word.clear();
         for &(s, lp) in &self.finals {
             let st = &mut self.states[s as usize];
             st.beta = lp;
             let post = (st.alpha + lp - log_z).exp();
             if post >= floor {
-                *evidence.entry(key_of(&st.history, shape.order, shape.end)).or_insert(0.0) += post;
+                *self.word.entry(key_of(&st.history, shape.order, shape.end)).or_insert(0.0) += post;
             }
         }
         for arc in self.arcs.iter().rev() {
@@ -204,8 +209,11 @@ impl Lattice {
             from.beta = log_add(from.beta, arc.log_prob + beta_t);
             let post = (from.alpha + arc.log_prob + beta_t - log_z).exp();
             if post >= floor {
-                *evidence.entry(key_of(&from.history, shape.order, arc.symbol)).or_insert(0.0) += post;
+                *self.word.entry(key_of(&from.history, shape.order, arc.symbol)).or_insert(0.0) += post;
             }
+        }
+        for (key, &e) in &self.word {
+            evidence.entry(*key).or_default().add(&Count::from_expected(e));
         }
     }
 }
@@ -281,10 +289,10 @@ mod tests {
         assert!((e.log_likelihood - z.ln()).abs() < 1e-5, "{} vs {}", e.log_likelihood, z.ln());
         let a_a = inv.lookup(&[0], &[0]).map(unigram_key);
         let expected = (p.powi(3) + 2.0 * p.powi(4)) / z;
-        let got = a_a.and_then(|k| e.evidence.get(&k).copied()).unwrap_or(0.0);
+        let got = a_a.and_then(|k| e.evidence.get(&k)).map_or(0.0, |c| c.mean);
         assert!((got - expected).abs() < 1e-5, "{got} vs {expected}");
         // The end symbol is used exactly once per aligned sample.
-        let end = e.evidence.get(&unigram_key(8)).copied().unwrap_or(0.0);
+        let end = e.evidence.get(&unigram_key(8)).map_or(0.0, |c| c.mean);
         assert!((end - 1.0).abs() < 1e-9);
     }
 
@@ -300,7 +308,7 @@ mod tests {
         let samples = vec![Sample { letters: vec![0], phones: vec![0] }, Sample { letters: vec![0, 0], phones: vec![0, 0] }];
         let beam = LatticeBeam { evidence_floor: 0.0, ..LatticeBeam::default() };
         let e = expectation(&samples, &inv, &NgramModel::uniform(4), 1, &beam);
-        let get = |g: u32| e.evidence.get(&unigram_key(g)).copied().unwrap_or(0.0);
+        let get = |g: u32| e.evidence.get(&unigram_key(g)).map_or(0.0, |c| c.mean);
         assert!(get(0) > get(1) && get(0) > get(2));
         // Total graphone evidence equals the expected number of graphones; end once per word.
         assert!((get(3) - 2.0).abs() < 1e-9);

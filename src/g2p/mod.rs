@@ -20,5 +20,5 @@ pub use em::LatticeBeam;
 pub use graphone::{strip_stress, LetterUnit, SymbolOptions, MAX_UNIT};
 pub use model::Model;
 pub use model_file::{ModelFileError, FORMAT_VERSION, MAGIC};
-pub use ngram::{Discount, DISCOUNT_CLASSES, MAX_ORDER};
+pub use ngram::{Count, Discount, DISCOUNT_CLASSES, MAX_ORDER};
 pub use train::{train, training_pairs, TrainError, TrainOptions, TrainProgress};

@@ -1,33 +1,35 @@
-//! The n-gram model over graphone sequences: evidence (fractional n-gram counts from the
+//! The n-gram model over graphone sequences: evidence (count distributions of n-grams from the
 //! E-step), smoothing, discount tuning on held-out evidence, and the compact back-off form used
 //! for look-ups. It owns no graphone spelling and no lattice; symbols are plain `u32` ids where
 //! `0..vocab-1` are graphones and `vocab-1` is the end-of-word symbol.
 //!
-//! Smoothing is interpolated modified Kneser–Ney, generalised to fractional evidence (Kneser &
-//! Ney, "Improved backing-off for m-gram language modeling", ICASSP 1995; Chen & Goodman, "An
-//! empirical study of smoothing techniques for language modeling", TR-10-98, Harvard, 1998, for
-//! the three discounts per order; Bisani & Ney 2008, section 3.3, for discounting evidence).
-//! Each order has three discounts `D₁, D₂, D₃₊`; an n-gram's discount `D(c)` is chosen by its
-//! evidence `c` rounded to the nearest integer (1 or less, 2, 3 or more) and never exceeds `c`.
-//! For a history `h` with evidence `c(h,q)` and total `T(h)`:
+//! Smoothing is interpolated modified Kneser–Ney on expected counts (Kneser & Ney, "Improved
+//! backing-off for m-gram language modeling", ICASSP 1995; Chen & Goodman, "An empirical study
+//! of smoothing techniques for language modeling", TR-10-98, Harvard, 1998, for the three
+//! discounts per order; Zhang & Chiang, "Kneser-Ney smoothing on expected counts", ACL 2014,
+//! for evidence that is uncertain). The E-step does not give an n-gram a count but a chance of
+//! occurring in each word, so its count is a random variable; each n-gram keeps the expected
+//! count `E[c]` and the probabilities of counts 0, 1 and 2 ([`Count`]). Each order has three
+//! discounts `D₁, D₂, D₃₊` and an n-gram loses their expectation
+//! `D(c) = D₁·P(c=1) + D₂·P(c=2) + D₃₊·P(c≥3)`. For a history `h` with total `T(h) = Σ_q E[c(h,q)]`:
 //!
-//! `p(q|h) = (c(h,q) - D(c(h,q))) / T(h) + γ(h) · p(q|h')`, `γ(h) = Σ_q D(c(h,q)) / T(h)`,
+//! `p(q|h) = (E[c(h,q)] - D(c(h,q))) / T(h) + γ(h) · p(q|h')`, `γ(h) = Σ_q D(c(h,q)) / T(h)`,
 //!
-//! where `h'` drops the oldest graphone. The lower-order evidence is the mass the discounts moved
-//! down: `c(h',q) = Σ_x D(c(x h',q))`, which for integer counts and `D ≤ 1` is proportional
-//! to the Kneser–Ney continuation count.
+//! where `h'` drops the oldest graphone. The lower-order evidence is the Kneser–Ney continuation
+//! count: `(h', q)` counts one for every `x` with `c(x h', q) ≥ 1`, so its distribution is that
+//! of a sum of independent events of probability `P(c(x h', q) ≥ 1)`. (On counts known for
+//! certain all of this is ordinary modified Kneser–Ney.)
 //!
 //! Word starts: histories are padded with `order-1` start symbols, so an n-gram near the start
 //! of a word such as `(S, S, S, a, b)` is the same event as `(S, a, b)`. Such padded n-grams
-//! (two leading start symbols) are not estimated at their own order — they hand their full
-//! evidence down and form no history there — so each word-start event is smoothed once, at
+//! (two leading start symbols) are not estimated at their own order — they hand their whole
+//! count down and form no history there — so each word-start event is smoothed once, at
 //! the shortest order holding it, like the `<s>` n-grams of Kneser–Ney, which have no
 //! continuation counts. (Counting them at every order discounts the same evidence again at
-//! each level, and the tuned discounts of high orders then run to the top of their range.)
-//! An n-gram `(S, a, b)` does pass only its discounted mass to `(a, b)`, since `a` also occurs
-//! after other graphones. The order-1 distribution is
-//! interpolated with the uniform distribution over the vocabulary, so every symbol has
-//! non-zero probability and each conditional distribution sums to one.
+//! each level.) An n-gram `(S, a, b)` passes a continuation count to `(a, b)`, since `a` also
+//! occurs after other graphones. The order-1 distribution is interpolated with the uniform
+//! distribution over the vocabulary, so every symbol has non-zero probability and each
+//! conditional distribution sums to one.
 
 use super::hash::FastMap;
 
@@ -76,55 +78,115 @@ pub fn key_of(history: &History, order: usize, symbol: u32) -> Key {
     k
 }
 
-/// Fractional n-gram evidence of one order (all keys have the same length).
-pub type Evidence = FastMap<Key, f64>;
+/// The evidence of one n-gram: a distribution over its count rather than a single fractional
+/// count (Zhang & Chiang, "Kneser-Ney smoothing on expected counts", ACL 2014). Each
+/// training word adds the n-gram's expected count in that word as independent events (see
+/// [`Count::from_expected`]); the sum over words is kept as the mean and the probabilities
+/// that the count is exactly 0, 1 or 2, which is all modified Kneser–Ney needs.
+///
+/// ```
+/// use orthoepy::g2p::Count;
+/// let mut c = Count::from_expected(0.5);
+/// c.add(&Count::from_expected(0.5));
+/// assert_eq!(c.mean, 1.0);
+/// assert_eq!(c.p, [0.25, 0.5, 0.25]); // two coin flips
+/// assert_eq!(c.seen(), 0.75);
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Count {
+    /// Expected count.
+    pub mean: f64,
+    /// Probabilities that the count is 0, 1 and 2.
+    pub p: [f64; 3],
+}
+
+impl Default for Count {
+    fn default() -> Self {
+        Count { mean: 0.0, p: [1.0, 0.0, 0.0] }
+    }
+}
+
+impl Count {
+    /// One word's expected count `e` of an n-gram: a single event of probability `e` when
+    /// `e ≤ 1`, otherwise `⌈e⌉` independent events of probability `e/⌈e⌉` each (an n-gram that
+    /// can occur more than once in a word).
+    ///
+    /// ```
+    /// use orthoepy::g2p::Count;
+    /// assert_eq!(Count::from_expected(0.25).p, [0.75, 0.25, 0.0]);
+    /// let twice = Count::from_expected(2.0); // certainly seen twice
+    /// assert_eq!((twice.mean, twice.p), (2.0, [0.0, 0.0, 1.0]));
+    /// ```
+    pub fn from_expected(e: f64) -> Count {
+        let e = e.max(0.0);
+        if e <= 1.0 {
+            return Count { mean: e, p: [1.0 - e, e, 0.0] };
+        }
+        let n = e.ceil();
+        let p = e / n;
+        let q = 1.0 - p;
+        Count { mean: e, p: [q.powf(n), n * p * q.powf(n - 1.0), n * (n - 1.0) / 2.0 * p * p * q.powf(n - 2.0)] }
+    }
+
+    /// Adds an independent count (the distributions are convolved).
+    pub fn add(&mut self, other: &Count) {
+        let [a0, a1, a2] = self.p;
+        let [b0, b1, b2] = other.p;
+        self.p = [a0 * b0, a1 * b0 + a0 * b1, a2 * b0 + a1 * b1 + a0 * b2];
+        self.mean += other.mean;
+    }
+
+    /// Probability that the n-gram was seen at all (count ≥ 1).
+    pub fn seen(&self) -> f64 {
+        (1.0 - self.p[0]).clamp(0.0, 1.0)
+    }
+
+    /// Probabilities of the three discount classes: count 1, count 2, count 3 or more.
+    fn classes(&self) -> [f64; DISCOUNT_CLASSES] {
+        let [p0, p1, p2] = self.p;
+        [p1, p2, (1.0 - p0 - p1 - p2).max(0.0)]
+    }
+}
+
+/// The evidence of every n-gram of one order (all keys have the same length).
+pub type Evidence = FastMap<Key, Count>;
 
 /// Adds `other` into `into`.
 pub fn merge_evidence(into: &mut Evidence, other: Evidence) {
     for (k, v) in other {
-        *into.entry(k).or_insert(0.0) += v;
+        into.entry(k).or_default().add(&v);
     }
 }
 
 /// Number of evidence classes with their own discount in each order.
 pub const DISCOUNT_CLASSES: usize = 3;
 
-/// The discounts of one order: for evidence that rounds to 1 or less, to 2, and to 3 or more
-/// (the three discounts of modified Kneser–Ney, Chen & Goodman 1998).
+/// The discounts of one order: for a count of 1, of 2 and of 3 or more (the three discounts
+/// of modified Kneser–Ney, Chen & Goodman 1998). On a count distribution the discount is its
+/// expectation, `D₁·P(c=1) + D₂·P(c=2) + D₃₊·P(c≥3)` (Zhang & Chiang 2014).
 ///
 /// ```
-/// use orthoepy::g2p::Discount;
+/// use orthoepy::g2p::{Count, Discount};
 /// let d = Discount([0.7, 1.1, 1.4]);
-/// assert_eq!(d.moved(0.4), 0.4); // never more than the evidence itself
-/// assert_eq!(d.moved(1.2), 0.7);
-/// assert_eq!(d.moved(2.2), 1.1);
-/// assert_eq!(d.moved(9.0), 1.4);
+/// assert_eq!(d.moved(&Count::from_expected(1.0)), 0.7);
+/// assert!((d.moved(&Count::from_expected(0.5)) - 0.35).abs() < 1e-12);
+/// assert!((d.moved(&Count::from_expected(2.0)) - 1.1).abs() < 1e-12);
 /// ```
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Discount(pub [f64; DISCOUNT_CLASSES]);
 
 impl Discount {
-    /// The same discount for every evidence class (plain absolute discounting).
+    /// The same discount for every count class (plain absolute discounting).
     pub fn flat(d: f64) -> Discount {
         Discount([d; DISCOUNT_CLASSES])
     }
 
-    /// The evidence class of `c`: 0 below 1.5, 1 below 2.5, 2 otherwise.
+    /// The expected mass moved from an n-gram with count distribution `c` to the lower order,
+    /// never more than its expected count.
     #[inline]
-    fn class(c: f64) -> usize {
-        if c < 1.5 {
-            0
-        } else if c < 2.5 {
-            1
-        } else {
-            2
-        }
-    }
-
-    /// The mass moved from evidence `c` to the lower order: `min(c, D(c))`.
-    #[inline]
-    pub fn moved(&self, c: f64) -> f64 {
-        c.min(self.0[Discount::class(c)])
+    pub fn moved(&self, c: &Count) -> f64 {
+        let q = c.classes();
+        (self.0[0] * q[0] + self.0[1] * q[1] + self.0[2] * q[2]).min(c.mean)
     }
 
     /// Whether every discount is finite.
@@ -152,7 +214,7 @@ fn padded(key: &Key) -> bool {
     key[0] == START && key[1] == START
 }
 
-/// Per-history totals of one order: `(T(h), Σ_q D(c(h,q)))`.
+/// Per-history totals of one order: `(T(h), Σ_q D(c(h,q)))`, both expectations.
 type Totals = FastMap<History, (f64, f64)>;
 
 /// Evidence of every order derived from the top order, plus per-history totals.
@@ -164,39 +226,38 @@ struct Levels {
 
 impl Levels {
     /// Derives lower orders from `top` (evidence of order `discounts.len()`), see module docs.
+    /// The lower orders hold continuation counts, which do not depend on the discounts.
     fn derive(top: &Evidence, discounts: &[Discount]) -> Levels {
         let order = discounts.len();
         let mut levels = Levels { order, counts: vec![Evidence::default(); order], totals: vec![Totals::default(); order] };
-        levels.rederive(top, discounts, order);
+        for k in (2..=order).rev() {
+            let mut lower = Evidence::default();
+            for (key, c) in levels.source(top, k) {
+                let passed = if padded(key) { *c } else { Count::from_expected(c.seen()) };
+                lower.entry(drop_oldest(key)).or_default().add(&passed);
+            }
+            levels.counts[k - 2] = lower;
+        }
+        for k in 1..=order {
+            levels.retotal(top, discounts, k);
+        }
         levels
     }
 
-    /// Recomputes what the discounts of `changed` (1-based) and below determine: the evidence
-    /// of every lower order and the totals of `changed` and below. Higher orders are kept, so
-    /// tuning one order's discounts costs only the orders beneath it.
-    fn rederive(&mut self, top: &Evidence, discounts: &[Discount], changed: usize) {
-        for k in (2..=changed).rev() {
-            let d = discounts[k - 1];
-            let mut lower = Evidence::default();
-            for (key, &c) in self.source(top, k) {
-                let moved = if padded(key) { c } else { d.moved(c) };
-                *lower.entry(drop_oldest(key)).or_insert(0.0) += moved;
+    /// Recomputes the totals of order `k` (1-based), the only part of the model that the
+    /// discounts of that order determine besides its probabilities.
+    fn retotal(&mut self, top: &Evidence, discounts: &[Discount], k: usize) {
+        let d = discounts[k - 1];
+        let mut t = Totals::default();
+        for (key, c) in self.source(top, k) {
+            if padded(key) {
+                continue;
             }
-            self.counts[k - 2] = lower;
+            let e = t.entry(history_of(key, k - 1)).or_insert((0.0, 0.0));
+            e.0 += c.mean;
+            e.1 += d.moved(c);
         }
-        for k in 1..=changed {
-            let d = discounts[k - 1];
-            let mut t = Totals::default();
-            for (key, &c) in self.source(top, k) {
-                if padded(key) {
-                    continue;
-                }
-                let e = t.entry(history_of(key, k - 1)).or_insert((0.0, 0.0));
-                e.0 += c;
-                e.1 += d.moved(c);
-            }
-            self.totals[k - 1] = t;
-        }
+        self.totals[k - 1] = t;
     }
 
     /// The evidence of order `k` (1-based).
@@ -216,17 +277,17 @@ impl Levels {
             sub[..k].copy_from_slice(&key[n - k..n]);
             if let Some(&(total, kept)) = self.totals[k - 1].get(&history_of(&sub, k - 1)) {
                 if total > 0.0 {
-                    let c = self.source(top, k).get(&sub).copied().unwrap_or(0.0);
-                    p = (c - discounts[k - 1].moved(c)) / total + kept / total * p;
+                    let c = self.source(top, k).get(&sub).copied().unwrap_or_default();
+                    p = (c.mean - discounts[k - 1].moved(&c)) / total + kept / total * p;
                 }
             }
         }
         p
     }
 
-    /// Log-likelihood of `heldout` evidence (keys of the top order).
+    /// Log-likelihood of `heldout` evidence (keys of the top order, weighted by their mean).
     fn log_likelihood(&self, top: &Evidence, heldout: &Evidence, discounts: &[Discount], vocab: usize) -> f64 {
-        heldout.iter().map(|(key, &e)| e * self.prob(top, discounts, vocab, key, self.order).max(1e-300).ln()).sum()
+        heldout.iter().map(|(key, e)| e.mean * self.prob(top, discounts, vocab, key, self.order).max(1e-300).ln()).sum()
     }
 }
 
@@ -236,16 +297,16 @@ fn heldout_log_likelihood(top: &Evidence, heldout: &Evidence, discounts: &[Disco
     Levels::derive(top, discounts).log_likelihood(top, heldout, discounts, vocab)
 }
 
-/// Lowest and highest value tried for each discount class when tuning. A class's discount
-/// above its largest evidence (1.5, 2.5) would act as that evidence, so the ranges stop there.
-const DISCOUNT_RANGES: [(f64, f64); DISCOUNT_CLASSES] = [(0.02, 1.5), (0.02, 2.5), (0.02, 6.0)];
+/// Lowest and highest value tried for each discount class when tuning: a count of `r` is
+/// never discounted by more than `r`, so every n-gram keeps a non-negative expected mass.
+const DISCOUNT_RANGES: [(f64, f64); DISCOUNT_CLASSES] = [(0.02, 1.0), (0.02, 2.0), (0.02, 3.0)];
 
 /// Tunes the discounts (one coordinate sweep, highest order first and within an order the
-/// class of the largest evidence first, golden-section search of `steps` evaluations each) to
+/// class of the largest counts first, golden-section search of `steps` evaluations each) to
 /// maximise the held-out log-likelihood; returns the tuned discounts and that log-likelihood.
 /// `initial.len()` is the order.
 pub fn tune_discounts(top: &Evidence, heldout: &Evidence, initial: &[Discount], vocab: usize, steps: usize) -> (Vec<Discount>, f64) {
-    let mut discounts = initial.to_vec();
+    let mut discounts: Vec<Discount> = initial.iter().map(|d| Discount(std::array::from_fn(|c| d.0[c].clamp(DISCOUNT_RANGES[c].0, DISCOUNT_RANGES[c].1)))).collect();
     if heldout.is_empty() {
         return (discounts, 0.0);
     }
@@ -255,7 +316,7 @@ pub fn tune_discounts(top: &Evidence, heldout: &Evidence, initial: &[Discount], 
         for class in (0..DISCOUNT_CLASSES).rev() {
             let mut eval = |d: f64, ds: &mut Vec<Discount>| {
                 ds[k].0[class] = d;
-                levels.rederive(top, ds, k + 1);
+                levels.retotal(top, ds, k + 1);
                 levels.log_likelihood(top, heldout, ds, vocab)
             };
             let (mut lo, mut hi) = DISCOUNT_RANGES[class];
@@ -279,7 +340,7 @@ pub fn tune_discounts(top: &Evidence, heldout: &Evidence, initial: &[Discount], 
                 }
             }
             discounts[k].0[class] = if f1 > f2 { x1 } else { x2 };
-            levels.rederive(top, &discounts, k + 1);
+            levels.retotal(top, &discounts, k + 1);
         }
     }
     let ll = levels.log_likelihood(top, heldout, &discounts, vocab);
@@ -371,8 +432,8 @@ impl NgramModel {
         let mut by_history: FastMap<History, Vec<(u32, f32)>> = FastMap::default();
         for k in 2..=order {
             let d = discounts[k - 1];
-            for (key, &c) in levels.source(top, k) {
-                if d.moved(c) >= c || padded(key) {
+            for (key, c) in levels.source(top, k) {
+                if c.mean - d.moved(c) <= 0.0 || padded(key) {
                     continue;
                 }
                 let lp = levels.prob(top, discounts, vocab, key, k).max(1e-300).ln() as f32;
@@ -597,7 +658,7 @@ mod tests {
             let mut k = [NONE; MAX_ORDER];
             k[0] = h;
             k[1] = q;
-            e.insert(k, c);
+            e.insert(k, Count::from_expected(c));
         };
         add(START, 0, 3.0);
         add(START, 1, 1.0);
@@ -629,7 +690,7 @@ mod tests {
         for (a, b, q, c) in [(START, START, 0, 2.0), (START, 0, 1, 2.0), (0, 1, 2, 1.5), (0, 1, 0, 0.5), (1, 0, 2, 0.5)] {
             let mut k = [NONE; MAX_ORDER];
             k[..3].copy_from_slice(&[a, b, q]);
-            e.insert(k, c);
+            e.insert(k, Count::from_expected(c));
         }
         let m = NgramModel::estimate(&e, &flat(&[0.3, 0.6, 0.9]), 3);
         for (a, b) in [(START, START), (0, 1), (1, 1), (1, 0)] {
@@ -647,7 +708,7 @@ mod tests {
         for (word, weight) in words {
             let mut h = start_history(order);
             for &q in word {
-                *e.entry(key_of(&h, order, q)).or_insert(0.0) += weight;
+                e.entry(key_of(&h, order, q)).or_default().add(&Count::from_expected(weight));
                 h = push_history(&h, order, q);
             }
         }
@@ -730,13 +791,45 @@ mod tests {
     }
 
     #[test]
-    fn evidence_classes_follow_rounded_counts() {
-        // Chen & Goodman 1998: one discount for counts of 1, one for 2, one for 3 and more;
-        // fractional evidence takes the class of its nearest integer, and no n-gram loses more
-        // than its own evidence.
+    fn expected_discounts_reduce_to_modified_kneser_ney_on_whole_counts() {
+        // Zhang & Chiang 2014: on counts known for certain, the expected discount is Chen &
+        // Goodman's D(c); on uncertain counts it is the discount averaged over the count's
+        // distribution. Two words each holding the n-gram with probability 0.5 give counts
+        // 0, 1, 2 with probabilities 1/4, 1/2, 1/4 (a binomial, worked by hand).
         let d = Discount([0.5, 1.0, 2.0]);
-        assert_eq!([d.moved(0.3), d.moved(1.49), d.moved(1.5), d.moved(2.49), d.moved(2.5), d.moved(40.0)], [0.3, 0.5, 1.0, 1.0, 2.0, 2.0]);
-        assert_eq!(Discount([3.0, 3.0, 3.0]).moved(2.0), 2.0);
+        let certain = |n: usize| {
+            let mut c = Count::default();
+            (0..n).for_each(|_| c.add(&Count::from_expected(1.0)));
+            c
+        };
+        assert_eq!([1, 2, 3, 40].map(|n| d.moved(&certain(n))), [0.5, 1.0, 2.0, 2.0]);
+        let mut c = Count::from_expected(0.5);
+        c.add(&Count::from_expected(0.5));
+        assert!((d.moved(&c) - (0.5 * 0.5 + 1.0 * 0.25)).abs() < 1e-12);
+        // A single uncertain event loses the singleton discount in proportion to its chance.
+        assert!((d.moved(&Count::from_expected(0.3)) - 0.15).abs() < 1e-12);
+        // One word with an expected count of 1.5: two events of 0.75 each.
+        let c = Count::from_expected(1.5);
+        assert!((c.p[0] - 0.0625).abs() < 1e-12 && (c.p[1] - 0.375).abs() < 1e-12 && (c.p[2] - 0.5625).abs() < 1e-12);
+    }
+
+    #[test]
+    fn lower_orders_hold_expected_continuation_counts() {
+        // Kneser & Ney 1995: the lower-order count of (q) is the number of distinct histories
+        // q was seen after; with uncertain evidence its expectation Σ_h P(c(h,q) ≥ 1) (Zhang &
+        // Chiang 2014). Symbol 2 follows 0 (one word, expected count 0.5) and 1 (one word, 3.5:
+        // four events of 0.875, unseen with probability 0.125⁴), so its expected continuation
+        // count is 0.5 + (1 − 0.125⁴).
+        let e = bigram_evidence();
+        let levels = Levels::derive(&e, &flat(&[0.4, 0.7]));
+        let unigram = |q: u32| {
+            let mut k = [NONE; MAX_ORDER];
+            k[0] = q;
+            levels.counts[0].get(&k).copied().unwrap_or_default()
+        };
+        assert!((unigram(2).mean - (0.5 + 1.0 - 0.125f64.powi(4))).abs() < 1e-12);
+        // Symbol 0 follows START (one padding only: a continuation, seen for certain) and 1.
+        assert!((unigram(0).mean - (1.0 + 0.25)).abs() < 1e-12);
     }
 
     #[test]
@@ -753,11 +846,11 @@ mod tests {
             k
         };
         for q in 0..8 {
-            e.insert(key(0, q), 1.0);
+            e.insert(key(0, q), Count::from_expected(1.0));
         }
-        e.insert(key(0, 8), 30.0);
-        held.insert(key(0, 8), 30.0);
-        held.insert(key(0, 9), 3.0);
+        e.insert(key(0, 8), Count::from_expected(30.0));
+        held.insert(key(0, 8), Count::from_expected(30.0));
+        held.insert(key(0, 9), Count::from_expected(3.0));
         let (_, flat_best) = (1..300).map(|i| f64::from(i) * 0.02).map(|d| (d, heldout_log_likelihood(&e, &held, &flat(&[0.5, d]), 10))).fold((0.0, f64::MIN), |a, b| if b.1 > a.1 { b } else { a });
         let (tuned, ll) = tune_discounts(&e, &held, &flat(&[0.5, 0.5]), 10, 20);
         assert!(ll > flat_best + 1e-3, "{ll} vs flat {flat_best}, {tuned:?}");
@@ -771,7 +864,7 @@ mod tests {
         let mut k = [NONE; MAX_ORDER];
         k[0] = 1;
         k[1] = 1;
-        heldout.insert(k, 1.0); // an n-gram unseen in training: favours larger discounts
+        heldout.insert(k, Count::from_expected(1.0)); // an n-gram unseen in training: favours larger discounts
         let before = heldout_log_likelihood(&e, &heldout, &flat(&[0.05, 0.05]), 3);
         let (d, after) = tune_discounts(&e, &heldout, &flat(&[0.05, 0.05]), 3, 12);
         assert!(after > before, "{after} <= {before} with {d:?}");

@@ -161,9 +161,9 @@ fn candidate_inventory(samples: &[Sample], max_letters: usize, max_phones: usize
 /// Drops graphones with too little order-1 evidence; returns the new inventory and the id map.
 fn trim(inv: &Inventory, evidence: &Evidence, min: f64) -> (Inventory, Vec<u32>) {
     let mut mass = vec![0.0; inv.len()];
-    for (k, &v) in evidence {
+    for (k, v) in evidence {
         if let Some(m) = mass.get_mut(k[0] as usize) {
-            *m += v;
+            *m += v.mean;
         }
     }
     let kept: Vec<Graphone> = inv.graphones().iter().zip(&mass).filter(|(_, &m)| m >= min).map(|(g, _)| g.clone()).collect();
@@ -195,7 +195,7 @@ fn remap(evidence: Evidence, map: &[u32]) -> Evidence {
                 },
             };
         }
-        *out.entry(nk).or_insert(0.0) += v;
+        out.entry(nk).or_default().add(&v);
     }
     out
 }
