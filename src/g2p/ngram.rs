@@ -226,22 +226,28 @@ struct Levels {
 
 impl Levels {
     /// Derives lower orders from `top` (evidence of order `discounts.len()`), see module docs.
-    /// The lower orders hold continuation counts, which do not depend on the discounts.
     fn derive(top: &Evidence, discounts: &[Discount]) -> Levels {
         let order = discounts.len();
         let mut levels = Levels { order, counts: vec![Evidence::default(); order], totals: vec![Totals::default(); order] };
-        for k in (2..=order).rev() {
+        levels.rederive(top, discounts, order);
+        levels
+    }
+
+    /// Recomputes what the discounts of `changed` (1-based) and below determine: the evidence
+    /// of every lower order and the totals of `changed` and below.
+    fn rederive(&mut self, top: &Evidence, discounts: &[Discount], changed: usize) {
+        for k in (2..=changed).rev() {
+            let d = discounts[k - 1];
             let mut lower = Evidence::default();
-            for (key, c) in levels.source(top, k) {
-                let passed = if padded(key) { *c } else { Count::from_expected(c.seen()) };
+            for (key, c) in self.source(top, k) {
+                let passed = if padded(key) { *c } else { Count::from_expected(d.moved(c)) };
                 lower.entry(drop_oldest(key)).or_default().add(&passed);
             }
-            levels.counts[k - 2] = lower;
+            self.counts[k - 2] = lower;
         }
-        for k in 1..=order {
-            levels.retotal(top, discounts, k);
+        for k in 1..=changed {
+            self.retotal(top, discounts, k);
         }
-        levels
     }
 
     /// Recomputes the totals of order `k` (1-based), the only part of the model that the
@@ -316,7 +322,7 @@ pub fn tune_discounts(top: &Evidence, heldout: &Evidence, initial: &[Discount], 
         for class in (0..DISCOUNT_CLASSES).rev() {
             let mut eval = |d: f64, ds: &mut Vec<Discount>| {
                 ds[k].0[class] = d;
-                levels.retotal(top, ds, k + 1);
+                levels.rederive(top, ds, k + 1);
                 levels.log_likelihood(top, heldout, ds, vocab)
             };
             let (mut lo, mut hi) = DISCOUNT_RANGES[class];
@@ -340,7 +346,7 @@ pub fn tune_discounts(top: &Evidence, heldout: &Evidence, initial: &[Discount], 
                 }
             }
             discounts[k].0[class] = if f1 > f2 { x1 } else { x2 };
-            levels.retotal(top, &discounts, k + 1);
+            levels.rederive(top, &discounts, k + 1);
         }
     }
     let ll = levels.log_likelihood(top, heldout, &discounts, vocab);
