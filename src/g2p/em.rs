@@ -1,6 +1,8 @@
 //! The expectation step of joint-sequence training (Bisani & Ney 2008, section 3.2): for each
 //! (spelling, pronunciation) pair, forward–backward over *all* segmentations into graphones
-//! under the current n-gram model, giving fractional n-gram evidence. With an order-1 model the
+//! under the current n-gram model, giving n-gram evidence: each pair adds, for every n-gram, its
+//! expected count in that pair as one word's count distribution (see `ngram::Count`), which the
+//! smoothing's expected discounts need. With an order-1 model the
 //! lattice has one state per (letter, phone) position and the sums are exact; for higher orders
 //! a state also carries the graphone history, and each position keeps only its best states
 //! (beam on the forward score), so the sums run over the surviving segmentations.
