@@ -219,99 +219,176 @@ fn padded(key: &Key) -> bool {
     key[0] == START && key[1] == START
 }
 
-/// Per-history totals of one order: `(T(h), Σ_q D(c(h,q)))`, both expectations.
-type Totals = FastMap<History, (f64, f64)>;
+/// One order's evidence in flat form: its n-grams in a fixed order, their counts, and by
+/// index the n-gram one order lower and the history of each, so that re-deriving the lower
+/// orders under new discounts (done many times while tuning) needs no hashing.
+#[derive(Default)]
+struct Level {
+    keys: Vec<Key>,
+    counts: Vec<Count>,
+    /// Per n-gram: index in the level below of the n-gram without its oldest symbol.
+    lower: Vec<u32>,
+    /// Per n-gram: index of its history in `totals`; [`NONE`] for padded n-grams.
+    history: Vec<u32>,
+    /// Per history: `(T(h), Σ_q D(c(h,q)))`, both expectations.
+    totals: Vec<(f64, f64)>,
+}
 
-/// Evidence of every order derived from the top order, plus per-history totals.
+/// Where the model finds an n-gram of the top order and each of its suffixes: per order `j`
+/// (slot `j-1`), the index of the suffix of length `j` in that level and the index of the
+/// suffix's history, each [`NONE`] where the level does not hold it.
+type Chain = [(u32, u32); MAX_ORDER];
+
+/// Evidence of every order derived from the top order, plus per-history totals
+/// (`levels[k-1]` is order `k`).
 struct Levels {
-    order: usize,
-    counts: Vec<Evidence>,
-    totals: Vec<Totals>,
+    levels: Vec<Level>,
 }
 
 impl Levels {
-    /// Derives lower orders from `top` (evidence of order `discounts.len()`), see module docs.
-    fn derive(top: &Evidence, discounts: &[Discount]) -> Levels {
+    /// Derives the lower orders from `top` (evidence of order `discounts.len()`, see module
+    /// docs) and returns the chains of the top-order n-grams `lookups`.
+    fn derive(top: &Evidence, discounts: &[Discount], lookups: &[Key]) -> (Levels, Vec<Chain>) {
         let order = discounts.len();
-        let mut levels = Levels { order, counts: vec![Evidence::default(); order], totals: vec![Totals::default(); order] };
-        levels.rederive(top, discounts, order);
-        levels
+        let mut levels: Vec<Level> = (0..order).map(|_| Level::default()).collect();
+        let mut histories: Vec<FastMap<History, u32>> = vec![FastMap::default(); order];
+        levels[order - 1].keys = top.keys().copied().collect();
+        levels[order - 1].counts = top.values().copied().collect();
+        for k in (1..=order).rev() {
+            let (below, here) = levels.split_at_mut(k - 1);
+            let level = &mut here[0];
+            let map = &mut histories[k - 1];
+            level.history = level
+                .keys
+                .iter()
+                .map(|key| {
+                    if padded(key) {
+                        return NONE;
+                    }
+                    let next = map.len() as u32;
+                    *map.entry(history_of(key, k - 1)).or_insert(next)
+                })
+                .collect();
+            level.totals = vec![(0.0, 0.0); map.len()];
+            if k > 1 {
+                let lower = &mut below[k - 2];
+                let mut index: FastMap<Key, u32> = FastMap::default();
+                level.lower = level
+                    .keys
+                    .iter()
+                    .map(|key| {
+                        let short = drop_oldest(key);
+                        *index.entry(short).or_insert_with(|| {
+                            lower.keys.push(short);
+                            (lower.keys.len() - 1) as u32
+                        })
+                    })
+                    .collect();
+                lower.counts = vec![Count::default(); lower.keys.len()];
+            }
+        }
+        let chains = chains_of(&levels, &histories, lookups);
+        let mut levels = Levels { levels };
+        levels.rederive(discounts, order);
+        (levels, chains)
     }
 
     /// Recomputes what the discounts of `changed` (1-based) and below determine: the evidence
-    /// of every lower order and the totals of `changed` and below.
-    fn rederive(&mut self, top: &Evidence, discounts: &[Discount], changed: usize) {
+    /// of every lower order and the totals of `changed` and below. Higher orders are kept, so
+    /// tuning one order's discounts costs only the orders beneath it.
+    fn rederive(&mut self, discounts: &[Discount], changed: usize) {
         for k in (2..=changed).rev() {
             let d = discounts[k - 1];
-            let mut lower = Evidence::with_capacity_and_hasher(self.counts[k - 2].len(), Default::default());
-            for (key, c) in self.source(top, k) {
-                let passed = if padded(key) { *c } else { Count::from_expected(d.moved(c)) };
-                lower.entry(drop_oldest(key)).or_default().add(&passed);
+            let (below, here) = self.levels.split_at_mut(k - 1);
+            let (upper, lower) = (&here[0], &mut below[k - 2]);
+            lower.counts.iter_mut().for_each(|c| *c = Count::default());
+            for ((c, &to), &history) in upper.counts.iter().zip(&upper.lower).zip(&upper.history) {
+                let passed = if history == NONE { *c } else { Count::from_expected(d.moved(c)) };
+                lower.counts[to as usize].add(&passed);
             }
-            self.counts[k - 2] = lower;
         }
         for k in 1..=changed {
-            self.retotal(top, discounts, k);
-        }
-    }
-
-    /// Recomputes the totals of order `k` (1-based), the only part of the model that the
-    /// discounts of that order determine besides its probabilities.
-    fn retotal(&mut self, top: &Evidence, discounts: &[Discount], k: usize) {
-        let d = discounts[k - 1];
-        let mut t = Totals::default();
-        for (key, c) in self.source(top, k) {
-            if padded(key) {
-                continue;
-            }
-            let e = t.entry(history_of(key, k - 1)).or_insert((0.0, 0.0));
-            e.0 += c.mean;
-            e.1 += d.moved(c);
-        }
-        self.totals[k - 1] = t;
-    }
-
-    /// The evidence of order `k` (1-based).
-    fn source<'a>(&'a self, top: &'a Evidence, k: usize) -> &'a Evidence {
-        if k == self.order {
-            top
-        } else {
-            &self.counts[k - 1]
-        }
-    }
-
-    /// Interpolated probability of the last symbol of `key`, an n-gram of length `n`.
-    fn prob(&self, top: &Evidence, discounts: &[Discount], vocab: usize, key: &Key, n: usize) -> f64 {
-        let mut p = 1.0 / vocab as f64;
-        for k in 1..=n {
-            let mut sub = [NONE; MAX_ORDER];
-            sub[..k].copy_from_slice(&key[n - k..n]);
-            if let Some(&(total, kept)) = self.totals[k - 1].get(&history_of(&sub, k - 1)) {
-                if total > 0.0 {
-                    let c = self.source(top, k).get(&sub).copied().unwrap_or_default();
-                    p = (c.mean - discounts[k - 1].moved(&c)) / total + kept / total * p;
+            let d = discounts[k - 1];
+            let level = &mut self.levels[k - 1];
+            level.totals.iter_mut().for_each(|t| *t = (0.0, 0.0));
+            for (c, &history) in level.counts.iter().zip(&level.history) {
+                if let Some(t) = level.totals.get_mut(history as usize) {
+                    t.0 += c.mean;
+                    t.1 += d.moved(c);
                 }
+            }
+        }
+    }
+
+    /// The chain of the n-gram at `index` in order `k`: itself, then its suffixes.
+    fn chain_of_entry(&self, k: usize, index: usize) -> Chain {
+        let mut chain = [(NONE, NONE); MAX_ORDER];
+        let mut i = index;
+        for j in (1..=k).rev() {
+            let level = &self.levels[j - 1];
+            chain[j - 1] = (i as u32, level.history[i]);
+            if j > 1 {
+                i = level.lower[i] as usize;
+            }
+        }
+        chain
+    }
+
+    /// Interpolated probability of the n-gram of length `n` whose chain is `chain`.
+    fn prob(&self, discounts: &[Discount], vocab: usize, chain: &Chain, n: usize) -> f64 {
+        let mut p = 1.0 / vocab as f64;
+        for (j, &(entry, history)) in chain.iter().enumerate().take(n) {
+            let level = &self.levels[j];
+            let Some(&(total, kept)) = level.totals.get(history as usize) else { continue };
+            if total > 0.0 {
+                let c = level.counts.get(entry as usize).copied().unwrap_or_default();
+                p = (c.mean - discounts[j].moved(&c)) / total + kept / total * p;
             }
         }
         p
     }
 
-    /// Log-likelihood of held-out evidence (keys of the top order with their expected counts),
-    /// computed in parallel.
-    fn log_likelihood(&self, top: &Evidence, heldout: &[(Key, f64)], discounts: &[Discount], vocab: usize) -> f64 {
-        heldout.par_iter().map(|(key, mean)| mean * self.prob(top, discounts, vocab, key, self.order).max(1e-300).ln()).sum()
+    /// Log-likelihood of held-out evidence (chains of top-order n-grams with their expected
+    /// counts), computed in parallel.
+    fn log_likelihood(&self, heldout: &[(Chain, f64)], discounts: &[Discount], vocab: usize) -> f64 {
+        let n = self.levels.len();
+        heldout.par_iter().map(|(chain, mean)| mean * self.prob(discounts, vocab, chain, n).max(1e-300).ln()).sum()
     }
 }
 
-/// Held-out evidence as a list of (n-gram, expected count), for parallel scoring.
-fn heldout_list(heldout: &Evidence) -> Vec<(Key, f64)> {
-    heldout.iter().map(|(key, c)| (*key, c.mean)).collect()
+/// Finds the chains of the top-order n-grams `lookups` in `levels`, whose histories are
+/// indexed by `histories`.
+fn chains_of(levels: &[Level], histories: &[FastMap<History, u32>], lookups: &[Key]) -> Vec<Chain> {
+    let n = levels.len();
+    let mut chains = vec![[(NONE, NONE); MAX_ORDER]; lookups.len()];
+    for j in 1..=n {
+        let suffix = |key: &Key| {
+            let mut sub = [NONE; MAX_ORDER];
+            sub[..j].copy_from_slice(&key[n - j..n]);
+            sub
+        };
+        let mut wanted: FastMap<Key, u32> = lookups.iter().map(|key| (suffix(key), NONE)).collect();
+        for (i, key) in levels[j - 1].keys.iter().enumerate() {
+            if let Some(slot) = wanted.get_mut(key) {
+                *slot = i as u32;
+            }
+        }
+        for (chain, key) in chains.iter_mut().zip(lookups) {
+            let sub = suffix(key);
+            let history = if padded(&sub) { None } else { histories[j - 1].get(&history_of(&sub, j - 1)) };
+            chain[j - 1] = (wanted.get(&sub).copied().unwrap_or(NONE), history.copied().unwrap_or(NONE));
+        }
+    }
+    chains
 }
 
 /// Log-likelihood of `heldout` evidence under the model smoothed from `top` with `discounts`.
 #[cfg(test)]
 fn heldout_log_likelihood(top: &Evidence, heldout: &Evidence, discounts: &[Discount], vocab: usize) -> f64 {
-    Levels::derive(top, discounts).log_likelihood(top, &heldout_list(heldout), discounts, vocab)
+    let (keys, means): (Vec<Key>, Vec<f64>) = heldout.iter().map(|(k, c)| (*k, c.mean)).unzip();
+    let (levels, chains) = Levels::derive(top, discounts, &keys);
+    let scored: Vec<(Chain, f64)> = chains.into_iter().zip(means).collect();
+    levels.log_likelihood(&scored, discounts, vocab)
 }
 
 /// Lowest and highest value tried for each discount class when tuning: a count of `r` is
@@ -328,16 +405,16 @@ pub fn tune_discounts(top: &Evidence, heldout: &Evidence, initial: &[Discount], 
     if heldout.is_empty() {
         return (discounts, 0.0);
     }
-    let heldout = heldout_list(heldout);
-    let heldout = heldout.as_slice();
-    let mut levels = Levels::derive(top, &discounts);
+    let (keys, means): (Vec<Key>, Vec<f64>) = heldout.iter().map(|(k, c)| (*k, c.mean)).unzip();
+    let (mut levels, chains) = Levels::derive(top, &discounts, &keys);
+    let heldout: Vec<(Chain, f64)> = chains.into_iter().zip(means).collect();
     let phi = (5f64.sqrt() - 1.0) / 2.0;
     for k in (0..discounts.len()).rev() {
         for class in (0..DISCOUNT_CLASSES).rev() {
             let mut eval = |d: f64, ds: &mut Vec<Discount>| {
                 ds[k].0[class] = d;
-                levels.rederive(top, ds, k + 1);
-                levels.log_likelihood(top, heldout, ds, vocab)
+                levels.rederive(ds, k + 1);
+                levels.log_likelihood(&heldout, ds, vocab)
             };
             let (mut lo, mut hi) = DISCOUNT_RANGES[class];
             let mut x1 = hi - phi * (hi - lo);
@@ -360,10 +437,10 @@ pub fn tune_discounts(top: &Evidence, heldout: &Evidence, initial: &[Discount], 
                 }
             }
             discounts[k].0[class] = if f1 > f2 { x1 } else { x2 };
-            levels.rederive(top, &discounts, k + 1);
+            levels.rederive(&discounts, k + 1);
         }
     }
-    let ll = levels.log_likelihood(top, heldout, &discounts, vocab);
+    let ll = levels.log_likelihood(&heldout, &discounts, vocab);
     (discounts, ll)
 }
 
@@ -441,33 +518,41 @@ impl NgramModel {
     /// Smooths `top` (evidence of order `discounts.len()`) into a model; see the module docs.
     pub fn estimate(top: &Evidence, discounts: &[Discount], vocab: usize) -> NgramModel {
         let order = discounts.len();
-        let levels = Levels::derive(top, discounts);
-        let unigram: Vec<f32> = (0..vocab as u32)
-            .map(|q| {
-                let mut key = [NONE; MAX_ORDER];
-                key[0] = q;
-                (levels.prob(top, discounts, vocab, &key, 1).max(1e-300).ln()) as f32
+        let (levels, _) = Levels::derive(top, discounts, &[]);
+        let first = &levels.levels[0];
+        let mut unigram_chains = vec![[(NONE, NONE); MAX_ORDER]; vocab];
+        for (i, key) in first.keys.iter().enumerate() {
+            if let Some(chain) = unigram_chains.get_mut(key[0] as usize) {
+                *chain = levels.chain_of_entry(1, i);
+            }
+        }
+        let empty_history = if first.totals.is_empty() { NONE } else { 0 };
+        let unigram: Vec<f32> = unigram_chains
+            .iter_mut()
+            .map(|chain| {
+                chain[0].1 = empty_history;
+                (levels.prob(discounts, vocab, chain, 1).max(1e-300).ln()) as f32
             })
             .collect();
-        let mut by_history: FastMap<History, Vec<(u32, f32)>> = FastMap::default();
+        let mut by_history: FastMap<(usize, u32), (History, Vec<(u32, f32)>)> = FastMap::default();
         for k in 2..=order {
             let d = discounts[k - 1];
-            for (key, c) in levels.source(top, k) {
-                if c.mean - d.moved(c) <= 0.0 || padded(key) {
+            let level = &levels.levels[k - 1];
+            for (i, (key, c)) in level.keys.iter().zip(&level.counts).enumerate() {
+                if c.mean - d.moved(c) <= 0.0 || level.history[i] == NONE {
                     continue;
                 }
-                let lp = levels.prob(top, discounts, vocab, key, k).max(1e-300).ln() as f32;
-                by_history.entry(history_of(key, k - 1)).or_default().push((key[k - 1], lp));
+                let lp = levels.prob(discounts, vocab, &levels.chain_of_entry(k, i), k).max(1e-300).ln() as f32;
+                by_history.entry((k, level.history[i])).or_insert_with(|| (history_of(key, k - 1), Vec::new())).1.push((key[k - 1], lp));
             }
         }
         let mut contexts: Vec<Context> = by_history
             .into_iter()
-            .map(|(h, mut entries)| {
+            .map(|((k, index), (history, mut entries))| {
                 entries.sort_by_key(|e| e.0);
-                let len = h.iter().position(|&s| s == NONE).unwrap_or(MAX_HISTORY);
-                let (total, kept) = levels.totals[len].get(&h).copied().unwrap_or((1.0, 1.0));
+                let (total, kept) = levels.levels[k - 1].totals[index as usize];
                 let backoff = if total > 0.0 { (kept / total).max(1e-300).ln() as f32 } else { 0.0 };
-                Context { history: h[..len].to_vec(), backoff, entries }
+                Context { history: history[..k - 1].to_vec(), backoff, entries }
             })
             .collect();
         contexts.sort_by(|a, b| (a.history.len(), &a.history).cmp(&(b.history.len(), &b.history)));
@@ -746,15 +831,16 @@ mod tests {
         let by_class = vec![Discount([0.2, 0.9, 1.7]); order];
         for discounts in [flat(&[0.3, 0.5, 0.7, 0.8, 0.9]), flat(&[0.1, 1.5, 0.2, 2.5, 0.6]), by_class] {
             let m = NgramModel::estimate(&e, &discounts, 4);
-            let levels = Levels::derive(&e, &discounts);
             let mut histories: Vec<History> = e.keys().map(|k| history_of(k, order - 1)).collect();
             histories.push(history_of(&[2, 2, 2, 2, 0, NONE, NONE, NONE, NONE], order - 1));
-            for h in histories {
+            let keys: Vec<Key> = histories.iter().flat_map(|h| (0..4).map(|q| key_of(h, order, q))).collect();
+            let (levels, chains) = Levels::derive(&e, &discounts, &keys);
+            for (hi, h) in histories.into_iter().enumerate() {
                 let ctx = m.context(&h[..order - 1]);
                 let total: f64 = (0..4).map(|q| f64::from(m.log_prob(ctx, q)).exp()).sum();
                 assert!((total - 1.0).abs() < 1e-5, "history {h:?}: sum {total} with {discounts:?}");
                 for q in 0..4 {
-                    let direct = levels.prob(&e, &discounts, 4, &key_of(&h, order, q), order);
+                    let direct = levels.prob(&discounts, 4, &chains[hi * 4 + q as usize], order);
                     let stored = f64::from(m.log_prob(ctx, q)).exp();
                     assert!((direct - stored).abs() < 1e-5 * direct.max(1e-3), "{h:?} {q}: {direct} vs {stored}");
                 }
@@ -841,12 +927,9 @@ mod tests {
         // is 0.4·0.5 + the expected discount of the second (worked by hand from the binomial).
         let e = bigram_evidence();
         let discounts = [Discount::flat(0.5), Discount([0.4, 0.6, 0.9])];
-        let levels = Levels::derive(&e, &discounts);
-        let unigram = |q: u32| {
-            let mut k = [NONE; MAX_ORDER];
-            k[0] = q;
-            levels.counts[0].get(&k).copied().unwrap_or_default()
-        };
+        let (levels, _) = Levels::derive(&e, &discounts, &[]);
+        let first = &levels.levels[0];
+        let unigram = |q: u32| first.keys.iter().position(|k| k[0] == q).map_or(Count::default(), |i| first.counts[i]);
         let (p, q) = (0.875f64, 0.125f64);
         let (p1, p2) = (4.0 * p * q.powi(3), 6.0 * p * p * q * q);
         let p3 = 1.0 - q.powi(4) - p1 - p2;
