@@ -444,6 +444,9 @@ pub fn tune_discounts(top: &Evidence, heldout: &Evidence, initial: &[Discount], 
     (discounts, ll)
 }
 
+/// An explicit successor of a history: `(symbol, ln p)`.
+type Entry = (u32, f32);
+
 /// One stored history of the back-off model.
 #[derive(Clone, Debug, PartialEq)]
 pub struct Context {
@@ -534,7 +537,8 @@ impl NgramModel {
                 (levels.prob(discounts, vocab, chain, 1).max(1e-300).ln()) as f32
             })
             .collect();
-        let mut by_history: FastMap<(usize, u32), (History, Vec<(u32, f32)>)> = FastMap::default();
+        // Keyed by (order, history index): the history's symbols and its explicit entries.
+        let mut by_history: FastMap<(usize, u32), (History, Vec<Entry>)> = FastMap::default();
         for k in 2..=order {
             let d = discounts[k - 1];
             let level = &levels.levels[k - 1];
