@@ -300,22 +300,21 @@ pub fn read_pls(bytes: &[u8], set: &Phoneset, source: &str) -> Result<PlsImport,
                     _ => {}
                 }
             }
-            Event::End(_) => {
-                if stack.pop().as_deref() == Some("lexeme") {
-                    let alphabet = alphabet.unwrap_or(Alphabet::Ipa);
-                    for (phoneme, line) in &phonemes {
-                        match read_phoneme(phoneme, alphabet, set) {
-                            Ok(pron) => {
-                                for g in &graphemes {
-                                    let mut entry = Entry::new(g.trim(), &pron);
-                                    entry.status = Status::Imported;
-                                    entry.source = source.to_string();
-                                    entry.line = *line;
-                                    import.entries.push(entry);
-                                }
+            // The guard pops the closing element whatever it is; only a lexeme ends an entry.
+            Event::End(_) if stack.pop().as_deref() == Some("lexeme") => {
+                let alphabet = alphabet.unwrap_or(Alphabet::Ipa);
+                for (phoneme, line) in &phonemes {
+                    match read_phoneme(phoneme, alphabet, set) {
+                        Ok(pron) => {
+                            for g in &graphemes {
+                                let mut entry = Entry::new(g.trim(), &pron);
+                                entry.status = Status::Imported;
+                                entry.source = source.to_string();
+                                entry.line = *line;
+                                import.entries.push(entry);
                             }
-                            Err(message) => import.rejected.push((*line, message)),
                         }
+                        Err(message) => import.rejected.push((*line, message)),
                     }
                 }
             }
