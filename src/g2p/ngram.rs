@@ -95,7 +95,6 @@ pub fn key_of(history: &History, order: usize, symbol: u32) -> Key {
 /// c.add(&Count::from_expected(0.5));
 /// assert_eq!(c.mean, 1.0);
 /// assert_eq!(c.p, [0.25, 0.5, 0.25]); // two coin flips
-/// assert_eq!(c.seen(), 0.75);
 /// ```
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Count {
@@ -134,16 +133,18 @@ impl Count {
     }
 
     /// Adds an independent count (the distributions are convolved).
+    ///
+    /// ```
+    /// use orthoepy::g2p::Count;
+    /// let mut c = Count::from_expected(1.0); // seen once for certain
+    /// c.add(&Count::from_expected(0.25));
+    /// assert_eq!((c.mean, c.p), (1.25, [0.0, 0.75, 0.25]));
+    /// ```
     pub fn add(&mut self, other: &Count) {
         let [a0, a1, a2] = self.p;
         let [b0, b1, b2] = other.p;
         self.p = [a0 * b0, a1 * b0 + a0 * b1, a2 * b0 + a1 * b1 + a0 * b2];
         self.mean += other.mean;
-    }
-
-    /// Probability that the n-gram was seen at all (count ≥ 1).
-    pub fn seen(&self) -> f64 {
-        (1.0 - self.p[0]).clamp(0.0, 1.0)
     }
 
     /// Probabilities of the three discount classes: count 1, count 2, count 3 or more.
