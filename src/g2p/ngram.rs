@@ -383,12 +383,18 @@ fn chains_of(levels: &[Level], histories: &[FastMap<History, u32>], lookups: &[K
     chains
 }
 
+/// Derives the levels of `top` and the held-out n-grams ready to score: their chains with
+/// their expected counts.
+fn derive_for_scoring(top: &Evidence, heldout: &Evidence, discounts: &[Discount]) -> (Levels, Vec<(Chain, f64)>) {
+    let (keys, means): (Vec<Key>, Vec<f64>) = heldout.iter().map(|(k, c)| (*k, c.mean)).unzip();
+    let (levels, chains) = Levels::derive(top, discounts, &keys);
+    (levels, chains.into_iter().zip(means).collect())
+}
+
 /// Log-likelihood of `heldout` evidence under the model smoothed from `top` with `discounts`.
 #[cfg(test)]
 fn heldout_log_likelihood(top: &Evidence, heldout: &Evidence, discounts: &[Discount], vocab: usize) -> f64 {
-    let (keys, means): (Vec<Key>, Vec<f64>) = heldout.iter().map(|(k, c)| (*k, c.mean)).unzip();
-    let (levels, chains) = Levels::derive(top, discounts, &keys);
-    let scored: Vec<(Chain, f64)> = chains.into_iter().zip(means).collect();
+    let (levels, scored) = derive_for_scoring(top, heldout, discounts);
     levels.log_likelihood(&scored, discounts, vocab)
 }
 
@@ -406,9 +412,7 @@ pub fn tune_discounts(top: &Evidence, heldout: &Evidence, initial: &[Discount], 
     if heldout.is_empty() {
         return (discounts, 0.0);
     }
-    let (keys, means): (Vec<Key>, Vec<f64>) = heldout.iter().map(|(k, c)| (*k, c.mean)).unzip();
-    let (mut levels, chains) = Levels::derive(top, &discounts, &keys);
-    let heldout: Vec<(Chain, f64)> = chains.into_iter().zip(means).collect();
+    let (mut levels, heldout) = derive_for_scoring(top, heldout, &discounts);
     let phi = (5f64.sqrt() - 1.0) / 2.0;
     for k in (0..discounts.len()).rev() {
         for class in (0..DISCOUNT_CLASSES).rev() {
@@ -523,19 +527,21 @@ impl NgramModel {
     pub fn estimate(top: &Evidence, discounts: &[Discount], vocab: usize) -> NgramModel {
         let order = discounts.len();
         let (levels, _) = Levels::derive(top, discounts, &[]);
+        // Order 1 has one history, the empty one (index 0 once any unigram exists).
         let first = &levels.levels[0];
-        let mut unigram_chains = vec![[(NONE, NONE); MAX_ORDER]; vocab];
+        let empty_history = if first.totals.is_empty() { NONE } else { 0 };
+        let mut index_of = vec![NONE; vocab];
         for (i, key) in first.keys.iter().enumerate() {
-            if let Some(chain) = unigram_chains.get_mut(key[0] as usize) {
-                *chain = levels.chain_of_entry(1, i);
+            if let Some(slot) = index_of.get_mut(key[0] as usize) {
+                *slot = i as u32;
             }
         }
-        let empty_history = if first.totals.is_empty() { NONE } else { 0 };
-        let unigram: Vec<f32> = unigram_chains
-            .iter_mut()
-            .map(|chain| {
-                chain[0].1 = empty_history;
-                (levels.prob(discounts, vocab, chain, 1).max(1e-300).ln()) as f32
+        let unigram: Vec<f32> = index_of
+            .iter()
+            .map(|&entry| {
+                let mut chain = [(NONE, NONE); MAX_ORDER];
+                chain[0] = (entry, empty_history);
+                (levels.prob(discounts, vocab, &chain, 1).max(1e-300).ln()) as f32
             })
             .collect();
         // Keyed by (order, history index): the history's symbols and its explicit entries.
