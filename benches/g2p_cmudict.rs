@@ -83,11 +83,12 @@ fn train_and_report(train_set: &[(String, Vec<String>)], opts: &TrainOptions) ->
     let start = Instant::now();
     let model = match train(train_set, opts, &mut |p| {
         println!(
-            "  order {} iter {} train LL {:.1} held-out LL {:.1} graphones {} n-grams {} held-out PER {} discounts {:?} [{:.0}s]",
+            "  order {} iter {} train LL {:.1} held-out LL {:.1}{} graphones {} n-grams {} held-out PER {} discounts {:?} [{:.0}s]",
             p.order,
             p.iteration,
             p.log_likelihood,
             p.heldout_log_likelihood,
+            if p.undone { " (worse: iteration undone)" } else { "" },
             p.graphones,
             p.ngrams,
             p.heldout_per.map_or("-".to_string(), |x| format!("{:.2}%", 100.0 * x)),

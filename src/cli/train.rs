@@ -40,6 +40,10 @@ pub struct Args {
     /// Treat extended grapheme clusters, not code points, as letters.
     #[arg(long)]
     grapheme_clusters: bool,
+    /// Most EM iterations at each order above 1 (default: the measured best, see
+    /// BENCHMARKS.md); an iteration that makes the held-out words less likely is undone.
+    #[arg(long, value_name = "N")]
+    iterations: Option<usize>,
     /// Percent of training words held out to tune discounts (0..=50).
     #[arg(long, value_name = "P")]
     heldout_percent: Option<u32>,
@@ -65,6 +69,7 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
         max_phones: args.max_phones.or(args.graphone_size).unwrap_or(defaults.max_phones),
         threads: args.threads,
         heldout_percent: args.heldout_percent.unwrap_or(defaults.heldout_percent),
+        iterations: args.iterations.unwrap_or(defaults.iterations),
         symbols: SymbolOptions {
             letter_unit: if args.grapheme_clusters { LetterUnit::GraphemeCluster } else { LetterUnit::CodePoint },
             lowercase: lexicon.policy().fold_case || defaults.symbols.lowercase,
@@ -79,7 +84,11 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     let model = train(&pairs, &opts, &mut |p| {
         bar.set_position(p.order as u64 - 1);
         let per = p.heldout_per.map(|x| format!(", held-out PER {:.2}%", 100.0 * x)).unwrap_or_default();
-        bar.set_message(format!("order {} iteration {}: log-likelihood {:.0}{per}", p.order, p.iteration, p.log_likelihood));
+        let undone = if p.undone { " (held-out worse: iteration undone)" } else { "" };
+        bar.set_message(format!(
+            "order {} iteration {}: log-likelihood {:.0}, held-out {:.0}{undone}{per}",
+            p.order, p.iteration, p.log_likelihood, p.heldout_log_likelihood
+        ));
     })
     .context("training failed")?;
     bar.finish_and_clear();

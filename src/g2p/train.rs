@@ -2,8 +2,9 @@
 //! inventory from all letter/phone sub-string pairs, EM at order 1 with trimming of rare
 //! graphones, then orders grown one at a time — the order-M evidence is first collected with
 //! the order-(M−1) model and then re-estimated by EM with the current order-M model. Discounts
-//! are tuned on a held-out part of the training words at every iteration. A final pass adds the
-//! held-out words' evidence. Reports progress through a callback; never prints.
+//! are tuned on a held-out part of the training words at every iteration, and an iteration that
+//! makes the held-out words less likely is undone and ends its order (early stopping). A final
+//! pass adds the held-out words' evidence. Reports progress through a callback; never prints.
 
 use rayon::prelude::*;
 
@@ -31,7 +32,9 @@ pub struct TrainOptions {
     pub heldout_percent: u32,
     /// Most EM iterations at order 1.
     pub first_iterations: usize,
-    /// Most EM iterations at each higher order.
+    /// Most EM iterations at each higher order. On CMUdict one (the order-M evidence collected
+    /// with the order-(M−1) model, then estimated once) gave the most likely held-out words;
+    /// more iterations sharpen the segmentations and the higher orders then generalise worse.
     pub iterations: usize,
     /// EM stops at an order when the training log-likelihood improves by less than this share.
     pub tolerance: f64,
@@ -58,7 +61,7 @@ impl Default for TrainOptions {
             symbols: SymbolOptions::default(),
             heldout_percent: 5,
             first_iterations: 40,
-            iterations: 3,
+            iterations: 1,
             tolerance: 1e-4,
             min_graphone_evidence: 0.5,
             beam: LatticeBeam::default(),
@@ -82,9 +85,13 @@ pub struct TrainProgress {
     /// Training log-likelihood (natural log, summed over samples) under the model of the
     /// previous iteration.
     pub log_likelihood: f64,
-    /// Held-out log-likelihood of the held-out evidence under the new model.
+    /// Log-likelihood of the held-out words (natural log, summed) under this iteration's model.
     pub heldout_log_likelihood: f64,
-    /// Held-out phone error rate (only after the last iteration of an order, if enabled).
+    /// Whether this iteration's model was discarded because it explained the held-out words
+    /// worse than the model before it (the order then ends with the earlier model).
+    pub undone: bool,
+    /// Held-out phone error rate of the model kept at the end of an order (only in the last
+    /// report of an order, if enabled).
     pub heldout_per: Option<f64>,
     /// Graphones in the inventory.
     pub graphones: usize,
@@ -200,6 +207,12 @@ fn remap(evidence: Evidence, map: &[u32]) -> Evidence {
     out
 }
 
+/// Whether `candidate` explains the held-out words worse than `current`: more of them cannot
+/// be segmented at all, or (with as many segmented) the log-likelihood is lower.
+fn worse(candidate: &Expectation, current: &Expectation) -> bool {
+    candidate.unaligned > current.unaligned || (candidate.unaligned == current.unaligned && candidate.log_likelihood < current.log_likelihood)
+}
+
 /// Held-out words grouped with all their reference pronunciations.
 type References = Vec<(String, Vec<Vec<String>>)>;
 
@@ -220,10 +233,13 @@ fn heldout_per(model: &Model, refs: &References) -> f64 {
 }
 
 /// Interns the training pairs; returns (train samples, held-out samples, held-out references).
+/// A pair that is the same as an earlier one after normalisation (e.g. two variants that differ
+/// only in stress, when stress is stripped) is used once, so it does not weigh twice.
 fn prepare(data: &[(String, Vec<String>)], opts: &TrainOptions, model: &mut Model) -> Result<(Vec<Sample>, Vec<Sample>, References), TrainError> {
     let mut train = Vec::new();
     let mut heldout = Vec::new();
     let mut refs: FastMap<String, Vec<Vec<String>>> = FastMap::default();
+    let mut seen: std::collections::HashSet<(Vec<u32>, Vec<u32>)> = std::collections::HashSet::new();
     for (word, pron) in data {
         let letters = opts.symbols.letters(word);
         let phones: Vec<String> = pron.iter().map(|p| opts.symbols.phone(p)).filter(|p| !p.is_empty()).collect();
@@ -233,6 +249,9 @@ fn prepare(data: &[(String, Vec<String>)], opts: &TrainOptions, model: &mut Mode
         let l: Option<Vec<u32>> = letters.iter().map(|x| model.letters.intern(x)).collect();
         let p: Option<Vec<u32>> = phones.iter().map(|x| model.phones.intern(x)).collect();
         let sample = Sample { letters: l.ok_or(TrainError::TooManySymbols)?, phones: p.ok_or(TrainError::TooManySymbols)? };
+        if !seen.insert((sample.letters.clone(), sample.phones.clone())) {
+            continue;
+        }
         if heldout_bucket(word) < opts.heldout_percent {
             heldout.push(sample);
             refs.entry(word.clone()).or_default().push(phones);
@@ -274,17 +293,19 @@ pub fn train(data: &[(String, Vec<String>)], opts: &TrainOptions, progress: &mut
     model.set_ngram(NgramModel::uniform(model.inventory.len() + 1));
     let mut discounts = vec![Discount::flat(0.5)];
     let mut last: Option<Expectation> = None;
+    let e_step = |samples: &[Sample], inventory: &Inventory, ngram: &NgramModel, order: usize| pool.install(|| expectation(samples, inventory, ngram, order, &opts.beam));
+    let mut h = Expectation::default();
     for order in 1..=opts.order {
         if order > 1 {
             let top = discounts.last().copied().unwrap_or(Discount::flat(0.5));
             discounts.push(top);
         }
+        // Held-out evidence of this order under the model in force (that of the order below).
+        h = e_step(&heldout, &model.inventory, &model.ngram, order);
         let max_iter = if order == 1 { opts.first_iterations } else { opts.iterations }.max(1);
         let mut previous: Option<f64> = None;
         for iteration in 1..=max_iter {
-            let e_step = |samples: &[Sample], m: &Model| pool.install(|| expectation(samples, &m.inventory, &m.ngram, order, &opts.beam));
-            let mut e = e_step(&train, &model);
-            let mut h = e_step(&heldout, &model);
+            let mut e = e_step(&train, &model.inventory, &model.ngram, order);
             if order == 1 {
                 let (inv, map) = trim(&model.inventory, &e.evidence, opts.min_graphone_evidence);
                 model.inventory = inv;
@@ -292,37 +313,50 @@ pub fn train(data: &[(String, Vec<String>)], opts: &TrainOptions, progress: &mut
                 h.evidence = remap(std::mem::take(&mut h.evidence), &map);
             }
             let vocab = model.inventory.len() + 1;
-            let (tuned, heldout_ll) = pool.install(|| tune_discounts(&e.evidence, &h.evidence, &discounts, vocab, opts.tuning_steps));
-            discounts = tuned;
-            model.set_ngram(pool.install(|| NgramModel::estimate(&e.evidence, &discounts, vocab)));
+            let (tuned, _) = pool.install(|| tune_discounts(&e.evidence, &h.evidence, &discounts, vocab, opts.tuning_steps));
+            let candidate = pool.install(|| NgramModel::estimate(&e.evidence, &tuned, vocab));
+            let h_new = e_step(&heldout, &model.inventory, &candidate, order);
+            // Early stopping on held-out data: from the second iteration of an order on (order 1
+            // excepted, where trimming changes the inventory between iterations), an iteration
+            // whose model explains the held-out words worse than the model it started from is
+            // undone and the order ends; the first iteration of an order always stands, so the
+            // evidence kept is always of the order being trained.
+            let undone = order > 1 && iteration > 1 && worse(&h_new, &h);
+            let heldout_log_likelihood = h_new.log_likelihood;
+            if !undone {
+                model.set_ngram(candidate);
+                discounts = tuned;
+                h = h_new;
+            }
             let converged = previous.is_some_and(|p: f64| (e.log_likelihood - p).abs() <= opts.tolerance * p.abs());
-            let done = converged || iteration == max_iter;
+            let done = undone || converged || iteration == max_iter;
             let per = (done && opts.heldout_error && !refs.is_empty()).then(|| pool.install(|| heldout_per(&model, &refs)));
             progress(&TrainProgress {
                 order,
                 max_order: opts.order,
                 iteration,
                 log_likelihood: e.log_likelihood,
-                heldout_log_likelihood: heldout_ll,
+                heldout_log_likelihood,
+                undone,
                 heldout_per: per,
                 graphones: model.inventory.len(),
                 ngrams: model.ngram.explicit_ngrams(),
                 discounts: discounts.clone(),
             });
             previous = Some(e.log_likelihood);
-            last = Some(e);
+            if !undone {
+                last = Some(e);
+            }
             if done {
                 break;
             }
         }
     }
-    if !heldout.is_empty() {
-        let h = pool.install(|| expectation(&heldout, &model.inventory, &model.ngram, opts.order, &opts.beam));
-        if let Some(mut e) = last {
-            super::ngram::merge_evidence(&mut e.evidence, h.evidence);
-            let vocab = model.inventory.len() + 1;
-            model.set_ngram(pool.install(|| NgramModel::estimate(&e.evidence, &discounts, vocab)));
-        }
+    if let Some(mut e) = last.filter(|_| !heldout.is_empty()) {
+        // `h` is the held-out evidence under the final model, collected at the final order.
+        super::ngram::merge_evidence(&mut e.evidence, h.evidence);
+        let vocab = model.inventory.len() + 1;
+        model.set_ngram(pool.install(|| NgramModel::estimate(&e.evidence, &discounts, vocab)));
     }
     Ok(model)
 }
@@ -346,4 +380,23 @@ pub fn training_pairs(entries: &[crate::lexicon::Entry]) -> Vec<(String, Vec<Str
         .map(|e| (e.word.clone(), e.phones().map(String::from).collect::<Vec<_>>()))
         .filter(|(_, p)| !p.is_empty())
         .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// CMUdict 1.1.3 lists "abstract" as `AE0 B S T R AE1 K T` and `AE1 B S T R AE2 K T`:
+    /// two samples with stress, one without (the same letters and phones must not weigh twice).
+    #[test]
+    fn variants_equal_after_normalisation_are_one_sample() {
+        let pron = |s: &str| s.split(' ').map(String::from).collect::<Vec<_>>();
+        let data = vec![("abstract".to_string(), pron("AE0 B S T R AE1 K T")), ("abstract".to_string(), pron("AE1 B S T R AE2 K T"))];
+        for (strip_stress, samples) in [(false, 2), (true, 1)] {
+            let opts = TrainOptions { heldout_percent: 0, symbols: SymbolOptions { strip_stress, ..SymbolOptions::default() }, ..TrainOptions::default() };
+            let mut model = Model::new(opts.symbols, String::new(), SymbolTable::default(), SymbolTable::default(), Inventory::default(), NgramModel::uniform(1));
+            let (train, heldout, _) = prepare(&data, &opts, &mut model).expect("usable pairs");
+            assert_eq!((train.len(), heldout.len()), (samples, 0), "strip_stress {strip_stress}");
+        }
+    }
 }
