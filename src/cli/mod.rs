@@ -92,13 +92,21 @@ impl ProjectArgs {
 
 /// A progress bar on stderr when it is a terminal, hidden otherwise (pipes and CI stay clean).
 pub fn progress_bar(len: u64, label: &str) -> indicatif::ProgressBar {
+    styled_bar(len, label, "{prefix:>10} [{bar:30}] {pos}/{len} ({eta})")
+}
+
+/// Like [`progress_bar`], with the bar's message on a line of its own below it, so a status
+/// line of up to the terminal's width fits beside an 80-column bar.
+pub fn progress_bar_with_status(len: u64, label: &str) -> indicatif::ProgressBar {
+    styled_bar(len, label, "{prefix:>10} [{bar:30}] {pos}/{len} ({eta})\n{wide_msg}")
+}
+
+fn styled_bar(len: u64, label: &str, template: &str) -> indicatif::ProgressBar {
     if !std::io::stderr().is_terminal() {
         return indicatif::ProgressBar::hidden();
     }
     let bar = indicatif::ProgressBar::new(len);
-    let style = indicatif::ProgressStyle::with_template("{prefix:>10} [{bar:30}] {pos}/{len} {msg} ({eta})")
-        .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar())
-        .progress_chars("=> ");
+    let style = indicatif::ProgressStyle::with_template(template).unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()).progress_chars("=> ");
     bar.set_style(style);
     bar.set_prefix(label.to_string());
     bar

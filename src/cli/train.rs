@@ -79,14 +79,15 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
         ..defaults
     };
     let pairs = training_pairs(lexicon.entries());
-    let bar = if args.quiet { indicatif::ProgressBar::hidden() } else { super::progress_bar(opts.order as u64, "training") };
+    let bar = if args.quiet { indicatif::ProgressBar::hidden() } else { super::progress_bar_with_status(opts.order as u64, "training") };
     let start = std::time::Instant::now();
     let model = train(&pairs, &opts, &mut |p| {
         bar.set_position(p.order as u64 - 1);
-        let per = p.heldout_per.map(|x| format!(", held-out PER {:.2}%", 100.0 * x)).unwrap_or_default();
-        let undone = if p.undone { " (held-out worse: iteration undone)" } else { "" };
+        // One line of at most 80 columns: LL is the log-likelihood (natural log, summed).
+        let per = p.heldout_per.map(|x| format!(", PER {:.2}%", 100.0 * x)).unwrap_or_default();
+        let undone = if p.undone { " (worse: undone)" } else { "" };
         bar.set_message(format!(
-            "order {} iteration {}: log-likelihood {:.0}, held-out {:.0}{undone}{per}",
+            "order {} iter {}: LL {:.0}, held-out LL {:.0}{per}{undone}",
             p.order, p.iteration, p.log_likelihood, p.heldout_log_likelihood
         ));
     })
