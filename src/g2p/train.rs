@@ -1,10 +1,11 @@
 //! Training of the joint-sequence model (Bisani & Ney 2008, sections 3 and 5): graphone
 //! inventory from all letter/phone sub-string pairs, EM at order 1 with trimming of rare
 //! graphones, then orders grown one at a time — the order-M evidence is first collected with
-//! the order-(M−1) model and then re-estimated by EM with the current order-M model. Discounts
-//! are tuned on a held-out part of the training words at every iteration, and an iteration that
-//! makes the held-out words less likely is undone and ends its order (early stopping). A final
-//! pass adds the held-out words' evidence. Reports progress through a callback; never prints.
+//! the order-(M−1) model (an E-step over all segmentations) and estimated; further EM
+//! iterations with the order-M model are allowed by `TrainOptions::iterations` (default none,
+//! the measured best). Discounts are tuned on a held-out part of the training words at every
+//! iteration, and an iteration that makes the held-out words less likely is undone and ends
+//! its order (early stopping). A final pass adds the held-out words' evidence. Reports progress through a callback; never prints.
 
 use rayon::prelude::*;
 
