@@ -5,7 +5,10 @@
 //! iterations with the order-M model are allowed by `TrainOptions::iterations` (default none,
 //! the measured best). Discounts are tuned on a held-out part of the training words at every
 //! iteration, and an iteration that makes the held-out words less likely is undone and ends
-//! its order (early stopping). A final pass adds the held-out words' evidence. Reports progress through a callback; never prints.
+//! its order (early stopping). A final pass adds the held-out words' evidence. Reports
+//! progress through a callback; never prints.
+
+use std::collections::HashSet;
 
 use rayon::prelude::*;
 
@@ -240,7 +243,7 @@ fn prepare(data: &[(String, Vec<String>)], opts: &TrainOptions, model: &mut Mode
     let mut train = Vec::new();
     let mut heldout = Vec::new();
     let mut refs: FastMap<String, Vec<Vec<String>>> = FastMap::default();
-    let mut seen: std::collections::HashSet<(Vec<u32>, Vec<u32>)> = std::collections::HashSet::new();
+    let mut seen: HashSet<(Vec<u32>, Vec<u32>)> = HashSet::new();
     for (word, pron) in data {
         let letters = opts.symbols.letters(word);
         let phones: Vec<String> = pron.iter().map(|p| opts.symbols.phone(p)).filter(|p| !p.is_empty()).collect();
