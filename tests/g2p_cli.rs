@@ -63,3 +63,12 @@ fn graphone_sides_are_set_separately() {
     assert!(pieces.iter().all(|p| p["phones"].as_array().map_or(0, Vec::len) <= 1), "{pieces:?}");
     assert!(pieces.iter().any(|p| p["letters"].as_str().map_or(0, |l| l.chars().count()) == 2), "{pieces:?}");
 }
+
+#[test]
+fn missing_model_inside_a_project_is_an_error_not_a_word() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let d = dir.path();
+    write_sample(d);
+    std::fs::write(d.join("orthoepy.toml"), "lexicon = \"lexicon.csv\"\n").expect("write project");
+    orthoepy(d).args(["guess", "models/typo.g2p", "quay"]).assert().code(2).stdout("").stderr(predicates::str::contains("no model file models/typo.g2p"));
+}

@@ -168,9 +168,13 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
         return with_rules(lang, &words, args.format);
     }
     if let Some(project) = args.project.find()? {
-        // Inside a project the first argument is a model only if it is an existing file.
+        // Inside a project the first argument is a model only if it is an existing file; one
+        // named like a model file that does not exist is a mistake, not a word to guess.
         let model = match positional.first() {
             Some(first) if std::path::Path::new(first).is_file() => Some(PathBuf::from(positional.remove(0))),
+            Some(first) if first.to_lowercase().ends_with(".g2p") => {
+                anyhow::bail!("no model file {first}; name an existing model, or leave it out to use the project's")
+            }
             _ => None,
         };
         let words = read_words(positional)?;
