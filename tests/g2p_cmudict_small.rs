@@ -46,9 +46,9 @@ fn small_cmudict_split_meets_measured_bounds() {
 }
 
 /// Early stopping on held-out data (`TrainOptions::iterations` is only an upper bound; common
-/// practice for EM): with up to 12 EM iterations per order on the same sample, every iteration the model keeps leaves the
-/// held-out words at least as likely as the one before it in its order, and an iteration that
-/// is undone is one that made them less likely.
+/// practice for EM): with up to 12 EM iterations per order on the same sample, every iteration
+/// the model keeps leaves the held-out words at least as likely as the one before it in its
+/// order, and an iteration that is undone is one that made them less likely.
 #[test]
 fn em_iterations_that_lower_heldout_likelihood_are_undone() {
     let (train_set, _) = split_by_word(sample(), |p| p.0.as_str(), 10);

@@ -2,10 +2,10 @@
 //! (spelling, pronunciation) pair, forward–backward over *all* segmentations into graphones
 //! under the current n-gram model, giving n-gram evidence: each pair adds, for every n-gram, its
 //! expected count in that pair as one word's count distribution (see `ngram::Count`), which the
-//! smoothing's expected discounts need. With an order-1 model the
-//! lattice has one state per (letter, phone) position and the sums are exact; for higher orders
-//! a state also carries the graphone history, and each position keeps only its best states
-//! (beam on the forward score), so the sums run over the surviving segmentations.
+//! smoothing's expected discounts need. With an order-1 model the lattice has one state per
+//! (letter, phone) position and the sums are exact; for higher orders a state also carries the
+//! graphone history, and each position keeps only its best states (beam on the forward score),
+//! so the sums run over the surviving segmentations.
 //! Runs in parallel over samples with rayon. Owns no smoothing and no decoding.
 
 use rayon::prelude::*;
