@@ -19,7 +19,7 @@ use std::path::PathBuf;
 use std::time::Instant;
 
 use orthoepy::eval::{score, split_by_word, Rates, Scored};
-use orthoepy::g2p::hybrid::{Candidate, Guesser, LanguageConfig, Source};
+use orthoepy::g2p::hybrid::{HybridGuesser, LanguageConfig, Proposal, Source};
 use orthoepy::g2p::lts::RuleSet;
 use orthoepy::g2p::{train, Model, TrainOptions};
 use orthoepy::lexicon::plain::{read_plain, strip_variant_suffix};
@@ -55,7 +55,7 @@ fn model_for(train_entries: &[Entry]) -> Model {
 }
 
 /// Precision of each source's best candidate over `words`, against their references.
-fn calibrate(guesser: &Guesser<'_>, words: &[(String, Vec<String>)]) {
+fn calibrate(guesser: &HybridGuesser<'_>, words: &[(String, Vec<String>)]) {
     let mut tally: HashMap<&str, (usize, usize)> = HashMap::new();
     for (word, refs) in words {
         let candidates = guesser.guess(word, 20);
@@ -83,7 +83,7 @@ fn kind_of(source: &Source) -> Option<usize> {
     }
 }
 
-fn top(candidates: &[Candidate]) -> Vec<String> {
+fn top(candidates: &[Proposal]) -> Vec<String> {
     candidates.first().map(|c| phones(&c.pronunciation)).unwrap_or_default()
 }
 
@@ -115,14 +115,14 @@ fn main() {
         }
         map
     };
-    let bare = Guesser::new(&lexicon, &index, &en, &config);
+    let bare = HybridGuesser::new(&lexicon, &index, &en, &config);
     println!("calibration on every 4th training word (sources never use the word's own entry):");
     let train_words: Vec<(String, Vec<String>)> = group(lexicon.entries()).into_iter().step_by(4).collect();
     calibrate(&bare, &train_words);
 
     let test = group(&test_entries);
-    let hybrid = Guesser::new(&lexicon, &index, &en, &config).with_model(&model);
-    let fallback = Guesser::new(&lexicon, &index, &en, &config).with_rules(&rules);
+    let hybrid = HybridGuesser::new(&lexicon, &index, &en, &config).with_model(&model);
+    let fallback = HybridGuesser::new(&lexicon, &index, &en, &config).with_rules(&rules);
     let start = Instant::now();
     let (mut alone, mut mixed, mut ruled, mut cold) = (Vec::new(), Vec::new(), Vec::new(), Vec::new());
     let mut subset = Vec::new();

@@ -6,6 +6,8 @@
 //! [`phoneset::Phoneset`], examined by [`audit`], extended by [`g2p`] and [`variants`], queued for
 //! people in [`queue`], reviewed in [`tui`], and saved back through [`lexicon::Lexicon::save`].
 
+#![deny(missing_docs)]
+
 pub mod audit;
 pub mod eval;
 pub mod g2p;
@@ -18,3 +20,4 @@ pub mod safe_io;
 pub mod text_position;
 pub mod tui;
 pub mod variants;
+pub mod workspace;

@@ -32,7 +32,20 @@ enum Command {
     Demo(cli::demo::Args),
 }
 
+/// Writing into a closed pipe (`orthoepy find --prefix a | head`) ends the process quietly, as
+/// it does for the standard Unix tools: the default SIGPIPE action is restored (the Rust runtime
+/// ignores the signal, which turns every later `println!` into a panic).
+fn restore_default_sigpipe() {
+    #[cfg(unix)]
+    // SAFETY: setting a signal's disposition to the default action at start-up, before any
+    // thread is spawned, has no preconditions.
+    unsafe {
+        libc::signal(libc::SIGPIPE, libc::SIG_DFL);
+    }
+}
+
 fn main() -> ExitCode {
+    restore_default_sigpipe();
     let cli = Cli::parse();
     let result = match cli.command {
         Command::Import(args) => cli::import::run(args),

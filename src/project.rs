@@ -160,6 +160,9 @@ pub struct Project {
 impl Project {
     /// Reads `DIR/orthoepy.toml`.
     pub fn load(dir: &Path) -> Result<Project, ProjectError> {
+        // Every path the project names is resolved against an absolute root, so a relative
+        // `--project DIR` means the same folder wherever the paths are used later.
+        let dir = &std::path::absolute(dir).map_err(|source| ProjectError::Io { path: dir.to_path_buf(), source })?;
         let path = dir.join(PROJECT_FILE);
         let io = |source| ProjectError::Io { path: path.clone(), source };
         if std::fs::metadata(&path).map_err(io)?.len() > MAX_PROJECT_BYTES {
@@ -208,6 +211,21 @@ impl Project {
             dir = d.parent();
         }
         Err(ProjectError::NotFound { start: start.to_path_buf() })
+    }
+
+    /// What an accent-profile name means in this project: the path of the project's own profile
+    /// whose file stem is `name` (`profiles` in orthoepy.toml), else `name` itself (a shipped id
+    /// or a path).
+    ///
+    /// ```
+    /// let p = orthoepy::project::Project::parse("lexicon = \"l.csv\"\nprofiles = [\"accents/harbour.toml\"]\n",
+    ///     std::path::Path::new("/p"), std::path::Path::new("/p/orthoepy.toml")).unwrap();
+    /// assert_eq!(p.profile_spec("harbour"), "/p/accents/harbour.toml");
+    /// assert_eq!(p.profile_spec("fast-casual"), "fast-casual");
+    /// ```
+    pub fn profile_spec<'a>(&'a self, name: &'a str) -> &'a str {
+        let own = self.profiles.iter().find(|spec| Path::new(spec).file_stem().is_some_and(|s| s == name));
+        own.map_or(name, String::as_str)
     }
 
     /// The headword policy of this project.

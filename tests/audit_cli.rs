@@ -2,17 +2,13 @@
 //! --fail-on, 2 could not run), project defaults, check selection, and --fix (safe repairs only,
 //! printed, saved with a backup, idempotent).
 
-use assert_cmd::Command;
+mod common;
+use common::cli::orthoepy;
 use predicates::prelude::*;
 use std::path::Path;
 
 const HEADER: &str = "word,pronunciation,status,source,score,note\n";
 
-fn orthoepy(dir: &Path) -> Command {
-    let mut cmd = Command::cargo_bin("orthoepy").unwrap();
-    cmd.current_dir(dir);
-    cmd
-}
 
 fn store(dir: &Path, rows: &str) -> std::path::PathBuf {
     let path = dir.join("lexicon.csv");

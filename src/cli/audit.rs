@@ -4,7 +4,6 @@ use super::{DataFormat, ProjectArgs};
 use anyhow::Context as _;
 use orthoepy::audit::{self, fix, Context, Report, Severity};
 use orthoepy::lexicon::{Lexicon, LoadMode};
-use orthoepy::phoneset::Phoneset;
 use std::path::PathBuf;
 use std::process::ExitCode;
 
@@ -78,12 +77,7 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     } else {
         audit::select_checks(&args.checks.iter().map(String::as_str).collect::<Vec<_>>())?
     };
-    let spec = args.phoneset.clone().or_else(|| project.as_ref().map(|p| p.phoneset.clone())).unwrap_or_else(|| "en-arpa".into());
-    let base = match &project {
-        Some(p) => p.root.clone(),
-        None => std::env::current_dir().context("cannot read the current folder")?,
-    };
-    let phoneset = Phoneset::resolve(&spec, &base).with_context(|| format!("cannot load phoneset {spec:?}"))?;
+    let phoneset = super::resolve_phoneset(args.phoneset.as_deref(), project.as_ref())?;
     let stress = project.as_ref().map(|p| p.stress.clone()).unwrap_or_default();
     let load = || Lexicon::load_with(&path, policy, LoadMode::Repair).context("cannot load the lexicon");
     let mut lexicon = load()?;

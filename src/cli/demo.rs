@@ -2,9 +2,8 @@
 //! operator building a voice timetable assistant), then the review screen on it.
 
 use anyhow::Context;
-use orthoepy::lexicon::Lexicon;
 use orthoepy::project::Project;
-use orthoepy::queue::TokenRule;
+use orthoepy::queue::{Corpus, Sources, TokenRule};
 use std::io::IsTerminal;
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
@@ -41,7 +40,8 @@ fn default_dir() -> PathBuf {
 }
 
 /// Write the demo files into `dir` and fill its queue (new words, most frequent first, then the
-/// variants of the project's accent profiles); returns the project.
+/// variants of the project's accent profiles); returns the project. A folder this call created
+/// is removed again when a later step fails, so no half-made copy is left behind.
 pub fn make_demo(dir: &Path) -> anyhow::Result<Project> {
     anyhow::ensure!(
         !dir.join("orthoepy.toml").exists(),
@@ -49,22 +49,29 @@ pub fn make_demo(dir: &Path) -> anyhow::Result<Project> {
         dir.display(),
         dir.display()
     );
+    let created = !dir.exists();
+    let result = fill_demo(dir);
+    if result.is_err() && created {
+        let _ = std::fs::remove_dir_all(dir);
+    }
+    result
+}
+
+fn fill_demo(dir: &Path) -> anyhow::Result<Project> {
     std::fs::create_dir_all(dir).with_context(|| format!("cannot create {}", dir.display()))?;
     for (name, text) in FILES {
         let path = dir.join(name);
         std::fs::write(&path, text).with_context(|| format!("cannot write {}", path.display()))?;
     }
     let project = Project::load(dir).context("cannot read the demo project")?;
-    let lexicon = Lexicon::load(&project.lexicon, project.headword_policy()).context("cannot load the demo lexicon")?;
-    let words = dir.join("new-words.txt");
-    let corpus = dir.join("passenger-queries.txt");
-    let mut items = super::queue::intake(&lexicon, Some(&words), Some((&corpus, TokenRule::default(), 1)))?;
-    // Then the variants the operator's speakers use: the project's accent profiles.
-    for profile in &project.profiles {
-        items.extend(super::queue::variant_items(&project, &lexicon, profile)?);
-    }
-    super::queue::guess_missing(&mut items, &super::queue::ProjectGuesser::open(&project, lexicon)?);
-    super::queue::add_to_queue(&project, items)?;
+    let sources = Sources {
+        words: Some(project.root.join("new-words.txt")),
+        corpus: Some(Corpus { path: project.root.join("passenger-queries.txt"), rule: TokenRule::default(), min_count: 1 }),
+        // Then the variants the operator's speakers use: the project's accent profiles.
+        profiles: project.profiles.clone(),
+        audit: false,
+    };
+    super::queue::add_sources(project.clone(), &sources, true)?;
     Ok(project)
 }
 
@@ -77,5 +84,5 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
         eprintln!("demo ready; open it with `orthoepy review --project {}`", project.root.display());
         return Ok(ExitCode::SUCCESS);
     }
-    super::review::open_review(&project, None)
+    super::review::open_review(project, None)
 }

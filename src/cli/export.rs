@@ -58,20 +58,25 @@ pub struct Args {
     /// PLS only: the document language (BCP 47).
     #[arg(long, default_value = "en-US")]
     lang: String,
+    /// Replace OUT (and the phone list) when they exist.
+    #[arg(long)]
+    force: bool,
     #[command(flatten)]
     project: ProjectArgs,
 }
 
 pub fn run(args: Args) -> anyhow::Result<ExitCode> {
+    super::refuse_overwrite(&args.output, args.force)?;
+    if let Some(phones) = &args.phones {
+        super::refuse_overwrite(phones, args.force)?;
+    }
     let (lexicon, project) = args.project.load_lexicon(args.lexicon.as_deref())?;
     let options = PlainExport { strip_stress: args.strip_stress, variant_suffix: args.variant_suffix, ..Default::default() };
     let build = write_plain(lexicon.entries(), lexicon.policy(), &options);
     let text = match args.format {
         ExportLayout::Plain => build.text.clone(),
         ExportLayout::Pls => {
-            let spec = project.as_ref().map_or("en-arpa", |p| p.phoneset.as_str());
-            let set = orthoepy::phoneset::Phoneset::resolve(spec, &std::env::current_dir()?)
-                .with_context(|| format!("cannot load phoneset {spec}"))?;
+            let set = super::resolve_phoneset(None, project.as_ref())?;
             let alphabet = match args.alphabet {
                 PlsAlphabet::Ipa => orthoepy::pls::Alphabet::Ipa,
                 PlsAlphabet::Symbols => orthoepy::pls::Alphabet::Symbols,

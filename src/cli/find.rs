@@ -1,7 +1,7 @@
 //! `orthoepy find`: look words up in the lexicon index.
 
 use super::{DataFormat, ProjectArgs};
-use orthoepy::lexicon::{Entry, EntryId, Lexicon, LexiconIndex};
+use orthoepy::lexicon::{find, Entry, Query};
 use std::path::PathBuf;
 use std::process::ExitCode;
 
@@ -60,7 +60,7 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     let index = lexicon.index();
     let mut results = Vec::new();
     for query in &args.queries {
-        let ids = matches(&args, &lexicon, &index, query)?;
+        let ids = find(&lexicon, &index, query, query_of(&args))?;
         results.push(Found { query, entries: ids.into_iter().filter_map(|i| lexicon.entries().get(i)).collect() });
     }
     let any = results.iter().any(|r| !r.entries.is_empty());
@@ -80,33 +80,17 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     Ok(if any { ExitCode::SUCCESS } else { ExitCode::from(1) })
 }
 
-fn matches(args: &Args, lexicon: &Lexicon, index: &LexiconIndex, query: &str) -> anyhow::Result<Vec<EntryId>> {
-    let flatten = |hits: Vec<(String, Vec<EntryId>)>| hits.into_iter().flat_map(|(_, ids)| ids).collect();
-    let by_sound = |pron: &str| -> Vec<EntryId> {
-        if args.exact_stress {
-            index.sounds_like(pron).to_vec()
-        } else {
-            index.sounds_like_unstressed(pron).to_vec()
-        }
-    };
-    Ok(if args.prefix {
-        flatten(index.prefix(query, args.limit))
-    } else if let Some(k) = args.fuzzy {
-        flatten(index.fuzzy(query, k, args.limit)?)
+/// The look-up the options ask for.
+fn query_of(args: &Args) -> Query {
+    if args.prefix {
+        Query::Prefix { limit: args.limit }
+    } else if let Some(edits) = args.fuzzy {
+        Query::Fuzzy { edits, limit: args.limit }
     } else if args.phones {
-        by_sound(query)
+        Query::Phones { exact_stress: args.exact_stress }
     } else if args.sounds_like {
-        let own = index.lookup(query);
-        let mut ids: Vec<EntryId> = own
-            .iter()
-            .filter_map(|&i| lexicon.entries().get(i))
-            .flat_map(|e| by_sound(&e.pronunciation))
-            .filter(|i| !own.contains(i))
-            .collect();
-        ids.sort_unstable();
-        ids.dedup();
-        ids
+        Query::SoundsLike { exact_stress: args.exact_stress }
     } else {
-        index.lookup(query).to_vec()
-    })
+        Query::Exact
+    }
 }

@@ -2,26 +2,17 @@
 //! letter-to-sound rule set (`--rules LANG`), or — inside a project with a lexicon — from the
 //! hybrid guesser (initialisms, compounds, derivations, then the model or the project's rules).
 
+use super::DataFormat;
 use anyhow::Context;
-use orthoepy::g2p::hybrid::{Candidate, Guesser, LanguageConfig};
+use orthoepy::g2p::hybrid::{LanguageConfig, Proposal, Source};
 use orthoepy::g2p::lts::{RuleSet, SHIPPED};
 use orthoepy::g2p::{Guess, Model};
 use orthoepy::phoneset::Phoneset;
 use orthoepy::project::Project;
+use orthoepy::workspace::Workspace;
 use std::io::BufRead;
 use std::path::PathBuf;
 use std::process::ExitCode;
-
-/// Output formats of `guess`.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
-pub enum GuessFormat {
-    /// word, rank, phones, score, and the alignment (model) or sources (rules, hybrid) —
-    /// tab-separated, one candidate a line.
-    Tsv,
-    /// One JSON array: model guesses with hypotheses, posteriors, alignments and warnings, or
-    /// hybrid/rule candidates with score and sources.
-    Json,
-}
 
 /// Guess pronunciations for new words (model N-best, letter-to-sound rules, or the hybrid).
 ///
@@ -49,9 +40,10 @@ pub struct Args {
     /// Hypotheses per word.
     #[arg(long, value_name = "N", default_value_t = 5)]
     nbest: usize,
-    /// Output format.
-    #[arg(long, value_enum, default_value = "tsv")]
-    format: GuessFormat,
+    /// Output format: text is tab-separated, one candidate a line (`word rank phones score
+    /// alignment-or-sources`).
+    #[arg(long, value_enum, default_value = "text")]
+    format: DataFormat,
     #[command(flatten)]
     project: super::ProjectArgs,
 }
@@ -74,7 +66,7 @@ fn tsv_lines(guess: &Guess) -> Vec<String> {
 #[derive(Debug, serde::Serialize)]
 struct WordCandidates {
     word: String,
-    candidates: Vec<Candidate>,
+    candidates: Vec<Proposal>,
 }
 
 /// The TSV lines of one word's candidates: `word rank phones score sources` (sources joined by `,`).
@@ -89,16 +81,16 @@ fn candidate_lines(word: &WordCandidates) -> Vec<String> {
         .collect()
 }
 
-fn print_candidates(all: &[WordCandidates], format: GuessFormat) -> anyhow::Result<()> {
+fn print_candidates(all: &[WordCandidates], format: DataFormat) -> anyhow::Result<()> {
     match format {
-        GuessFormat::Json => super::print_json(&all)?,
-        GuessFormat::Tsv => all.iter().flat_map(candidate_lines).for_each(|l| println!("{l}")),
+        DataFormat::Json => super::print_json(&all)?,
+        DataFormat::Text => all.iter().flat_map(candidate_lines).for_each(|l| println!("{l}")),
     }
     Ok(())
 }
 
 /// `--rules LANG`: the shipped rule set alone, in the phoneset it is written for.
-fn with_rules(lang: &str, words: &[String], format: GuessFormat) -> anyhow::Result<ExitCode> {
+fn with_rules(lang: &str, words: &[String], format: DataFormat) -> anyhow::Result<ExitCode> {
     let Some((_, phoneset_id)) = SHIPPED.iter().find(|(id, _)| *id == lang) else {
         let known: Vec<&str> = SHIPPED.iter().map(|(id, _)| *id).collect();
         anyhow::bail!("no shipped letter-to-sound rules for `{lang}`; choose one of: {}", known.join(", "));
@@ -109,44 +101,22 @@ fn with_rules(lang: &str, words: &[String], format: GuessFormat) -> anyhow::Resu
     let mut all = Vec::with_capacity(words.len());
     for word in words {
         let pronunciation = rules.transcribe(word).with_context(|| format!("cannot transcribe `{word}`"))?;
-        let source = orthoepy::g2p::hybrid::Source::Rules { language: lang.to_string() };
-        all.push(WordCandidates {
-            word: word.clone(),
-            candidates: vec![Candidate { pronunciation: pronunciation.render(&phoneset), score: config.scores.rules, sources: vec![source] }],
-        });
+        let source = Source::Rules { language: lang.to_string() };
+        let proposal =
+            Proposal { pronunciation: pronunciation.render(&phoneset), score: config.scores.rules, sources: vec![source], alignment: Vec::new() };
+        all.push(WordCandidates { word: word.clone(), candidates: vec![proposal] });
     }
     print_candidates(&all, format)?;
     Ok(ExitCode::SUCCESS)
 }
 
-/// The hybrid guesser over the project's lexicon.
-fn with_project(project: &Project, model: Option<PathBuf>, words: &[String], args: &Args) -> anyhow::Result<ExitCode> {
-    let phoneset = Phoneset::resolve(&project.phoneset, &project.root).context("cannot load the project's phoneset")?;
-    let language = project
-        .letter_to_sound
-        .as_deref()
-        .filter(|id| SHIPPED.iter().any(|(s, _)| s == id))
-        .or_else(|| RuleSet::shipped_for_phoneset(phoneset.id()))
-        .with_context(|| format!("no shipped language configuration for phoneset {}", phoneset.id()))?;
-    let config = LanguageConfig::shipped(language, &phoneset)?;
-    let lexicon = orthoepy::lexicon::Lexicon::load(&project.lexicon, project.headword_policy()).context("cannot load the lexicon")?;
-    let index = lexicon.index();
-    let model = match model.or_else(|| project.model.clone()) {
-        Some(path) => Some(Model::load(&path).with_context(|| format!("cannot load the model {}", path.display()))?),
-        None => None,
-    };
-    let rules = match (&model, &project.letter_to_sound) {
-        (None, Some(spec)) => Some(RuleSet::resolve(spec, &phoneset).context("cannot load the project's letter-to-sound rules")?),
-        _ => None,
-    };
-    let mut guesser = Guesser::new(&lexicon, &index, &phoneset, &config);
-    if let Some(m) = &model {
-        guesser = guesser.with_model(m);
-    }
-    if let Some(r) = &rules {
-        guesser = guesser.with_rules(r);
-    }
-    let all: Vec<WordCandidates> = words.iter().map(|w| WordCandidates { word: w.clone(), candidates: guesser.guess(w, args.nbest) }).collect();
+/// The project's guesser (see [`Workspace::guess`]), with MODEL instead of the project's model
+/// when one is given.
+fn with_project(project: Project, model: Option<PathBuf>, words: &[String], args: &Args) -> anyhow::Result<ExitCode> {
+    let model = model.or_else(|| project.model.clone());
+    let workspace = Workspace::open_with_model(project, model.as_deref())?;
+    let all: Vec<WordCandidates> =
+        words.iter().map(|w| WordCandidates { word: w.clone(), candidates: workspace.guess(w, args.nbest) }).collect();
     print_candidates(&all, args.format)?;
     Ok(ExitCode::SUCCESS)
 }
@@ -178,7 +148,7 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
             _ => None,
         };
         let words = read_words(positional)?;
-        return with_project(&project, model, &words, &args);
+        return with_project(project, model, &words, &args);
     }
     let Some(model_path) = args.model.clone() else {
         anyhow::bail!("no model given and no orthoepy.toml found; name a MODEL file, pass --project DIR, or use --rules LANG");
@@ -192,8 +162,8 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
         }
     }
     match args.format {
-        GuessFormat::Json => super::print_json(&guesses)?,
-        GuessFormat::Tsv => guesses.iter().flat_map(tsv_lines).for_each(|l| println!("{l}")),
+        DataFormat::Json => super::print_json(&guesses)?,
+        DataFormat::Text => guesses.iter().flat_map(tsv_lines).for_each(|l| println!("{l}")),
     }
     Ok(ExitCode::SUCCESS)
 }

@@ -51,15 +51,12 @@ pub struct Args {
 }
 
 pub fn run(args: Args) -> anyhow::Result<ExitCode> {
-    if args.output.exists() && !args.force {
-        anyhow::bail!("{} exists; pass --force to replace it (a .bak is kept)", args.output.display());
-    }
+    super::refuse_overwrite(&args.output, args.force)?;
     let bytes = std::fs::read(&args.file).with_context(|| format!("cannot read {}", args.file.display()))?;
     let source = args.source.clone().unwrap_or_else(|| {
         args.file.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_default()
     });
-    let phoneset = orthoepy::phoneset::Phoneset::resolve(&args.phoneset, &std::env::current_dir()?)
-        .with_context(|| format!("cannot load phoneset {}", args.phoneset))?;
+    let phoneset = super::resolve_phoneset(Some(&args.phoneset), None)?;
     let (entries, rejected) = match args.layout {
         ImportLayout::Plain => {
             let import = read_plain(&bytes, &source);

@@ -29,7 +29,8 @@ use std::path::{Path, PathBuf};
 /// How data output is written.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
 pub enum DataFormat {
-    /// Lines for people (and `cut`/`awk`).
+    /// Lines for people (and `cut`/`awk`); `tsv` and `table` are accepted for it.
+    #[value(alias = "tsv", alias = "table")]
     Text,
     /// One JSON document.
     Json,
@@ -88,6 +89,25 @@ impl ProjectArgs {
         let lexicon = Lexicon::load(&path, policy).with_context(|| "cannot load the lexicon".to_string())?;
         Ok((lexicon, project))
     }
+}
+
+/// The phoneset a command works in: the one named by `--phoneset` (a shipped id, or a file
+/// relative to the current folder), else the project's, else `en-arpa`.
+pub fn resolve_phoneset(explicit: Option<&str>, project: Option<&Project>) -> anyhow::Result<orthoepy::phoneset::Phoneset> {
+    let (spec, base) = match (explicit, project) {
+        (Some(spec), _) => (spec, std::env::current_dir().context("cannot read the current folder")?),
+        (None, Some(p)) => (p.phoneset.as_str(), p.root.clone()),
+        (None, None) => ("en-arpa", std::env::current_dir().context("cannot read the current folder")?),
+    };
+    orthoepy::phoneset::Phoneset::resolve(spec, &base).with_context(|| format!("cannot load the phoneset {spec}"))
+}
+
+/// Refuses to replace an existing output file unless `--force` was given.
+pub fn refuse_overwrite(path: &Path, force: bool) -> anyhow::Result<()> {
+    if path.as_os_str() != "-" && path.exists() && !force {
+        anyhow::bail!("{} exists; pass --force to replace it", path.display());
+    }
+    Ok(())
 }
 
 /// A progress bar on stderr when it is a terminal, hidden otherwise (pipes and CI stay clean).

@@ -2,11 +2,10 @@
 
 use super::ProjectArgs;
 use anyhow::Context;
-use orthoepy::lexicon::Lexicon;
 use orthoepy::project::Project;
-use orthoepy::queue::{Journal, Ledger, Queue};
-use orthoepy::phoneset::Phoneset;
+use orthoepy::queue::{save_guessed, ReviewFiles, WorkspaceGuesser};
 use orthoepy::tui::{self, App, Lookups, PhonesetCheck, Services};
+use orthoepy::workspace::Workspace;
 use std::io::IsTerminal;
 use std::process::ExitCode;
 use std::sync::Arc;
@@ -30,51 +29,40 @@ pub struct Args {
 /// Run `orthoepy review`.
 pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     let project = args.project.require()?;
-    open_review(&project, args.reviewer)
+    open_review(project, args.reviewer)
 }
 
 /// Open the review screen on a project and report where the decisions went.
-pub fn open_review(project: &Project, reviewer: Option<String>) -> anyhow::Result<ExitCode> {
+pub fn open_review(project: Project, reviewer: Option<String>) -> anyhow::Result<ExitCode> {
     anyhow::ensure!(
         std::io::stdout().is_terminal(),
         "the review screen needs a terminal; use `orthoepy queue list` to see the queue from a script"
     );
-    let lexicon = Lexicon::load(&project.lexicon, project.headword_policy()).context("cannot load the lexicon")?;
-    let mut queue = Queue::load(&project.queue).context("cannot read the queue")?;
-    let (journal, warnings) = Journal::open(&project.journal).context("cannot open the journal")?;
-    for w in &warnings {
+    let files = ReviewFiles::open(&project)?;
+    for w in &files.warnings {
         eprintln!("warning: {w}");
     }
-    let ledger = Ledger::replay(journal.records());
-    let replayed = ledger.unapplied().len();
-    let phoneset = Phoneset::resolve(&project.phoneset, &project.root).context("cannot load the phoneset")?;
-    let phones = Arc::new(PhonesetCheck::new(phoneset.clone()));
-    let guesser = super::queue::ProjectGuesser::open(project, lexicon.clone())?;
+    let workspace = Arc::new(Workspace::open(project.clone())?);
+    let replayed = files.ledger.unapplied().len();
+    let phones = Arc::new(PhonesetCheck::new(workspace.phoneset().clone()));
     let title = project.root.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default();
-    let mut app = App::new(&title, queue.items().to_vec(), ledger, phones);
+    let mut app = App::new(&title, files.queue.items().to_vec(), files.ledger, phones);
     app.reviewer = reviewer
         .or_else(|| std::env::var("USER").ok())
         .or_else(|| std::env::var("LOGNAME").ok())
         .unwrap_or_else(|| "reviewer".to_string());
-    app.message = match (warnings.first(), replayed) {
+    app.message = match (files.warnings.first(), replayed) {
         (Some(w), _) => format!("warning: {w}"),
         (None, 0) => "press ? for keys".to_string(),
         (None, n) => format!("{n} decision(s) from the journal not yet applied — press ? for keys"),
     };
     let color = std::env::var_os("NO_COLOR").map_or(true, |v| v.is_empty());
-    let lookups = Lookups::new(lexicon, Some(phoneset));
-    let services = Services { lookups, journal, guesser: Some(Box::new(guesser)), color };
+    let lookups = Lookups::new(workspace.lexicon().clone(), Some(workspace.phoneset().clone()));
+    let guesser = Box::new(WorkspaceGuesser(Arc::clone(&workspace)));
+    let services = Services { lookups, journal: files.journal, guesser: Some(guesser), color };
     let app = tui::run(app, services).context("the review screen failed")?;
-    let mut guessed = false;
-    for (item, key) in app.items.iter().zip(&app.keys) {
-        if queue.get(key).is_some_and(|q| q.candidates.is_empty() && !item.candidates.is_empty()) {
-            queue.set_candidates(key, item.candidates.clone());
-            guessed = true;
-        }
-    }
-    if guessed {
-        queue.save().context("cannot save guessed candidates to the queue")?;
-    }
+    let guessed = app.keys.iter().map(String::as_str).zip(app.items.iter().map(|i| i.candidates.as_slice()));
+    save_guessed(&project.queue, guessed).context("cannot save guessed candidates to the queue")?;
     let pending = app.ledger.unapplied().len();
     println!(
         "{pending} decision(s) in {} waiting to be merged; run `orthoepy apply --project {}`",

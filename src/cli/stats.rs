@@ -1,8 +1,7 @@
 //! `orthoepy stats`: counts that describe a lexicon.
 
 use super::{DataFormat, ProjectArgs};
-use orthoepy::lexicon::{Lexicon, LexiconIndex};
-use std::collections::BTreeMap;
+use orthoepy::lexicon::LexiconStats;
 use std::path::PathBuf;
 use std::process::ExitCode;
 
@@ -22,51 +21,9 @@ pub struct Args {
 }
 
 /// The figures `stats` reports.
-#[derive(Debug, serde::Serialize)]
-struct Stats {
-    entries: usize,
-    words: usize,
-    /// number of pronunciations → number of words with that many
-    variants_per_word: BTreeMap<usize, usize>,
-    statuses: BTreeMap<String, usize>,
-    sources: BTreeMap<String, usize>,
-    mean_phones_per_entry: f64,
-    /// phone symbol as written (stress marks included) → occurrences
-    phone_frequencies: BTreeMap<String, usize>,
-}
-
-fn compute(lexicon: &Lexicon, index: &LexiconIndex) -> Stats {
-    let mut variants_per_word = BTreeMap::new();
-    for key in index.keys() {
-        *variants_per_word.entry(index.lookup(&key).len()).or_insert(0) += 1;
-    }
-    let mut statuses = BTreeMap::new();
-    let mut sources = BTreeMap::new();
-    let mut phone_frequencies = BTreeMap::new();
-    let mut phones = 0usize;
-    for entry in lexicon.entries() {
-        *statuses.entry(entry.status.to_string()).or_insert(0) += 1;
-        *sources.entry(entry.source.clone()).or_insert(0) += 1;
-        for phone in entry.phones() {
-            phones += 1;
-            *phone_frequencies.entry(phone.to_string()).or_insert(0) += 1;
-        }
-    }
-    let entries = lexicon.entries().len();
-    Stats {
-        entries,
-        words: index.word_count(),
-        variants_per_word,
-        statuses,
-        sources,
-        mean_phones_per_entry: if entries == 0 { 0.0 } else { phones as f64 / entries as f64 },
-        phone_frequencies,
-    }
-}
-
 pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     let (lexicon, _) = args.project.load_lexicon(args.lexicon.as_deref())?;
-    let stats = compute(&lexicon, &lexicon.index());
+    let stats = LexiconStats::of(&lexicon, &lexicon.index());
     match args.format {
         DataFormat::Json => super::print_json(&stats)?,
         DataFormat::Text => {
@@ -86,9 +43,7 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
                 println!("  {}\t{n}", if s.is_empty() { "(none)" } else { s });
             }
             println!("phones (most frequent first):");
-            let mut phones: Vec<_> = stats.phone_frequencies.iter().collect();
-            phones.sort_by(|a, b| b.1.cmp(a.1).then(a.0.cmp(b.0)));
-            for (p, n) in phones {
+            for (p, n) in stats.phones_by_frequency() {
                 println!("  {p}\t{n}");
             }
         }

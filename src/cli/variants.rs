@@ -1,22 +1,13 @@
 //! `orthoepy variants`: propose variant pronunciations by applying an accent profile or rule
 //! sets to a lexicon.
 
-use super::{print_json, ProjectArgs};
+use super::{print_json, DataFormat, ProjectArgs};
 use anyhow::Context;
 use orthoepy::phoneset::Phoneset;
 use orthoepy::project::Project;
 use orthoepy::variants::{feature_view, FeatureView, Generator, Options, Profile, RuleSet, Variant};
-use std::path::{Path, PathBuf};
+use std::path::PathBuf;
 use std::process::ExitCode;
-
-/// Output of `variants`.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
-pub enum Format {
-    /// Aligned columns for people.
-    Table,
-    /// One JSON document.
-    Json,
-}
 
 /// Propose variant pronunciations (accents, fast speech) from feature rewrite rules.
 ///
@@ -57,7 +48,7 @@ pub struct Args {
     explain: bool,
     /// Output format.
     #[arg(long, value_enum, default_value = "table")]
-    format: Format,
+    format: DataFormat,
     #[command(flatten)]
     project: ProjectArgs,
 }
@@ -74,10 +65,7 @@ fn load_profile(args: &Args, project: Option<&Project>, phoneset: &Phoneset) -> 
     let cwd = std::env::current_dir().context("cannot read the current folder")?;
     let base = project.map_or(cwd.as_path(), |p| p.root.as_path());
     if let Some(name) = &args.profile {
-        let from_project = project.and_then(|p| {
-            p.profiles.iter().find(|spec| Path::new(spec).file_stem().is_some_and(|s| s == name.as_str()))
-        });
-        let spec = from_project.map_or(name.as_str(), String::as_str);
+        let spec = project.map_or(name.as_str(), |p| p.profile_spec(name));
         return Profile::resolve(spec, base, phoneset).with_context(|| format!("cannot load profile {name}"));
     }
     let sets = args
@@ -94,9 +82,7 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
         anyhow::bail!("--min-prob {} is a probability: give a number from 0 to 1", args.min_prob);
     }
     let (lexicon, project) = args.project.load_lexicon(args.lexicon.as_deref())?;
-    let spec = args.phoneset.clone().or_else(|| project.as_ref().map(|p| p.phoneset.clone())).unwrap_or_else(|| "en-arpa".into());
-    let base = project.as_ref().map_or_else(|| PathBuf::from("."), |p| p.root.clone());
-    let phoneset = Phoneset::resolve(&spec, &base).with_context(|| format!("cannot load phoneset {spec}"))?;
+    let phoneset = super::resolve_phoneset(args.phoneset.as_deref(), project.as_ref())?;
     let profile = load_profile(&args, project.as_ref(), &phoneset)?;
     let options = Options { max_per_word: args.max_per_word, min_probability: args.min_prob };
     let generator = Generator::new(&phoneset, &profile, options);
@@ -110,12 +96,12 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
         Some(feature_view(&phoneset, &a, &b))
     };
     match args.format {
-        Format::Json => {
+        DataFormat::Json => {
             let out: Vec<JsonVariant> =
                 run.variants.iter().map(|v| JsonVariant { variant: v, view: if args.explain { view(v) } else { None } }).collect();
             print_json(&serde_json::json!({ "profile": profile.id, "variants": out, "skipped": run.skipped }))?;
         }
-        Format::Table => {
+        DataFormat::Text => {
             let width = run.variants.iter().map(|v| v.word.chars().count()).max().unwrap_or(4);
             for v in &run.variants {
                 let fired: Vec<String> = v.fired.iter().map(|f| format!("{}/{}@{}", f.rule_set, f.rule_id, f.position)).collect();

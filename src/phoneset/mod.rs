@@ -224,12 +224,21 @@ impl Phoneset {
         build::from_text(text, label)
     }
 
-    /// A shipped id, else a path (relative paths are taken from `base_dir`).
+    /// A shipped id, else a path (relative paths are taken from `base_dir`). A bare name that is
+    /// neither shipped nor an existing file is an unknown id, and the error lists the shipped ones.
+    ///
+    /// ```
+    /// use orthoepy::phoneset::Phoneset;
+    /// let err = Phoneset::resolve("en-arpabet", std::path::Path::new(".")).unwrap_err();
+    /// assert!(err.to_string().contains("en-arpa, "), "{err}");
+    /// ```
     pub fn resolve(spec: &str, base_dir: &Path) -> Result<Phoneset, PhonesetError> {
-        if SHIPPED_IDS.contains(&spec) {
+        let path = base_dir.join(spec);
+        let names_a_file = spec.contains('/') || spec.contains('\\') || spec.ends_with(".toml") || path.is_file();
+        if SHIPPED_IDS.contains(&spec) || !names_a_file {
             return Phoneset::shipped(spec);
         }
-        Phoneset::load(&base_dir.join(spec))
+        Phoneset::load(&path)
     }
 
     /// The phoneset's id.

@@ -24,6 +24,7 @@ pub const MAX_WORD_CHARS: usize = 64;
 /// ```
 pub fn items_from_word_list(text: &str, origin: &str, is_known: impl Fn(&str) -> bool) -> Vec<Item> {
     let mut out: Vec<Item> = Vec::new();
+    let mut position: std::collections::HashMap<String, usize> = std::collections::HashMap::new();
     for line in text.lines() {
         let line = line.trim_end();
         if line.trim().is_empty() || line.trim_start().starts_with('#') {
@@ -40,9 +41,12 @@ pub fn items_from_word_list(text: &str, origin: &str, is_known: impl Fn(&str) ->
         item.count = 1;
         item.context = context.to_string();
         item.origin = origin.to_string();
-        match out.iter_mut().find(|i| i.key() == item.key()) {
+        match position.get(&item.key()).and_then(|&i| out.get_mut(i)) {
             Some(have) => have.merge(item),
-            None => out.push(item),
+            None => {
+                position.insert(item.key(), out.len());
+                out.push(item);
+            }
         }
     }
     out

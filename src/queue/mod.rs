@@ -1,22 +1,34 @@
 //! The review queue: items waiting for a person, the candidates on offer for each, the
-//! decisions people make, the append-only journal those decisions go to, corpus tokenising to
-//! find new words, and merging decided items into the lexicon.
+//! decisions people make, the append-only journal those decisions go to, intake from every
+//! source (word lists, running text, variant proposals, audit findings), and merging decided
+//! items into the lexicon in a crash-safe order.
 //!
-//! This module draws nothing and runs no models: guessers and variant generators hand it
-//! [`Candidate`]s, and the review screen hands it [`Decision`]s.
+//! This module draws nothing. It gets candidates only from the project's one guesser
+//! ([`Workspace`](crate::workspace::Workspace)) and from the variant generator, and the review
+//! screen hands it [`Decision`]s.
 
 mod apply;
 mod error;
 mod fileio;
+mod guessing;
 mod intake;
 mod item;
 mod journal;
 mod ledger;
+mod project_files;
+mod sources;
+mod state;
 mod store;
 mod tokenise;
 
 pub use apply::{apply_decisions, ApplyReport, Outcome};
 pub use error::QueueError;
+pub use guessing::{candidates_for, fill_candidates, CandidateSource, WorkspaceGuesser};
+pub use project_files::{
+    apply_project, list_items, save_guessed, ApplyOptions, ApplyRun, ApplyStatus, ListedItem, ProjectQueueError, ReviewFiles,
+};
+pub use sources::{add_to_queue, gather, AddSummary, Corpus, Gathered, IntakeError, Sources, MAX_INTAKE_BYTES, PRONUNCIATION_CHECKS};
+pub use state::ItemState;
 pub use intake::{items_from_corpus, items_from_word_list, MAX_WORD_CHARS};
 pub use item::{sort_candidates, AlignPair, Candidate, Item, ItemKind};
 pub use journal::{Action, Decision, Journal, JournalWarning, Logged, Record};

@@ -18,7 +18,7 @@
 use std::collections::HashMap;
 
 /// What to do with an apostrophe inside a word.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, clap::ValueEnum)]
 pub enum Apostrophe {
     /// Keep it: `o'clock`.
     #[default]
@@ -30,7 +30,7 @@ pub enum Apostrophe {
 }
 
 /// What to do with a hyphen inside a word.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, clap::ValueEnum)]
 pub enum Hyphen {
     /// Split there: `ferry`, `port`.
     #[default]
@@ -40,7 +40,7 @@ pub enum Hyphen {
 }
 
 /// What to do with tokens that contain digits.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, clap::ValueEnum)]
 pub enum Digits {
     /// Leave them out (times, platform numbers, service codes).
     #[default]
@@ -50,7 +50,7 @@ pub enum Digits {
 }
 
 /// Whether spellings differing only in case count as one word.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, clap::ValueEnum)]
 pub enum Case {
     /// Count together, report the most frequent spelling.
     #[default]

@@ -8,42 +8,7 @@
 //!
 //! An empty filter shows everything. Parsing is pure; the app applies it.
 
-use crate::queue::{Action, Item};
-
-/// Review state of one item, as the filter and progress see it.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum ItemState {
-    /// No decision in force.
-    Pending,
-    /// Accepted (possibly edited) or rejected, not yet merged.
-    Decided,
-    /// Set aside.
-    Aside,
-    /// Decided and merged into the lexicon.
-    Applied,
-}
-
-impl ItemState {
-    /// Lower-case name, as used by the filter's `state=`.
-    pub fn name(self) -> &'static str {
-        match self {
-            ItemState::Pending => "pending",
-            ItemState::Decided => "decided",
-            ItemState::Aside => "aside",
-            ItemState::Applied => "applied",
-        }
-    }
-
-    /// Derive the state from the decision in force.
-    pub fn of(action: Option<&Action>, applied: bool) -> ItemState {
-        match (action, applied) {
-            (None, _) => ItemState::Pending,
-            (Some(_), true) => ItemState::Applied,
-            (Some(Action::SetAside), false) => ItemState::Aside,
-            (Some(_), false) => ItemState::Decided,
-        }
-    }
-}
+use crate::queue::{Item, ItemState};
 
 /// One parsed filter term.
 #[derive(Debug, Clone, PartialEq)]

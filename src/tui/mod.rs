@@ -2,7 +2,7 @@
 //! asks for, and the terminal loop that runs it all.
 //!
 //! The screen never parses files or runs models itself: the caller hands it queue items, a
-//! ledger replayed from the journal, phone knowledge and a guesser; it hands back decisions
+//! ledger replayed from the journal, phone knowledge and a [`CandidateSource`](crate::queue::CandidateSource); it hands back decisions
 //! through [`Effect::AppendJournal`], which the terminal loop writes (and fsyncs) before the
 //! screen moves on.
 
@@ -17,7 +17,7 @@ mod update;
 mod view;
 
 pub use editor::Editor;
-pub use filter::{Filter, ItemState};
+pub use filter::Filter;
 pub use help::KEYS;
 pub use lookups::{align, AlignedPair, Lookups, NEIGHBOUR_LIMIT};
 pub use phones::{check_all, PhoneCheck, PhonesetCheck, SymbolList, TokenVerdict};
@@ -27,4 +27,4 @@ pub use state::{
 };
 pub use update::{update, Effect, Event, Key};
 pub use view::draw;
-pub use terminal::{dispatch, execute_effect, map_key, run, Guesser, Services};
+pub use terminal::{dispatch, execute_effect, map_key, run, Services};

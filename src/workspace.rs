@@ -1,0 +1,187 @@
+//! An opened project: everything an `orthoepy.toml` names, read once and checked, and the one
+//! place where the project's guesser is assembled.
+//!
+//! [`Workspace::open`] loads the lexicon and builds its index, resolves the phoneset, the
+//! language configuration, the letter-to-sound rules and the trained model; a file that is
+//! named but fails to load is an error, never a silent fallback. Every caller that needs
+//! candidates for a word — `orthoepy guess` inside a project, queue intake, the review screen —
+//! asks [`Workspace::guess`], so one word in one project gets the same candidates, sources and
+//! scores everywhere. Accent profiles are resolved through [`Workspace::profile`] (the project's
+//! own profiles by file stem first, then shipped ids and paths).
+//!
+//! This module reads files and runs no user interface; it never writes anything.
+
+use std::path::Path;
+
+use crate::g2p::hybrid::{ConfigError, HybridGuesser, LanguageConfig, Proposal};
+use crate::g2p::lts::{LtsError, RuleSet as LetterToSoundRules};
+use crate::g2p::{Model, ModelFileError};
+use crate::lexicon::{Lexicon, LexiconError, LexiconIndex};
+use crate::phoneset::{Phoneset, PhonesetError};
+use crate::project::Project;
+use crate::variants::{Profile, VariantsError};
+
+/// How many candidates the review queue keeps per word.
+pub const CANDIDATES_PER_WORD: usize = 5;
+
+/// Errors opening a project's files.
+#[derive(Debug, thiserror::Error)]
+pub enum WorkspaceError {
+    /// The lexicon store could not be loaded.
+    #[error("cannot load the lexicon: {0}")]
+    Lexicon(#[from] LexiconError),
+    /// The phoneset could not be loaded.
+    #[error("cannot load the phoneset: {0}")]
+    Phoneset(#[from] PhonesetError),
+    /// The language configuration could not be loaded.
+    #[error("cannot load the guesser's language configuration: {0}")]
+    Language(#[from] ConfigError),
+    /// No language configuration fits the project's phoneset.
+    #[error(
+        "no shipped language configuration for phoneset `{phoneset}` (shipped: {shipped}); \
+         set `letter_to_sound` in orthoepy.toml to a shipped id"
+    )]
+    NoLanguage {
+        /// The project's phoneset id.
+        phoneset: String,
+        /// The shipped language ids.
+        shipped: String,
+    },
+    /// The letter-to-sound rules could not be loaded.
+    #[error("cannot load the letter-to-sound rules: {0}")]
+    Rules(#[from] LtsError),
+    /// The model file named in orthoepy.toml does not exist.
+    #[error(
+        "{}: the model named in orthoepy.toml does not exist; train it with `orthoepy train -o {}` \
+         or remove the `model` line", path.display(), path.display()
+    )]
+    MissingModel {
+        /// The model path.
+        path: std::path::PathBuf,
+    },
+    /// The model file could not be loaded.
+    #[error("cannot load the model: {0}")]
+    Model(#[from] ModelFileError),
+    /// An accent profile or rule set could not be loaded.
+    #[error("cannot load the accent profile `{name}`: {error}")]
+    Profile {
+        /// The name asked for.
+        name: String,
+        /// Why it failed.
+        error: VariantsError,
+    },
+}
+
+/// A project with its files loaded: lexicon and index, phoneset, language configuration,
+/// letter-to-sound rules and model.
+///
+/// ```
+/// let dir = tempfile::tempdir().unwrap();
+/// std::fs::write(dir.path().join("orthoepy.toml"), "lexicon = \"lexicon.csv\"\nletter_to_sound = \"en\"\n").unwrap();
+/// std::fs::write(dir.path().join("lexicon.csv"),
+///     "word,pronunciation,status,source,score,note\nferry,F EH1 R IY0,imported,demo,,\nboat,B OW1 T,imported,demo,,\n").unwrap();
+/// let project = orthoepy::project::Project::load(dir.path()).unwrap();
+/// let workspace = orthoepy::workspace::Workspace::open(project).unwrap();
+/// let best = &workspace.guess("ferryboat", 3)[0];
+/// assert_eq!(best.pronunciation, "F EH1 R IY0 B OW2 T");
+/// assert_eq!(best.source_label(), "compound:ferry+boat");
+/// ```
+pub struct Workspace {
+    project: Project,
+    lexicon: Lexicon,
+    index: LexiconIndex,
+    phoneset: Phoneset,
+    language: LanguageConfig,
+    rules: Option<LetterToSoundRules>,
+    model: Option<Model>,
+}
+
+impl Workspace {
+    /// Opens every file the project names; the model is the project's own.
+    pub fn open(project: Project) -> Result<Workspace, WorkspaceError> {
+        let model = project.model.clone();
+        Workspace::open_with_model(project, model.as_deref())
+    }
+
+    /// Opens the project with another model file (or none) instead of the one it names.
+    pub fn open_with_model(project: Project, model: Option<&Path>) -> Result<Workspace, WorkspaceError> {
+        let lexicon = Lexicon::load(&project.lexicon, project.headword_policy())?;
+        let phoneset = Phoneset::resolve(&project.phoneset, &project.root)?;
+        let language_id = match project.letter_to_sound.as_deref() {
+            Some(id) if LetterToSoundRules::is_shipped(id) => id.to_string(),
+            _ => match LetterToSoundRules::shipped_for_phoneset(phoneset.id()) {
+                Some(id) => id.to_string(),
+                None => {
+                    let shipped: Vec<&str> = crate::g2p::lts::SHIPPED.iter().map(|(id, _)| *id).collect();
+                    return Err(WorkspaceError::NoLanguage { phoneset: phoneset.id().to_string(), shipped: shipped.join(", ") });
+                }
+            },
+        };
+        let language = LanguageConfig::shipped(&language_id, &phoneset)?;
+        let rules = match project.letter_to_sound.as_deref() {
+            Some(spec) => Some(LetterToSoundRules::resolve(spec, &phoneset)?),
+            None => None,
+        };
+        let model = match model {
+            Some(path) if !path.exists() => return Err(WorkspaceError::MissingModel { path: path.to_path_buf() }),
+            Some(path) => Some(Model::load(path)?),
+            None => None,
+        };
+        let index = lexicon.index();
+        Ok(Workspace { project, lexicon, index, phoneset, language, rules, model })
+    }
+
+    /// The project file's contents.
+    pub fn project(&self) -> &Project {
+        &self.project
+    }
+
+    /// The lexicon as loaded.
+    pub fn lexicon(&self) -> &Lexicon {
+        &self.lexicon
+    }
+
+    /// The lexicon's FST index.
+    pub fn index(&self) -> &LexiconIndex {
+        &self.index
+    }
+
+    /// The project's phoneset.
+    pub fn phoneset(&self) -> &Phoneset {
+        &self.phoneset
+    }
+
+    /// The trained model, if the project has one.
+    pub fn model(&self) -> Option<&Model> {
+        self.model.as_ref()
+    }
+
+    /// Gives up the loaded lexicon (e.g. to change and save it).
+    pub fn into_lexicon(self) -> Lexicon {
+        self.lexicon
+    }
+
+    /// The project's guesser: initialisms, compounds and derivations over the lexicon, then the
+    /// model's N-best list, or — only when the project has no model — its letter-to-sound rules.
+    pub fn guesser(&self) -> HybridGuesser<'_> {
+        let guesser = HybridGuesser::new(&self.lexicon, &self.index, &self.phoneset, &self.language);
+        match (&self.model, &self.rules) {
+            (Some(model), _) => guesser.with_model(model),
+            (None, Some(rules)) => guesser.with_rules(rules),
+            (None, None) => guesser,
+        }
+    }
+
+    /// Candidates for `word`, best first, at most `limit`, on the calibrated score scale.
+    pub fn guess(&self, word: &str, limit: usize) -> Vec<Proposal> {
+        self.guesser().guess(word, limit)
+    }
+
+    /// An accent profile: one of the project's own profiles (`profiles` in orthoepy.toml) when
+    /// `name` is its file stem, else a shipped profile id, else a profile file (relative to
+    /// the project folder).
+    pub fn profile(&self, name: &str) -> Result<Profile, WorkspaceError> {
+        Profile::resolve(self.project.profile_spec(name), &self.project.root, &self.phoneset)
+            .map_err(|error| WorkspaceError::Profile { name: name.to_string(), error })
+    }
+}
