@@ -114,19 +114,15 @@ fn add(project: Project, a: AddArgs) -> anyhow::Result<ExitCode> {
 pub fn add_sources(project: Project, sources: &Sources, guess: bool) -> anyhow::Result<(queue::AddSummary, PathBuf)> {
     let queue_path = project.queue.clone();
     let workspace = Workspace::open(project)?;
-    let mut gathered = queue::gather(&workspace, sources)?;
-    for warning in &gathered.warnings {
+    let bar = super::progress_bar(0, "guessing");
+    let (summary, warnings) = queue::add_sources(&workspace, sources, guess, &mut |done, total| {
+        bar.set_length(total as u64);
+        bar.set_position(done as u64);
+    })?;
+    bar.finish_and_clear();
+    for warning in &warnings {
         eprintln!("warning: {warning}");
     }
-    if guess {
-        let bar = super::progress_bar(0, "guessing");
-        queue::fill_candidates(&mut gathered.items, &workspace, &mut |done, total| {
-            bar.set_length(total as u64);
-            bar.set_position(done as u64);
-        });
-        bar.finish_and_clear();
-    }
-    let summary = queue::add_to_queue(&queue_path, gathered.items)?;
     Ok((summary, queue_path))
 }
 

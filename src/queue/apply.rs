@@ -7,6 +7,8 @@
 //! Saving the lexicon and marking the journal are the caller's (through `Lexicon::save` and
 //! [`Journal::append`](super::Journal::append)); this file only edits the in-memory lexicon.
 
+use std::collections::HashMap;
+
 use crate::lexicon::{normalize_key, Entry, Lexicon, Status};
 
 use super::item::ItemKind;
@@ -100,16 +102,23 @@ impl ApplyReport {
 /// ```
 pub fn apply_decisions(lexicon: &mut Lexicon, queue: &Queue, ledger: &Ledger) -> ApplyReport {
     let mut report = ApplyReport { outcomes: Vec::new(), through: ledger.last_seq() };
+    let policy = *lexicon.policy();
+    // Entries by normalised headword, kept up to date as entries are added, so each decision
+    // costs a hash look-up rather than a pass over the lexicon.
+    let mut by_word: HashMap<String, Vec<usize>> = HashMap::new();
+    for (i, e) in lexicon.entries().iter().enumerate() {
+        by_word.entry(normalize_key(e.word.trim(), &policy).into_owned()).or_default().push(i);
+    }
     for (seq, decision) in ledger.unapplied() {
         if decision.action == Action::SetAside {
             continue;
         }
-        report.outcomes.push(apply_one(lexicon, queue, seq, decision));
+        report.outcomes.push(apply_one(lexicon, &mut by_word, queue, seq, decision));
     }
     report
 }
 
-fn apply_one(lexicon: &mut Lexicon, queue: &Queue, seq: u64, d: &Decision) -> Outcome {
+fn apply_one(lexicon: &mut Lexicon, by_word: &mut HashMap<String, Vec<usize>>, queue: &Queue, seq: u64, d: &Decision) -> Outcome {
     let word = d.word.clone();
     let Some(item) = queue.get(&d.item) else {
         return Outcome::Conflict { seq, word, reason: format!("item {} is no longer in the queue", d.item) };
@@ -119,10 +128,9 @@ fn apply_one(lexicon: &mut Lexicon, queue: &Queue, seq: u64, d: &Decision) -> Ou
     };
     let policy = *lexicon.policy();
     let key = normalize_key(item.word.trim(), &policy).into_owned();
-    let same_word = |e: &Entry| normalize_key(e.word.trim(), &policy) == key;
-    let has = |p: &str| lexicon.entries().iter().any(|e| same_word(e) && e.pronunciation == p);
-    let existing: Vec<String> =
-        lexicon.entries().iter().filter(|e| same_word(e)).map(|e| e.pronunciation.clone()).collect();
+    let ids: Vec<usize> = by_word.get(&key).cloned().unwrap_or_default();
+    let existing: Vec<String> = ids.iter().filter_map(|&i| lexicon.entries().get(i)).map(|e| e.pronunciation.clone()).collect();
+    let has = |p: &str| existing.iter().any(|e| e == p);
     if has(pronunciation) && !matches!(item.kind, ItemKind::Audit { .. }) {
         return Outcome::Unchanged { word, reason: "already in the lexicon".into() };
     }
@@ -143,6 +151,7 @@ fn apply_one(lexicon: &mut Lexicon, queue: &Queue, seq: u64, d: &Decision) -> Ou
             reason: format!("its canonical form /{canonical}/ is no longer in the lexicon"),
         },
         ItemKind::NewWord | ItemKind::Variant { .. } => {
+            by_word.entry(key).or_default().push(lexicon.entries().len());
             lexicon.push(entry);
             Outcome::Added { word, pronunciation: pronunciation.clone() }
         }
@@ -150,7 +159,8 @@ fn apply_one(lexicon: &mut Lexicon, queue: &Queue, seq: u64, d: &Decision) -> Ou
             if current == pronunciation {
                 return Outcome::Unchanged { word, reason: "kept as it is".into() };
             }
-            let target = lexicon.entries_mut().iter_mut().find(|e| same_word(e) && e.pronunciation == *current);
+            let at = ids.iter().copied().find(|&i| lexicon.entries().get(i).is_some_and(|e| e.pronunciation == *current));
+            let target = at.and_then(|i| lexicon.entries_mut().get_mut(i));
             match target {
                 Some(e) => {
                     e.pronunciation = pronunciation.clone();

@@ -10,6 +10,7 @@
 use std::path::{Path, PathBuf};
 
 use super::error::QueueError;
+use super::guessing::fill_candidates;
 use super::intake::{items_from_corpus, items_from_word_list};
 use super::item::{Candidate, Item, ItemKind};
 use super::store::{Added, Queue};
@@ -137,10 +138,38 @@ pub fn gather(workspace: &Workspace, sources: &Sources) -> Result<Gathered, Inta
     Ok(gathered)
 }
 
+/// Gathers the sources, guesses candidates for the new words the queue does not already hold
+/// with candidates (`progress(done, total)` as guessing goes), and adds everything to the
+/// project's queue file. Returns the summary and the warnings of [`gather`].
+pub fn add_sources(
+    workspace: &Workspace,
+    sources: &Sources,
+    guess: bool,
+    progress: &mut dyn FnMut(usize, usize),
+) -> Result<(AddSummary, Vec<String>), IntakeError> {
+    let path = &workspace.project().queue;
+    let mut gathered = gather(workspace, sources)?;
+    let mut queue = Queue::load(path)?;
+    if guess {
+        let (mut todo, mut rest): (Vec<Item>, Vec<Item>) = gathered
+            .items
+            .into_iter()
+            .partition(|item| item.candidates.is_empty() && queue.get(&item.key()).map_or(true, |q| q.candidates.is_empty()));
+        fill_candidates(&mut todo, workspace, progress);
+        rest.append(&mut todo);
+        gathered.items = rest;
+    }
+    let summary = merge_and_save(&mut queue, gathered.items)?;
+    Ok((summary, gathered.warnings))
+}
+
 /// Adds items to the queue file at `path` (merging those already queued), keeps the queue in
 /// review order (most frequent first) and saves it atomically.
 pub fn add_to_queue(path: &Path, items: Vec<Item>) -> Result<AddSummary, QueueError> {
-    let mut queue = Queue::load(path)?;
+    merge_and_save(&mut Queue::load(path)?, items)
+}
+
+fn merge_and_save(queue: &mut Queue, items: Vec<Item>) -> Result<AddSummary, QueueError> {
     let mut summary = AddSummary::default();
     for item in items {
         match queue.add(item) {

@@ -204,6 +204,8 @@ pub struct App {
     pub notes: HashMap<String, String>,
     /// Set once `q` or Ctrl-c was pressed.
     pub quitting: bool,
+    /// Index of each key in `keys` (so a 100,000-item queue finds an item without a scan).
+    positions: HashMap<String, usize>,
 }
 
 impl App {
@@ -212,9 +214,12 @@ impl App {
     pub fn new(title: &str, items: Vec<Item>, ledger: Ledger, phones: Arc<dyn PhoneCheck>) -> App {
         let undo = ledger.unapplied().iter().map(|(seq, _)| *seq).collect();
         let save = SaveState::Saved(ledger.last_seq());
+        let keys: Vec<String> = items.iter().map(Item::key).collect();
+        let positions = keys.iter().enumerate().map(|(i, k)| (k.clone(), i)).collect();
         let mut app = App {
             title: title.to_string(),
-            keys: items.iter().map(Item::key).collect(),
+            keys,
+            positions,
             items,
             ledger,
             cursor: 0,
@@ -237,6 +242,11 @@ impl App {
             app.cursor = first;
         }
         app
+    }
+
+    /// The position of the item with this key.
+    pub fn position_of(&self, key: &str) -> Option<usize> {
+        self.positions.get(key).copied()
     }
 
     /// The item on screen, if the queue is not empty.
@@ -281,17 +291,17 @@ impl App {
 
     /// Done (decided, set aside or applied) and total per item origin, plus the overall totals.
     pub fn progress(&self) -> (usize, usize, BTreeMap<String, (usize, usize)>) {
-        let mut by = BTreeMap::new();
+        let mut by: BTreeMap<&str, (usize, usize)> = BTreeMap::new();
         let mut done = 0;
         for (i, item) in self.items.iter().enumerate() {
-            let origin = if item.origin.is_empty() { item.kind.tag().to_string() } else { item.origin.clone() };
-            let slot: &mut (usize, usize) = by.entry(origin).or_default();
+            let origin = if item.origin.is_empty() { item.kind.tag() } else { item.origin.as_str() };
+            let slot = by.entry(origin).or_default();
             slot.1 += 1;
             if self.state_of(i) != ItemState::Pending {
                 slot.0 += 1;
                 done += 1;
             }
         }
-        (done, self.items.len(), by)
+        (done, self.items.len(), by.into_iter().map(|(origin, counts)| (origin.to_string(), counts)).collect())
     }
 }

@@ -151,7 +151,7 @@ pub fn update(app: &mut App, event: Event) -> Vec<Effect> {
             Vec::new()
         }
         Event::Candidates { key, candidates } => {
-            if let Some(i) = app.keys.iter().position(|k| *k == key) {
+            if let Some(i) = app.position_of(&key) {
                 if let Some(item) = app.items.get_mut(i) {
                     item.candidates = candidates;
                 }
@@ -354,7 +354,7 @@ fn on_journaled(app: &mut App, seq: u64, record: Record) -> Vec<Effect> {
                 app.redo.clear();
             }
             app.message = format!("{}: {} (saved #{seq})", d.word, describe(&d.action));
-            if let Some(i) = app.keys.iter().position(|k| *k == d.item) {
+            if let Some(i) = app.position_of(&d.item) {
                 app.cursor = i;
             }
             match app.next_pending_from(app.cursor) {
@@ -364,7 +364,7 @@ fn on_journaled(app: &mut App, seq: u64, record: Record) -> Vec<Effect> {
         }
         (Some(PendingWrite::Revoke(d)), Record::Revoke { .. }) => {
             app.message = format!("undid {} on {} (saved #{seq})", describe(&d.action), d.word);
-            let at = app.keys.iter().position(|k| *k == d.item);
+            let at = app.position_of(&d.item);
             app.redo.push(d);
             move_to(app, at);
         }
