@@ -15,6 +15,7 @@ pub mod pls;
 pub mod project;
 pub mod queue;
 pub mod safe_io;
+pub mod support;
 pub mod text_position;
 pub mod tui;
 pub mod variants;

@@ -7,7 +7,6 @@
 mod decode;
 mod em;
 mod graphone;
-mod hash;
 pub mod hybrid;
 pub mod lts;
 mod model;

@@ -36,7 +36,7 @@
 
 use rayon::prelude::*;
 
-use super::hash::FastMap;
+use crate::support::hash::FastMap;
 
 /// Highest supported n-gram order.
 pub const MAX_ORDER: usize = 9;

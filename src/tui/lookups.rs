@@ -6,6 +6,7 @@
 
 use crate::lexicon::{normalize_key, EntryId, Lexicon, LexiconIndex};
 use crate::phoneset::Phoneset;
+use crate::support::align::align as align_positions;
 use crate::variants::feature_view;
 
 use super::state::{FeatureColumn, FeatureTrack, FeatureView, Neighbours, SearchMode, WordPron};
@@ -185,48 +186,29 @@ fn bare(t: &str) -> &str {
     t.trim_end_matches(|c: char| c.is_ascii_digit())
 }
 
-/// Levenshtein alignment of two token strings (Levenshtein 1966; Wagner & Fischer, "The
-/// string-to-string correction problem", JACM 1974). A substitution differing only in stress
-/// digits costs 1, other substitutions 2, insertions and deletions 2 each (in half-edit units).
-/// Returns the aligned pairs and the cost.
+/// Alignment of two token strings ([`crate::support::align`]) in half-edit units: a
+/// substitution differing only in stress digits costs 1, other substitutions 2, insertions and
+/// deletions 2 each. Returns the aligned pairs and the cost.
+///
+/// ```
+/// use orthoepy::tui::align;
+/// let t = |s: &str| s.split(' ').map(String::from).collect::<Vec<_>>();
+/// let (pairs, cost) = align(&t("HH AA1 R"), &t("AA2 R"));
+/// assert_eq!(pairs[0], (Some("HH".to_string()), None));
+/// assert_eq!(cost, 3);
+/// ```
 pub fn align(a: &[String], b: &[String]) -> (Vec<AlignedPair>, usize) {
-    let (n, m) = (a.len(), b.len());
-    let sub = |i: usize, j: usize| match (a.get(i), b.get(j)) {
-        (Some(x), Some(y)) if x == y => 0,
-        (Some(x), Some(y)) if bare(x) == bare(y) => 1,
-        _ => 2,
-    };
-    let mut d = vec![vec![0usize; m + 1]; n + 1];
-    for (i, row) in d.iter_mut().enumerate() {
-        row[0] = i * 2;
-    }
-    if let Some(first) = d.first_mut() {
-        for (j, cell) in first.iter_mut().enumerate() {
-            *cell = j * 2;
-        }
-    }
-    for i in 1..=n {
-        for j in 1..=m {
-            d[i][j] = (d[i - 1][j - 1] + sub(i - 1, j - 1)).min(d[i - 1][j] + 2).min(d[i][j - 1] + 2);
-        }
-    }
-    let mut pairs = Vec::new();
-    let (mut i, mut j) = (n, m);
-    while i > 0 || j > 0 {
-        if i > 0 && j > 0 && d[i][j] == d[i - 1][j - 1] + sub(i - 1, j - 1) {
-            pairs.push((a.get(i - 1).cloned(), b.get(j - 1).cloned()));
-            i -= 1;
-            j -= 1;
-        } else if i > 0 && d[i][j] == d[i - 1][j] + 2 {
-            pairs.push((a.get(i - 1).cloned(), None));
-            i -= 1;
+    let found = align_positions(a.len(), b.len(), 2usize, |i, j| {
+        if a[i] == b[j] {
+            0
+        } else if bare(&a[i]) == bare(&b[j]) {
+            1
         } else {
-            pairs.push((None, b.get(j - 1).cloned()));
-            j -= 1;
+            2
         }
-    }
-    pairs.reverse();
-    (pairs, d[n][m])
+    });
+    let pairs = found.pairs.into_iter().map(|(i, j)| (i.and_then(|i| a.get(i).cloned()), j.and_then(|j| b.get(j).cloned()))).collect();
+    (pairs, found.cost)
 }
 
 #[cfg(test)]
