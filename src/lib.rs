@@ -16,6 +16,5 @@ pub mod project;
 pub mod queue;
 pub mod safe_io;
 pub mod support;
-pub mod text_position;
 pub mod tui;
 pub mod variants;

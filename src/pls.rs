@@ -255,7 +255,7 @@ pub fn read_pls(bytes: &[u8], set: &Phoneset, source: &str) -> Result<PlsImport,
     let mut reader = quick_xml::Reader::from_reader(bytes);
     reader.config_mut().trim_text(true);
     let at = |offset: usize, message: String| {
-        let (line, column) = crate::text_position::line_column(bytes, offset);
+        let (line, column) = crate::support::located::line_column(bytes, offset);
         PlsError::Syntax { line, column, message }
     };
     let mut import = PlsImport::default();

@@ -7,7 +7,7 @@
 
 use crate::lexicon::{normalize_key, Entry, EntryId, HeadwordPolicy};
 use crate::phoneset::{PhoneId, PhoneToken, Phoneset, Pronunciation, StressLevel, TokenProblem, TokenProblemKind};
-use crate::project::StressPolicy;
+use crate::audit::StressPolicy;
 use crate::support::hash::FnvMap;
 use rayon::prelude::*;
 use std::borrow::Cow;

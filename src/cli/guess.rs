@@ -4,7 +4,7 @@
 
 use anyhow::Context;
 use orthoepy::g2p::hybrid::{Candidate, Guesser, LanguageConfig};
-use orthoepy::g2p::lts::{RuleSet, SHIPPED};
+use orthoepy::g2p::lts::{LetterToSoundRules, SHIPPED};
 use orthoepy::g2p::{Guess, Model};
 use orthoepy::phoneset::Phoneset;
 use orthoepy::project::Project;
@@ -104,7 +104,7 @@ fn with_rules(lang: &str, words: &[String], format: GuessFormat) -> anyhow::Resu
         anyhow::bail!("no shipped letter-to-sound rules for `{lang}`; choose one of: {}", known.join(", "));
     };
     let phoneset = Phoneset::shipped(phoneset_id)?;
-    let rules = RuleSet::shipped(lang, &phoneset)?;
+    let rules = LetterToSoundRules::shipped(lang, &phoneset)?;
     let config = LanguageConfig::shipped(lang, &phoneset)?;
     let mut all = Vec::with_capacity(words.len());
     for word in words {
@@ -126,7 +126,7 @@ fn with_project(project: &Project, model: Option<PathBuf>, words: &[String], arg
         .letter_to_sound
         .as_deref()
         .filter(|id| SHIPPED.iter().any(|(s, _)| s == id))
-        .or_else(|| RuleSet::shipped_for_phoneset(phoneset.id()))
+        .or_else(|| LetterToSoundRules::shipped_for_phoneset(phoneset.id()))
         .with_context(|| format!("no shipped language configuration for phoneset {}", phoneset.id()))?;
     let config = LanguageConfig::shipped(language, &phoneset)?;
     let lexicon = orthoepy::lexicon::Lexicon::load(&project.lexicon, project.headword_policy()).context("cannot load the lexicon")?;
@@ -136,7 +136,7 @@ fn with_project(project: &Project, model: Option<PathBuf>, words: &[String], arg
         None => None,
     };
     let rules = match (&model, &project.letter_to_sound) {
-        (None, Some(spec)) => Some(RuleSet::resolve(spec, &phoneset).context("cannot load the project's letter-to-sound rules")?),
+        (None, Some(spec)) => Some(LetterToSoundRules::resolve(spec, &phoneset).context("cannot load the project's letter-to-sound rules")?),
         _ => None,
     };
     let mut guesser = Guesser::new(&lexicon, &index, &phoneset, &config);

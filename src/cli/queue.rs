@@ -6,7 +6,7 @@ use anyhow::Context;
 use orthoepy::lexicon::Lexicon;
 use orthoepy::project::Project;
 use orthoepy::g2p::hybrid::{Guesser, LanguageConfig};
-use orthoepy::g2p::lts::RuleSet as LtsRules;
+use orthoepy::g2p::lts::LetterToSoundRules as LtsRules;
 use orthoepy::g2p::Model;
 use orthoepy::phoneset::Phoneset;
 use orthoepy::queue::{

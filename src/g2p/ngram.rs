@@ -454,7 +454,7 @@ type Entry = (u32, f32);
 
 /// One stored history of the back-off model.
 #[derive(Clone, Debug, PartialEq)]
-pub struct Context {
+pub struct StoredContext {
     /// The history symbols, oldest first (may start with [`START`]).
     pub history: Vec<u32>,
     /// Natural log of the back-off weight γ(h).
@@ -485,7 +485,7 @@ pub struct NgramModel {
     order: usize,
     discounts: Vec<Discount>,
     unigram: Vec<f32>,
-    contexts: Vec<Context>,
+    contexts: Vec<StoredContext>,
     nodes: Vec<Node>,
     symbols: Vec<u32>,
     logps: Vec<f32>,
@@ -557,13 +557,13 @@ impl NgramModel {
                 by_history.entry((k, level.history[i])).or_insert_with(|| (history_of(key, k - 1), Vec::new())).1.push((key[k - 1], lp));
             }
         }
-        let mut contexts: Vec<Context> = by_history
+        let mut contexts: Vec<StoredContext> = by_history
             .into_iter()
             .map(|((k, index), (history, mut entries))| {
                 entries.sort_by_key(|e| e.0);
                 let (total, kept) = levels.levels[k - 1].totals[index as usize];
                 let backoff = if total > 0.0 { (kept / total).max(1e-300).ln() as f32 } else { 0.0 };
-                Context { history: history[..k - 1].to_vec(), backoff, entries }
+                StoredContext { history: history[..k - 1].to_vec(), backoff, entries }
             })
             .collect();
         contexts.sort_by(|a, b| (a.history.len(), &a.history).cmp(&(b.history.len(), &b.history)));
@@ -572,7 +572,7 @@ impl NgramModel {
     }
 
     /// Assembles a model from stored parts, validating every field (used by the model file).
-    pub fn from_parts(order: usize, discounts: Vec<Discount>, unigram: Vec<f32>, contexts: Vec<Context>) -> Result<NgramModel, NgramError> {
+    pub fn from_parts(order: usize, discounts: Vec<Discount>, unigram: Vec<f32>, contexts: Vec<StoredContext>) -> Result<NgramModel, NgramError> {
         if order == 0 || order > MAX_ORDER || discounts.len() != order || discounts.iter().any(|d| !d.is_finite()) {
             return Err(NgramError::Order(order));
         }
@@ -749,7 +749,7 @@ impl NgramModel {
     }
 
     /// All stored contexts (for the model file).
-    pub fn contexts(&self) -> &[Context] {
+    pub fn contexts(&self) -> &[StoredContext] {
         &self.contexts
     }
 
@@ -991,9 +991,9 @@ mod tests {
 
     #[test]
     fn from_parts_rejects_bad_contexts() {
-        let bad = Context { history: vec![7], backoff: 0.0, entries: vec![] };
+        let bad = StoredContext { history: vec![7], backoff: 0.0, entries: vec![] };
         assert!(NgramModel::from_parts(2, flat(&[0.5, 0.5]), vec![-1.0; 3], vec![bad]).is_err());
-        let unsorted = Context { history: vec![0], backoff: 0.0, entries: vec![(1, -1.0), (0, -1.0)] };
+        let unsorted = StoredContext { history: vec![0], backoff: 0.0, entries: vec![(1, -1.0), (0, -1.0)] };
         assert!(NgramModel::from_parts(2, flat(&[0.5, 0.5]), vec![-1.0; 3], vec![unsorted]).is_err());
     }
 }

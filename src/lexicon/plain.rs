@@ -54,7 +54,7 @@ pub fn read_plain(bytes: &[u8], source: &str) -> PlainImport {
             Ok(t) => t,
             Err(err) => {
                 import.content_lines += 1;
-                let column = crate::text_position::line_column(raw, err.valid_up_to()).1;
+                let column = crate::support::located::line_column(raw, err.valid_up_to()).1;
                 import.rejected.push(RejectedLine {
                     line,
                     column,

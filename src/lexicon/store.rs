@@ -11,7 +11,7 @@
 use super::entry::{Entry, Status};
 use super::normalize::{check_headword, normalize_key, HeadwordError, HeadwordPolicy};
 use crate::safe_io::{self, Fingerprint};
-use crate::text_position::line_column;
+use crate::support::located::line_column;
 use rayon::prelude::*;
 use std::fmt;
 use std::path::{Path, PathBuf};

@@ -191,7 +191,7 @@ impl Phoneset {
             let valid = e.utf8_error().valid_up_to();
             let ok =
                 String::from_utf8_lossy(e.as_bytes().get(..valid).unwrap_or_default()).into_owned();
-            let (line, column) = crate::text_position::line_column(ok.as_bytes(), ok.len());
+            let (line, column) = crate::support::located::line_column(ok.as_bytes(), ok.len());
             PhonesetError::Syntax {
                 file: file_label.clone(),
                 line,

@@ -2,7 +2,7 @@
 //! kept for error positions. No checking happens here (that is `schema.rs` and `build.rs`), and
 //! nothing outside the phoneset module sees these types.
 
-use crate::text_position::line_column;
+use crate::support::located::line_column;
 use std::collections::BTreeMap;
 use std::ops::Range;
 

@@ -7,4 +7,6 @@
 
 pub mod align;
 pub mod hash;
+pub mod located;
+pub mod read;
 pub mod split;

@@ -66,7 +66,7 @@ pub(crate) struct SourceText<'a> {
 impl SourceText<'_> {
     /// 1-based (line, character column) of a byte offset.
     pub fn position(&self, byte: usize) -> (usize, usize) {
-        crate::text_position::line_column(self.text.as_bytes(), byte)
+        crate::support::located::line_column(self.text.as_bytes(), byte)
     }
 
     /// Position of character `offset` inside a string value spanned by `span`. Exact for a

@@ -22,7 +22,7 @@ mod derivation;
 
 pub use config::{Allomorph, CompoundLimits, ConfigError, LanguageConfig, Scores, Suffix};
 
-use crate::g2p::lts::RuleSet;
+use crate::g2p::lts::LetterToSoundRules;
 use crate::lexicon::{Lexicon, LexiconIndex};
 use crate::phoneset::{Phoneset, Pronunciation, StressLevel};
 
@@ -117,7 +117,7 @@ pub struct Guesser<'a> {
     phoneset: &'a Phoneset,
     config: &'a LanguageConfig,
     model: Option<&'a dyn Nbest>,
-    rules: Option<&'a RuleSet>,
+    rules: Option<&'a LetterToSoundRules>,
 }
 
 impl<'a> Guesser<'a> {
@@ -133,7 +133,7 @@ impl<'a> Guesser<'a> {
     }
 
     /// Adds letter-to-sound rules, used when there is no model.
-    pub fn with_rules(mut self, rules: &'a RuleSet) -> Guesser<'a> {
+    pub fn with_rules(mut self, rules: &'a LetterToSoundRules) -> Guesser<'a> {
         self.rules = Some(rules);
         self
     }
