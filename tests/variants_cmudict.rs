@@ -8,7 +8,7 @@ use std::collections::{HashMap, HashSet};
 use orthoepy::lexicon::plain::read_plain;
 use orthoepy::lexicon::{HeadwordPolicy, Lexicon};
 use orthoepy::phoneset::Phoneset;
-use orthoepy::variants::{Generator, Options, Profile, RuleSet};
+use orthoepy::variants::{Generator, Options, Profile, VariantRuleSet};
 
 #[test]
 fn every_variant_of_cmudict_parses_under_every_shipped_set_and_profile() {
@@ -21,9 +21,9 @@ fn every_variant_of_cmudict_parses_under_every_shipped_set_and_profile() {
     for e in lexicon.entries() {
         existing.entry(e.word.as_str()).or_default().insert(e.pronunciation.as_str());
     }
-    let mut profiles: Vec<Profile> = RuleSet::shipped_ids()
+    let mut profiles: Vec<Profile> = VariantRuleSet::shipped_ids()
         .into_iter()
-        .map(|id| Profile::from_rule_sets(vec![RuleSet::shipped(id, &set).expect("shipped set compiles")]))
+        .map(|id| Profile::from_rule_sets(vec![VariantRuleSet::shipped(id, &set).expect("shipped set compiles")]))
         .collect();
     profiles.extend(Profile::shipped_ids().into_iter().map(|id| Profile::shipped(id, &set).expect("shipped profile compiles")));
     let options = Options { max_per_word: 8, min_probability: 0.01 };
