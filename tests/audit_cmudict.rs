@@ -17,7 +17,7 @@ fn raw() -> String {
 }
 
 fn cmudict() -> Vec<Entry> {
-    read_plain(raw().as_bytes(), "cmudict").entries
+    read_plain(raw().as_bytes(), "cmudict.dict", "cmudict").entries
 }
 
 fn audit_entries(entries: &[Entry], checks: &[&str]) -> Report {

