@@ -101,11 +101,7 @@ fn token_rule(a: &AddArgs) -> TokenRule {
 }
 
 fn read_text(path: &Path) -> anyhow::Result<String> {
-    const MAX: u64 = 256 * 1024 * 1024;
-    let size = std::fs::metadata(path).with_context(|| format!("cannot read {}", path.display()))?.len();
-    anyhow::ensure!(size <= MAX, "{}: larger than 256 MiB; split it first", path.display());
-    let bytes = std::fs::read(path).with_context(|| format!("cannot read {}", path.display()))?;
-    String::from_utf8(bytes).with_context(|| format!("{}: not UTF-8 text; convert it to UTF-8", path.display()))
+    Ok(orthoepy::support::read::read_capped_string(path, orthoepy::queue::MAX_INTAKE_TEXT)?)
 }
 
 fn file_label(kind: &str, path: &Path) -> String {

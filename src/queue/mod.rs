@@ -17,7 +17,8 @@ mod tokenise;
 
 pub use apply::{apply_decisions, ApplyReport, Outcome};
 pub use error::QueueError;
-pub use intake::{items_from_corpus, items_from_word_list, MAX_WORD_CHARS};
+pub use fileio::{MAX_JOURNAL, MAX_QUEUE};
+pub use intake::{items_from_corpus, items_from_word_list, MAX_INTAKE_TEXT, MAX_WORD_CHARS};
 pub use item::{sort_candidates, AlignPair, Candidate, Item, ItemKind};
 pub use journal::{Action, Decision, Journal, JournalWarning, Logged, Record};
 pub use ledger::Ledger;
