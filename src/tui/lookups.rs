@@ -7,9 +7,9 @@
 use crate::lexicon::{normalize_key, EntryId, Lexicon, LexiconIndex};
 use crate::phoneset::Phoneset;
 use crate::support::align::align as align_positions;
-use crate::variants::feature_view;
+use crate::variants::{feature_view, Column, Edit, FeatureView};
 
-use super::state::{FeatureColumn, FeatureTrack, FeatureView, Neighbours, SearchMode, WordPron};
+use super::state::{Comparison, Neighbours, SearchMode, WordPron};
 
 /// How many words each neighbour list holds at most.
 pub const NEIGHBOUR_LIMIT: usize = 6;
@@ -138,40 +138,27 @@ impl Lookups {
     }
 
     /// Align two pronunciations phone by phone and lay their features side by side (through
-    /// [`feature_view`] when both parse in the phoneset; otherwise phones only).
-    pub fn feature_view(&self, left: &str, right: &str, against: String) -> FeatureView {
+    /// [`feature_view`] when both parse in the phoneset; otherwise phones only). `left` (the
+    /// candidate) is the view's variant side, `right` its canonical side.
+    pub fn feature_view(&self, left: &str, right: &str, against: String) -> Comparison {
         let parsed = self.phoneset.as_ref().and_then(|set| Some((set, set.parse(left).ok()?, set.parse(right).ok()?)));
         if let Some((set, l, r)) = parsed {
-            let v = feature_view(set, &r, &l);
-            let columns = v
-                .columns
-                .iter()
-                .map(|c| FeatureColumn {
-                    left: c.variant.clone().unwrap_or_default(),
-                    right: c.canonical.clone().unwrap_or_default(),
-                })
-                .collect();
-            let tracks = v
-                .rows
-                .iter()
-                .map(|row| FeatureTrack {
-                    name: row.feature.clone(),
-                    cells: row
-                        .variant
-                        .iter()
-                        .zip(&row.canonical)
-                        .map(|(a, b)| (a.clone().unwrap_or_default(), b.clone().unwrap_or_default()))
-                        .collect(),
-                })
-                .collect();
-            return FeatureView { against, columns, tracks };
+            return Comparison { against, view: feature_view(set, &r, &l) };
         }
         let (pairs, _) = align(&tokens(left), &tokens(right));
         let columns = pairs
             .into_iter()
-            .map(|(l, r)| FeatureColumn { left: l.unwrap_or_default(), right: r.unwrap_or_default() })
+            .map(|(variant, canonical)| {
+                let edit = match (&canonical, &variant) {
+                    (Some(c), Some(v)) if c == v => Edit::Same,
+                    (Some(_), Some(_)) => Edit::Changed,
+                    (None, _) => Edit::Inserted,
+                    (Some(_), None) => Edit::Deleted,
+                };
+                Column { canonical, variant, edit }
+            })
             .collect();
-        FeatureView { against, columns, tracks: Vec::new() }
+        Comparison { against, view: FeatureView { columns, rows: Vec::new() } }
     }
 }
 
@@ -257,20 +244,16 @@ mod tests {
     fn feature_view_compares_with_canonical() {
         let l = lookups();
         let n = l.neighbours("variant:x", "harbour", "HH AA1 R B AH0", Some("HH AA1 R B ER0"));
-        let f = n.features.unwrap();
+        let f = n.features.unwrap().view;
         assert_eq!(f.columns.len(), 5);
-        assert_eq!(f.columns[4].left, "AH0");
-        assert_eq!(f.columns[4].right, "ER0");
+        assert_eq!(f.columns[4].variant.as_deref(), Some("AH0"));
+        assert_eq!(f.columns[4].canonical.as_deref(), Some("ER0"));
         // ER and AH differ in rhoticity at least (en-arpa features; r-coloured vs plain schwa,
         // IPA chart conventions).
-        let differing: Vec<&str> = f
-            .tracks
-            .iter()
-            .filter(|t| t.cells.get(4).is_some_and(|(a, b)| a != b))
-            .map(|t| t.name.as_str())
-            .collect();
+        let differing: Vec<&str> =
+            f.rows.iter().filter(|r| r.changed.get(4).copied().unwrap_or(false)).map(|r| r.feature.as_str()).collect();
         assert!(!differing.is_empty());
-        assert!(f.tracks.iter().all(|t| t.cells.first().is_some_and(|(a, b)| a == b)));
+        assert!(f.rows.iter().all(|r| r.changed.first() == Some(&false)));
     }
 
     #[test]
