@@ -27,6 +27,7 @@ pub const MIB: u64 = 1 << 20;
 /// use orthoepy::support::read::{Limit, MIB};
 /// const RULES: Limit = Limit { bytes: MIB, what: "letter-to-sound rule file" };
 /// assert_eq!(RULES.to_string(), "1 MiB");
+/// assert_eq!(Limit { bytes: 1024 * MIB, what: "model file" }.to_string(), "1 GiB");
 /// assert_eq!(Limit { bytes: 1500, what: "test" }.to_string(), "1500 bytes");
 /// ```
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -39,7 +40,9 @@ pub struct Limit {
 
 impl fmt::Display for Limit {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        if self.bytes >= MIB && self.bytes % MIB == 0 {
+        if self.bytes >= 1024 * MIB && self.bytes % (1024 * MIB) == 0 {
+            write!(f, "{} GiB", self.bytes / (1024 * MIB))
+        } else if self.bytes >= MIB && self.bytes % MIB == 0 {
             write!(f, "{} MiB", self.bytes / MIB)
         } else if self.bytes >= 1024 && self.bytes % 1024 == 0 {
             write!(f, "{} KiB", self.bytes / 1024)
@@ -62,7 +65,7 @@ pub enum ReadError {
         reason: io::Error,
     },
     /// The file is larger than the limit for its format.
-    #[error("{}: larger than {limit}, the most accepted for a {}; check that this is the right file (or split it)", path.display(), limit.what)]
+    #[error("{}: larger than {limit}, the most accepted for a {}; check that this is the right file", path.display(), limit.what)]
     TooLarge {
         /// The file.
         path: PathBuf,
@@ -105,7 +108,7 @@ impl ReadError {
 /// assert_eq!(read_capped(&path, Limit { bytes: 5, what: "test file" }).unwrap(), b"quay\n");
 /// let err = read_capped(&path, Limit { bytes: 4, what: "test file" }).unwrap_err();
 /// assert!(matches!(err, ReadError::TooLarge { .. }));
-/// assert!(err.to_string().ends_with("small.txt: larger than 4 bytes, the most accepted for a test file; check that this is the right file (or split it)"));
+/// assert!(err.to_string().ends_with("small.txt: larger than 4 bytes, the most accepted for a test file; check that this is the right file"));
 /// ```
 pub fn read_capped(path: &Path, limit: Limit) -> Result<Vec<u8>, ReadError> {
     let io = |reason| ReadError::Io { path: path.to_path_buf(), reason };
@@ -153,7 +156,7 @@ mod tests {
         if zero.exists() {
             let err = read_capped(zero, Limit { bytes: 4096, what: "lexicon" }).unwrap_err();
             assert!(matches!(err, ReadError::TooLarge { .. }), "{err}");
-            assert_eq!(err.to_string(), "/dev/zero: larger than 4 KiB, the most accepted for a lexicon; check that this is the right file (or split it)");
+            assert_eq!(err.to_string(), "/dev/zero: larger than 4 KiB, the most accepted for a lexicon; check that this is the right file");
         }
     }
 
