@@ -11,7 +11,7 @@ mod bench_util;
 use orthoepy::audit::{self, Context, Report};
 use orthoepy::lexicon::{HeadwordPolicy, Lexicon, LoadMode};
 use orthoepy::phoneset::Phoneset;
-use orthoepy::project::StressPolicy;
+use orthoepy::audit::StressPolicy;
 use std::path::Path;
 use std::process::Command;
 

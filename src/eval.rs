@@ -6,7 +6,8 @@
 //! **Split.** A word's bucket is `FNV-1a-64(NFC(lowercase(word))) mod 100` (FNV-1a with the
 //! standard 64-bit offset basis 0xcbf29ce484222325 and prime 0x100000001b3, over the UTF-8
 //! bytes); the word is a test word when its bucket is below the test percentage. All
-//! pronunciation variants of a word therefore fall on the same side.
+//! pronunciation variants of a word therefore fall on the same side. The split itself lives in
+//! [`crate::support::split`] (the trainer uses it too) and is re-exported here.
 //!
 //! **PER.** For each word, the edit distance (Levenshtein, unit costs) from the top hypothesis
 //! to the reference variant closest to it, summed over words, divided by the summed lengths of
@@ -21,37 +22,9 @@ use serde::Serialize;
 use unicode_normalization::UnicodeNormalization;
 
 use crate::g2p::{strip_stress, DecodeOptions, Model};
+use crate::support::align::{align as align_positions, closest};
 
-/// The split hash of a word (see the module docs).
-///
-/// ```
-/// // FNV-1a 64 of the empty string is the offset basis (Fowler, Noll, Vo; IETF draft
-/// // draft-eastlake-fnv).
-/// assert_eq!(orthoepy::eval::word_hash(""), 0xcbf29ce484222325);
-/// assert_eq!(orthoepy::eval::word_hash("a"), 0xaf63dc4c8601ec8c);
-/// ```
-pub fn word_hash(word: &str) -> u64 {
-    let normal: String = word.nfc().collect::<String>().to_lowercase();
-    normal.bytes().fold(0xcbf2_9ce4_8422_2325u64, |h, b| (h ^ u64::from(b)).wrapping_mul(0x0100_0000_01b3))
-}
-
-/// True if `word` belongs to the test side of a split with `test_percent` percent test words.
-pub fn is_test_word(word: &str, test_percent: u32) -> bool {
-    word_hash(word) % 100 < u64::from(test_percent)
-}
-
-/// Splits items into (train, test) by the word each belongs to.
-///
-/// ```
-/// use orthoepy::eval::split_by_word;
-/// let items = vec![("read", 1), ("read", 2), ("write", 3)];
-/// let (train, test) = split_by_word(items, |i| i.0, 50);
-/// assert_eq!(train.len() + test.len(), 3);
-/// assert!(train.iter().filter(|i| i.0 == "read").count() % 2 == 0); // variants stay together
-/// ```
-pub fn split_by_word<T, F: Fn(&T) -> &str>(items: Vec<T>, word_of: F, test_percent: u32) -> (Vec<T>, Vec<T>) {
-    items.into_iter().partition(|item| !is_test_word(word_of(item), test_percent))
-}
+pub use crate::support::split::{is_test_word, split_by_word, word_hash};
 
 /// One step of an alignment between a hypothesis and a reference.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -71,66 +44,30 @@ pub enum EditOp<'a> {
     Delete(&'a str),
 }
 
-fn distance_table<S: AsRef<str>>(hyp: &[S], reference: &[S]) -> Vec<Vec<usize>> {
-    let mut d = vec![vec![0usize; reference.len() + 1]; hyp.len() + 1];
-    for (i, row) in d.iter_mut().enumerate() {
-        row[0] = i;
-    }
-    for (j, cell) in d[0].iter_mut().enumerate() {
-        *cell = j;
-    }
-    for i in 1..=hyp.len() {
-        for j in 1..=reference.len() {
-            let sub = d[i - 1][j - 1] + usize::from(hyp[i - 1].as_ref() != reference[j - 1].as_ref());
-            d[i][j] = sub.min(d[i - 1][j] + 1).min(d[i][j - 1] + 1);
-        }
-    }
-    d
-}
-
-/// Levenshtein distance between two symbol sequences.
+/// A minimal-cost alignment (Levenshtein, unit costs) of `hyp` against `reference`, in order.
 ///
 /// ```
-/// // Classic textbook example (kitten → sitting = 3 edits), on characters.
-/// let a: Vec<String> = "kitten".chars().map(String::from).collect();
-/// let b: Vec<String> = "sitting".chars().map(String::from).collect();
-/// assert_eq!(orthoepy::eval::edit_distance(&a, &b), 3);
+/// use orthoepy::eval::{align, EditOp};
+/// let (h, r) = (["K", "AE", "T", "S"], ["K", "AA", "T"]);
+/// let ops = align(&h, &r);
+/// assert_eq!(ops[1], EditOp::Substitute { reference: "AA", hypothesis: "AE" });
+/// assert_eq!(ops[3], EditOp::Insert("S"));
 /// ```
-pub fn edit_distance<S: AsRef<str>>(hyp: &[S], reference: &[S]) -> usize {
-    distance_table(hyp, reference)[hyp.len()][reference.len()]
-}
-
-/// A minimal-cost alignment of `hyp` against `reference`, in order.
 pub fn align<'a, S: AsRef<str>>(hyp: &'a [S], reference: &'a [S]) -> Vec<EditOp<'a>> {
-    let d = distance_table(hyp, reference);
-    let (mut i, mut j) = (hyp.len(), reference.len());
-    let mut ops = Vec::new();
-    while i > 0 || j > 0 {
-        if i > 0 && j > 0 {
-            let (h, r) = (hyp[i - 1].as_ref(), reference[j - 1].as_ref());
-            if d[i][j] == d[i - 1][j - 1] + usize::from(h != r) {
-                ops.push(if h == r { EditOp::Match(r) } else { EditOp::Substitute { reference: r, hypothesis: h } });
-                i -= 1;
-                j -= 1;
-                continue;
+    let found = align_positions(hyp.len(), reference.len(), 1usize, |i, j| usize::from(hyp[i].as_ref() != reference[j].as_ref()));
+    found
+        .pairs
+        .into_iter()
+        .filter_map(|pair| match pair {
+            (Some(i), Some(j)) => {
+                let (h, r) = (hyp[i].as_ref(), reference[j].as_ref());
+                Some(if h == r { EditOp::Match(r) } else { EditOp::Substitute { reference: r, hypothesis: h } })
             }
-        }
-        if i > 0 && d[i][j] == d[i - 1][j] + 1 {
-            ops.push(EditOp::Insert(hyp[i - 1].as_ref()));
-            i -= 1;
-        } else {
-            ops.push(EditOp::Delete(reference[j - 1].as_ref()));
-            j -= 1;
-        }
-    }
-    ops.reverse();
-    ops
-}
-
-/// The reference closest to `hyp`: `(index, edit distance)`; ties go to the first. `None` if
-/// there are no references.
-pub fn closest_reference<S: AsRef<str>>(hyp: &[S], references: &[Vec<S>]) -> Option<(usize, usize)> {
-    references.iter().enumerate().map(|(i, r)| (i, edit_distance(hyp, r))).min_by_key(|&(i, d)| (d, i))
+            (Some(i), None) => Some(EditOp::Insert(hyp[i].as_ref())),
+            (None, Some(j)) => Some(EditOp::Delete(reference[j].as_ref())),
+            (None, None) => None,
+        })
+        .collect()
 }
 
 /// One scored word: its top hypothesis and all reference variants.
@@ -167,7 +104,7 @@ impl Rates {
         if !refs.iter().any(|r| r == hyp) {
             self.word_errors += 1;
         }
-        if let Some((i, d)) = closest_reference(hyp, refs) {
+        if let Some((i, d)) = closest(hyp, refs) {
             self.phone_errors += d;
             self.reference_phones += refs[i].len();
         }
@@ -242,7 +179,7 @@ pub fn score(words: &[Scored]) -> Evaluation {
         eval.unstressed.add(&bare(&w.hypothesis), &bare_refs);
         let letters = w.word.nfc().count().min(LENGTH_BUCKETS);
         lengths.entry(letters).or_default().add(&w.hypothesis, &w.references);
-        if let Some((i, _)) = closest_reference(&w.hypothesis, &w.references) {
+        if let Some((i, _)) = closest(&w.hypothesis, &w.references) {
             for op in align(&w.hypothesis, &w.references[i]) {
                 let key = match op {
                     EditOp::Match(_) => continue,
@@ -315,7 +252,7 @@ mod tests {
         let (h, r) = (p("K AE T S"), p("K AA T"));
         let ops = align(&h, &r);
         let cost = ops.iter().filter(|o| !matches!(o, EditOp::Match(_))).count();
-        assert_eq!(cost, edit_distance(&h, &r));
+        assert_eq!(cost, crate::support::align::levenshtein(&h, &r));
         assert_eq!(cost, 2);
     }
 
@@ -327,13 +264,5 @@ mod tests {
         assert_eq!(e.stressed.phone_errors, 1);
         assert_eq!(e.stressed.reference_phones, 3);
         assert_eq!(e.stressed.word_errors, 1);
-    }
-
-    #[test]
-    fn split_is_deterministic_and_roughly_proportional() {
-        let words: Vec<String> = (0..2000).map(|i| format!("w{i}")).collect();
-        let test = words.iter().filter(|w| is_test_word(w, 10)).count();
-        assert!((100..300).contains(&test), "{test}");
-        assert!(words.iter().all(|w| is_test_word(w, 10) == is_test_word(&w.to_uppercase(), 10)));
     }
 }

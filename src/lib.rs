@@ -17,7 +17,7 @@ pub mod pls;
 pub mod project;
 pub mod queue;
 pub mod safe_io;
-pub mod text_position;
+pub mod support;
 pub mod tui;
 pub mod variants;
 pub mod workspace;

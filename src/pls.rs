@@ -13,13 +13,16 @@
 use crate::lexicon::{normalize_key, Entry, HeadwordPolicy, Status};
 use crate::phoneset::{Phoneset, StressLevel};
 use quick_xml::events::Event;
+use crate::support::located::{origin_of, Located};
+use crate::support::read::{read_capped, Limit, ReadError, MIB};
 use std::collections::HashSet;
+use std::path::Path;
 
 /// The PLS namespace.
 pub const PLS_NAMESPACE: &str = "http://www.w3.org/2005/01/pronunciation-lexicon";
 
-/// The largest PLS document read (bytes).
-pub const MAX_PLS_BYTES: usize = 256 * 1024 * 1024;
+/// The largest PLS document read.
+pub const MAX_PLS: Limit = Limit { bytes: 256 * MIB, what: "PLS document" };
 
 /// Deepest element nesting accepted (a PLS document needs three levels).
 const MAX_DEPTH: usize = 16;
@@ -36,19 +39,15 @@ pub enum Alphabet {
 /// Errors of reading or writing PLS.
 #[derive(Debug, thiserror::Error)]
 pub enum PlsError {
+    /// The file could not be read, or is larger than [`MAX_PLS`].
+    #[error(transparent)]
+    Read(#[from] ReadError),
     /// The document is malformed or not PLS, at a known place.
-    #[error("{line}:{column}: {message}")]
-    Syntax {
-        /// 1-based line.
-        line: usize,
-        /// 1-based column.
-        column: usize,
-        /// What is wrong and what to do.
-        message: String,
-    },
-    /// The document is larger than [`MAX_PLS_BYTES`].
-    #[error("document of {0} bytes is over the {MAX_PLS_BYTES}-byte limit; split it")]
-    TooLarge(usize),
+    #[error("{0}")]
+    Syntax(Located),
+    /// A document held in memory is larger than [`MAX_PLS`].
+    #[error("{0}")]
+    TooLarge(Located),
     /// A pronunciation cannot be written in IPA.
     #[error("{word}: phone {symbol:?} is not in phoneset {phoneset}; fix it (orthoepy audit) or export with symbols")]
     UnknownPhone {
@@ -232,8 +231,24 @@ fn escape(text: &str) -> String {
 pub struct PlsImport {
     /// Entries, in document order, status `imported`.
     pub entries: Vec<Entry>,
-    /// Phonemes that could not be read, as (line, message).
-    pub rejected: Vec<(usize, String)>,
+    /// Phonemes that could not be read, each at its line of the document.
+    pub rejected: Vec<Located>,
+}
+
+/// Reads the PLS document at `path` (at most [`MAX_PLS`]); see [`read_pls`].
+///
+/// ```
+/// use orthoepy::phoneset::Phoneset;
+/// let set = Phoneset::shipped("en-arpa").unwrap();
+/// let dir = tempfile::tempdir().unwrap();
+/// let path = dir.path().join("words.pls");
+/// std::fs::write(&path, "<words/>").unwrap();
+/// let err = orthoepy::pls::read_pls_file(&path, &set, "pls").unwrap_err();
+/// assert!(err.to_string().starts_with(&format!("{}:1:1: ", path.display())), "{err}");
+/// ```
+pub fn read_pls_file(path: &Path, set: &Phoneset, source: &str) -> Result<PlsImport, PlsError> {
+    let bytes = read_capped(path, MAX_PLS)?;
+    read_pls(&bytes, &origin_of(path), set, source)
 }
 
 /// Reads a PLS document into entries of `set`'s symbols. IPA phonemes are segmented by longest
@@ -245,19 +260,19 @@ pub struct PlsImport {
 /// let set = Phoneset::shipped("en-arpa").unwrap();
 /// let xml = r#"<lexicon version="1.0" xmlns="http://www.w3.org/2005/01/pronunciation-lexicon"
 ///   alphabet="ipa" xml:lang="en-US"><lexeme><grapheme>quay</grapheme><phoneme>ˈki</phoneme></lexeme></lexicon>"#;
-/// let import = orthoepy::pls::read_pls(xml.as_bytes(), &set, "pls").unwrap();
+/// let import = orthoepy::pls::read_pls(xml.as_bytes(), "quay.pls", &set, "pls").unwrap();
 /// assert_eq!(import.entries[0].pronunciation, "K IY1");
 /// ```
-pub fn read_pls(bytes: &[u8], set: &Phoneset, source: &str) -> Result<PlsImport, PlsError> {
-    if bytes.len() > MAX_PLS_BYTES {
-        return Err(PlsError::TooLarge(bytes.len()));
+///
+/// `origin` names the document in errors and rejected phonemes (see [`read_pls_file`]).
+pub fn read_pls(bytes: &[u8], origin: &str, set: &Phoneset, source: &str) -> Result<PlsImport, PlsError> {
+    if bytes.len() as u64 > MAX_PLS.bytes {
+        let message = format!("{} bytes is over the {MAX_PLS} accepted for a PLS document; split it", bytes.len());
+        return Err(PlsError::TooLarge(Located::whole(origin, message)));
     }
     let mut reader = quick_xml::Reader::from_reader(bytes);
     reader.config_mut().trim_text(true);
-    let at = |offset: usize, message: String| {
-        let (line, column) = crate::text_position::line_column(bytes, offset);
-        PlsError::Syntax { line, column, message }
-    };
+    let at = |offset: usize, message: String| PlsError::Syntax(Located::at_offset(origin, bytes, offset, message));
     let mut import = PlsImport::default();
     let mut alphabet: Option<Alphabet> = None;
     let mut stack: Vec<String> = Vec::new();
@@ -314,7 +329,7 @@ pub fn read_pls(bytes: &[u8], set: &Phoneset, source: &str) -> Result<PlsImport,
                                 import.entries.push(entry);
                             }
                         }
-                        Err(message) => import.rejected.push((*line, message)),
+                        Err(message) => import.rejected.push(Located::at_line(origin, *line, message)),
                     }
                 }
             }
@@ -424,7 +439,7 @@ mod tests {
         ];
         for alphabet in [Alphabet::Ipa, Alphabet::Symbols] {
             let xml = write_pls(&entries, &HeadwordPolicy::default(), &set, alphabet, "en-GB").unwrap();
-            let back = read_pls(xml.as_bytes(), &set, "pls").unwrap();
+            let back = read_pls(xml.as_bytes(), "t.pls", &set, "pls").unwrap();
             assert!(back.rejected.is_empty(), "{:?}", back.rejected);
             let mut got: Vec<(String, String)> = back.entries.into_iter().map(|e| (e.word, e.pronunciation)).collect();
             got.sort();
@@ -438,24 +453,24 @@ mod tests {
     fn malformed_documents_are_located() {
         let set = arpa();
         let bad = "<lexicon version=\"1.0\" alphabet=\"ipa\">\n  <lexeme><grapheme>a</grapheme></lexem>\n</lexicon>";
-        match read_pls(bad.as_bytes(), &set, "t") {
-            Err(PlsError::Syntax { line, .. }) => assert_eq!(line, 2),
+        match read_pls(bad.as_bytes(), "t.pls", &set, "t") {
+            Err(PlsError::Syntax(at)) => assert_eq!((at.origin.as_str(), at.line()), ("t.pls", Some(2))),
             other => panic!("{other:?}"),
         }
-        assert!(matches!(read_pls(b"<words/>", &set, "t"), Err(PlsError::Syntax { .. })));
+        assert!(matches!(read_pls(b"<words/>", "t.pls", &set, "t"), Err(PlsError::Syntax(_))));
         let deep = format!("<lexicon alphabet=\"ipa\">{}", "<a>".repeat(100));
-        assert!(matches!(read_pls(deep.as_bytes(), &set, "t"), Err(PlsError::Syntax { .. })));
+        assert!(matches!(read_pls(deep.as_bytes(), "t.pls", &set, "t"), Err(PlsError::Syntax(_))));
         let foreign = "<lexicon version=\"1.0\" alphabet=\"x-other\"></lexicon>";
-        assert!(matches!(read_pls(foreign.as_bytes(), &set, "t"), Err(PlsError::Syntax { .. })));
+        assert!(matches!(read_pls(foreign.as_bytes(), "t.pls", &set, "t"), Err(PlsError::Syntax(_))));
     }
 
     #[test]
     fn unreadable_phonemes_are_reported_not_fatal() {
         let set = arpa();
         let xml = "<lexicon version=\"1.0\" alphabet=\"ipa\">\n<lexeme><grapheme>x</grapheme><phoneme>ʘ</phoneme></lexeme>\n</lexicon>";
-        let import = read_pls(xml.as_bytes(), &set, "t").unwrap();
+        let import = read_pls(xml.as_bytes(), "t.pls", &set, "t").unwrap();
         assert!(import.entries.is_empty());
         assert_eq!(import.rejected.len(), 1);
-        assert_eq!(import.rejected[0].0, 2);
+        assert_eq!(import.rejected[0].line(), Some(2));
     }
 }

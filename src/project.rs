@@ -22,15 +22,17 @@
 //! ```
 
 use crate::lexicon::HeadwordPolicy;
-use crate::text_position::line_column;
+use crate::audit::StressPolicy;
+use crate::support::located::{origin_of, Located};
+use crate::support::read::{read_capped_string, Limit, ReadError, MIB};
 use serde::Deserialize;
 use std::path::{Path, PathBuf};
 
 /// The file name looked for.
 pub const PROJECT_FILE: &str = "orthoepy.toml";
 
-/// The largest project file accepted (bytes).
-const MAX_PROJECT_BYTES: u64 = 1024 * 1024;
+/// The largest project file accepted: a few dozen lines in practice.
+pub const MAX_PROJECT: Limit = Limit { bytes: MIB, what: "project file" };
 
 /// Errors of finding or reading a project file.
 #[derive(Debug, thiserror::Error)]
@@ -41,58 +43,12 @@ pub enum ProjectError {
         /// Where the search started.
         start: PathBuf,
     },
-    /// The file could not be read.
-    #[error("{}: {source}", path.display())]
-    Io {
-        /// The file.
-        path: PathBuf,
-        /// The underlying error.
-        source: std::io::Error,
-    },
+    /// The file could not be read, or is too large to be a project file (over [`MAX_PROJECT`]).
+    #[error(transparent)]
+    Read(#[from] ReadError),
     /// The file is not valid project TOML.
-    #[error("{}:{line}:{column}: {message}", path.display())]
-    Syntax {
-        /// The file.
-        path: PathBuf,
-        /// 1-based line.
-        line: usize,
-        /// 1-based column.
-        column: usize,
-        /// What is wrong.
-        message: String,
-    },
-    /// The file is too large to be a project file.
-    #[error("{}: larger than {MAX_PROJECT_BYTES} bytes; this is not a project file", path.display())]
-    TooLarge {
-        /// The file.
-        path: PathBuf,
-    },
-}
-
-/// How many primary stresses a pronunciation must carry (an audit policy).
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, Deserialize, serde::Serialize)]
-#[serde(rename_all = "kebab-case")]
-pub enum PrimaryStressPolicy {
-    /// Exactly one primary stress per pronunciation.
-    #[default]
-    ExactlyOne,
-    /// At least one (compounds may carry two).
-    AtLeastOne,
-    /// Do not check primary stress.
-    Unchecked,
-}
-
-/// Stress policies of a project.
-#[derive(Debug, Clone, PartialEq, Eq, Default, Deserialize, serde::Serialize)]
-#[serde(deny_unknown_fields)]
-pub struct StressPolicy {
-    /// How many primary stresses a pronunciation needs.
-    #[serde(default)]
-    pub primary: PrimaryStressPolicy,
-    /// Groups of phone tokens the project treats as free variation: variants of a word that
-    /// differ only by swapping tokens within one group are redundant.
-    #[serde(default)]
-    pub free_variation: Vec<Vec<String>>,
+    #[error("{0}")]
+    Syntax(Located),
 }
 
 #[derive(Debug, Deserialize)]
@@ -162,22 +118,16 @@ impl Project {
     pub fn load(dir: &Path) -> Result<Project, ProjectError> {
         // Every path the project names is resolved against an absolute root, so a relative
         // `--project DIR` means the same folder wherever the paths are used later.
-        let dir = &std::path::absolute(dir).map_err(|source| ProjectError::Io { path: dir.to_path_buf(), source })?;
+        let dir = &std::path::absolute(dir).unwrap_or_else(|_| dir.to_path_buf());
         let path = dir.join(PROJECT_FILE);
-        let io = |source| ProjectError::Io { path: path.clone(), source };
-        if std::fs::metadata(&path).map_err(io)?.len() > MAX_PROJECT_BYTES {
-            return Err(ProjectError::TooLarge { path });
-        }
-        let text = std::fs::read_to_string(&path).map_err(io)?;
+        let text = read_capped_string(&path, MAX_PROJECT)?;
         Project::parse(&text, dir, &path)
     }
 
     /// Parses project TOML; relative paths are resolved against `root`, `path` names the file in errors.
     pub fn parse(text: &str, root: &Path, path: &Path) -> Result<Project, ProjectError> {
-        let file: ProjectFile = toml::from_str(text).map_err(|err| {
-            let (line, column) = err.span().map(|s| line_column(text.as_bytes(), s.start)).unwrap_or((1, 1));
-            ProjectError::Syntax { path: path.to_path_buf(), line, column, message: err.message().to_string() }
-        })?;
+        let file: ProjectFile =
+            toml::from_str(text).map_err(|err| ProjectError::Syntax(Located::from_toml(origin_of(path), text, &err)))?;
         let root = root.to_path_buf();
         let resolve = |p: &Path| if p.is_absolute() { p.to_path_buf() } else { root.join(p) };
         let resolve_named = |spec: &str| {
@@ -248,9 +198,10 @@ mod tests {
         let err = Project::parse("lexicon = \"a.csv\"\nfoldcase = true\n", Path::new("/p"), Path::new("/p/orthoepy.toml"))
             .unwrap_err();
         match err {
-            ProjectError::Syntax { line, column, message, .. } => {
-                assert_eq!((line, column), (2, 1));
-                assert!(message.contains("foldcase"), "{message}");
+            ProjectError::Syntax(at) => {
+                assert_eq!((at.line(), at.column()), (Some(2), Some(1)));
+                assert!(at.message.contains("foldcase"), "{}", at.message);
+                assert!(at.to_string().starts_with("/p/orthoepy.toml:2:1: "), "{at}");
             }
             other => panic!("unexpected {other:?}"),
         }
@@ -263,7 +214,7 @@ mod tests {
         let p = Project::parse(text, Path::new("/p"), Path::new("/p/orthoepy.toml")).unwrap();
         assert_eq!(p.phoneset, "/p/sets/mine.toml");
         assert_eq!(p.profiles, ["fast-speech", "/p/local.toml"]);
-        assert_eq!(p.stress.primary, PrimaryStressPolicy::AtLeastOne);
+        assert_eq!(p.stress.primary, crate::audit::PrimaryStressPolicy::AtLeastOne);
         assert_eq!(p.queue, Path::new("/p/review-queue.jsonl"));
     }
 

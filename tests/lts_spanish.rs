@@ -9,7 +9,7 @@
 //! approximant allophones, and primary stress written IPA-style as `ˈ` before the stressed
 //! vowel (converted to the phoneset's own stress marks by [`reference`]).
 
-use orthoepy::g2p::lts::RuleSet;
+use orthoepy::g2p::lts::LetterToSoundRules;
 use orthoepy::phoneset::{PhoneToken, Phoneset, Pronunciation, StressLevel};
 
 const REFERENCE: &[(&str, &str)] = &[
@@ -160,7 +160,7 @@ fn edits(a: &[PhoneToken], b: &[PhoneToken]) -> usize {
 #[test]
 fn spanish_rules_match_handbook_transcriptions() {
     let es = Phoneset::shipped("es-ipa").unwrap();
-    let rules = RuleSet::shipped("es", &es).unwrap();
+    let rules = LetterToSoundRules::shipped("es", &es).unwrap();
     assert!(REFERENCE.len() >= 60);
     let (mut errors, mut phones, mut wrong_words) = (0, 0, Vec::new());
     for (word, expected) in REFERENCE {

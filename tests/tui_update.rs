@@ -198,7 +198,7 @@ fn variant_items_compare_with_their_canonical_form() {
     let f = app.neighbours.clone().unwrap().features.unwrap();
     assert_eq!(f.against, "/HH AA1 R B ER0/");
     // h-dropping removes HH; non-rhotic drops R: two positions with no phone on our side.
-    assert_eq!(f.columns.iter().filter(|c| c.left.is_empty()).count(), 2);
+    assert_eq!(f.view.columns.iter().filter(|c| c.variant.is_none()).count(), 2);
 }
 
 #[test]

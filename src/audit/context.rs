@@ -7,11 +7,10 @@
 
 use crate::lexicon::{normalize_key, Entry, EntryId, HeadwordPolicy};
 use crate::phoneset::{PhoneId, PhoneToken, Phoneset, Pronunciation, StressLevel, TokenProblem, TokenProblemKind};
-use crate::project::StressPolicy;
+use crate::audit::StressPolicy;
+use crate::support::hash::FnvMap;
 use rayon::prelude::*;
 use std::borrow::Cow;
-use std::collections::HashMap;
-use std::hash::{BuildHasherDefault, Hasher};
 use std::ops::Range;
 
 /// Entries per parallel work item (small enough to balance, large enough to amortise).
@@ -229,7 +228,9 @@ fn parse_all(entries: &[Entry], phoneset: &Phoneset) -> (Vec<Token>, Vec<Range<u
 /// Every well-formed token of a phoneset (each symbol bare and with each declared mark), read
 /// once through the phoneset itself, so the per-token work of an audit is one hash lookup.
 struct TokenTable {
-    known: HashMap<String, (Token, bool), BuildHasherDefault<Fnv1a>>,
+    /// FNV-1a: fast for the short phone tokens the table is keyed by, which need no protection
+    /// against chosen collisions.
+    known: FnvMap<String, (Token, bool)>,
     nucleus: Vec<bool>,
     required: bool,
 }
@@ -238,7 +239,7 @@ impl TokenTable {
     fn new(phoneset: &Phoneset) -> TokenTable {
         let nucleus: Vec<bool> = phoneset.phones().iter().map(|p| p.is_nucleus()).collect();
         let required = phoneset.stress_required();
-        let mut table = TokenTable { known: HashMap::default(), nucleus, required };
+        let mut table = TokenTable { known: FnvMap::default(), nucleus, required };
         for phone in phoneset.phones() {
             let candidates = std::iter::once(phone.symbol.clone())
                 .chain(phoneset.stress_marks().iter().map(|m| format!("{}{}", phone.symbol, m.mark)));
@@ -264,24 +265,6 @@ impl TokenTable {
         let is_nucleus = phone.and_then(|p| self.nucleus.get(usize::from(p))).copied().unwrap_or(false);
         let clean = phone.is_some() && (is_nucleus || mark.is_none()) && !(is_nucleus && self.required && mark.is_none());
         (Token { phone, stress: mark.map(|m| m.level) }, clean)
-    }
-}
-
-/// The FNV-1a hash (G. Fowler, L. C. Noll, K.-P. Vo, 1991): fast for the short phone tokens the
-/// table is keyed by, which need no protection against chosen collisions.
-#[derive(Default)]
-struct Fnv1a(u64);
-
-impl Hasher for Fnv1a {
-    fn finish(&self) -> u64 {
-        self.0
-    }
-    fn write(&mut self, bytes: &[u8]) {
-        let mut hash = if self.0 == 0 { 0xcbf2_9ce4_8422_2325 } else { self.0 };
-        for &b in bytes {
-            hash = (hash ^ u64::from(b)).wrapping_mul(0x0100_0000_01b3);
-        }
-        self.0 = hash;
     }
 }
 

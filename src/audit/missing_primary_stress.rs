@@ -8,7 +8,7 @@
 
 use super::{Check, Context, Finding, Severity};
 use crate::phoneset::StressLevel;
-use crate::project::PrimaryStressPolicy;
+use crate::audit::PrimaryStressPolicy;
 
 /// Reports pronunciations without a primary stress.
 pub struct MissingPrimaryStress;
@@ -51,7 +51,7 @@ impl Check for MissingPrimaryStress {
 mod tests {
     use super::*;
     use crate::audit::context::tests::{entries, with, with_policy};
-    use crate::project::StressPolicy;
+    use crate::audit::StressPolicy;
 
     #[test]
     fn polysyllables_warn_and_weak_monosyllables_inform() {

@@ -13,7 +13,7 @@
 //! use orthoepy::audit::{self, Context, Severity};
 //! use orthoepy::lexicon::{Entry, HeadwordPolicy};
 //! use orthoepy::phoneset::Phoneset;
-//! use orthoepy::project::StressPolicy;
+//! use orthoepy::audit::StressPolicy;
 //!
 //! let entries = vec![Entry::new("quay", "K IY1"), Entry::new("quay", "K IY1"), Entry::new("pier", "P IH1 XR")];
 //! let phoneset = Phoneset::shipped("en-arpa").unwrap();
@@ -39,6 +39,7 @@ mod multiple_primary_stress;
 mod no_nucleus;
 mod normalization_duplicate;
 mod phonotactic;
+mod policy;
 mod redundant_variant;
 mod report;
 mod unknown_phone;
@@ -46,6 +47,7 @@ mod unknown_phone;
 pub use context::{spelling_key, Context, ParsedEntry, Token};
 pub use invisible_character::{invisible_characters, Invisible, InvisibleChar};
 pub use mixed_script::is_mixed_script;
+pub use policy::{PrimaryStressPolicy, StressPolicy};
 pub use report::{CheckSummary, Report, Summary};
 
 use crate::lexicon::{Entry, EntryId};

@@ -4,7 +4,7 @@
 
 use super::{Check, Context, Finding, Severity};
 use crate::phoneset::StressLevel;
-use crate::project::PrimaryStressPolicy;
+use crate::audit::PrimaryStressPolicy;
 
 /// Reports pronunciations with several primary stresses.
 pub struct MultiplePrimaryStress;
@@ -46,7 +46,7 @@ impl Check for MultiplePrimaryStress {
 mod tests {
     use super::*;
     use crate::audit::context::tests::{entries, with, with_policy};
-    use crate::project::StressPolicy;
+    use crate::audit::StressPolicy;
 
     #[test]
     fn two_primaries_break_exactly_one_but_not_at_least_one() {

@@ -103,7 +103,7 @@ mod tests {
     use super::*;
     use crate::audit::context::tests::{entries, with, with_policy};
     use crate::lexicon::HeadwordPolicy;
-    use crate::project::StressPolicy;
+    use crate::audit::StressPolicy;
 
     #[test]
     fn nfd_case_and_whitespace_variants_are_reported_against_the_tidy_spelling() {

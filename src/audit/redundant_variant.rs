@@ -136,7 +136,7 @@ impl<'p> FreeVariation<'p> {
 mod tests {
     use super::*;
     use crate::audit::context::tests::{entries, with, with_policy};
-    use crate::project::StressPolicy;
+    use crate::audit::StressPolicy;
 
     #[test]
     fn stress_only_variants_are_graded() {

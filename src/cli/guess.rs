@@ -5,7 +5,7 @@
 use super::DataFormat;
 use anyhow::Context;
 use orthoepy::g2p::hybrid::{LanguageConfig, Proposal, Source};
-use orthoepy::g2p::lts::{RuleSet, SHIPPED};
+use orthoepy::g2p::lts::{LetterToSoundRules, SHIPPED};
 use orthoepy::g2p::{Guess, Model};
 use orthoepy::phoneset::Phoneset;
 use orthoepy::project::Project;
@@ -96,7 +96,7 @@ fn with_rules(lang: &str, words: &[String], format: DataFormat) -> anyhow::Resul
         anyhow::bail!("no shipped letter-to-sound rules for `{lang}`; choose one of: {}", known.join(", "));
     };
     let phoneset = Phoneset::shipped(phoneset_id)?;
-    let rules = RuleSet::shipped(lang, &phoneset)?;
+    let rules = LetterToSoundRules::shipped(lang, &phoneset)?;
     let config = LanguageConfig::shipped(lang, &phoneset)?;
     let mut all = Vec::with_capacity(words.len());
     for word in words {

@@ -1,7 +1,7 @@
 //! `orthoepy import`: read an external lexicon layout into a CSV store.
 
 use anyhow::Context;
-use orthoepy::lexicon::plain::read_plain;
+use orthoepy::lexicon::plain::read_plain_file;
 use orthoepy::lexicon::Lexicon;
 use std::path::PathBuf;
 use std::process::ExitCode;
@@ -52,26 +52,18 @@ pub struct Args {
 
 pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     super::refuse_overwrite(&args.output, args.force)?;
-    let bytes = std::fs::read(&args.file).with_context(|| format!("cannot read {}", args.file.display()))?;
     let source = args.source.clone().unwrap_or_else(|| {
         args.file.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_default()
     });
     let phoneset = super::resolve_phoneset(Some(&args.phoneset), None)?;
     let (entries, rejected) = match args.layout {
         ImportLayout::Plain => {
-            let import = read_plain(&bytes, &source);
-            let rejected: Vec<String> = import
-                .rejected
-                .iter()
-                .map(|bad| format!("{}:{}:{}: {}", args.file.display(), bad.line, bad.column, bad.problem))
-                .collect();
-            (import.entries, rejected)
+            let import = read_plain_file(&args.file, &source)?;
+            (import.entries, import.rejected.iter().map(ToString::to_string).collect::<Vec<String>>())
         }
         ImportLayout::Pls => {
-            let import = orthoepy::pls::read_pls(&bytes, &phoneset, &source)
-                .map_err(|e| anyhow::anyhow!("{}:{e}", args.file.display()))?;
-            let rejected = import.rejected.iter().map(|(line, m)| format!("{}:{line}: {m}", args.file.display())).collect();
-            (import.entries, rejected)
+            let import = orthoepy::pls::read_pls_file(&args.file, &phoneset, &source)?;
+            (import.entries, import.rejected.iter().map(ToString::to_string).collect())
         }
     };
     for bad in &rejected {

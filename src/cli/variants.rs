@@ -5,7 +5,7 @@ use super::{print_json, DataFormat, ProjectArgs};
 use anyhow::Context;
 use orthoepy::phoneset::Phoneset;
 use orthoepy::project::Project;
-use orthoepy::variants::{feature_view, FeatureView, Generator, Options, Profile, RuleSet, Variant};
+use orthoepy::variants::{feature_view, FeatureView, Generator, Options, Profile, VariantRuleSet, Variant};
 use std::path::PathBuf;
 use std::process::ExitCode;
 
@@ -71,7 +71,7 @@ fn load_profile(args: &Args, project: Option<&Project>, phoneset: &Phoneset) -> 
     let sets = args
         .rules
         .iter()
-        .map(|id| RuleSet::resolve(id, base, phoneset).with_context(|| format!("cannot load rule set {id}")))
+        .map(|id| VariantRuleSet::resolve(id, base, phoneset).with_context(|| format!("cannot load rule set {id}")))
         .collect::<anyhow::Result<Vec<_>>>()?;
     Ok(Profile::from_rule_sets(sets))
 }

@@ -22,7 +22,7 @@
 use serde::Serialize;
 
 use super::em::log_add;
-use super::hash::FastMap;
+use crate::support::hash::FastMap;
 use super::model::Model;
 use super::ngram::{push_history, start_history, History, NONE};
 

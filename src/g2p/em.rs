@@ -11,7 +11,7 @@
 use rayon::prelude::*;
 
 use super::graphone::Inventory;
-use super::hash::FastMap;
+use crate::support::hash::FastMap;
 use super::ngram::{key_of, push_history, start_history, Count, Evidence, History, Key, NgramModel, MAX_HISTORY};
 
 /// One training pair after interning: letter ids and phone ids.

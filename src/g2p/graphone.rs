@@ -10,7 +10,7 @@ use serde::{Deserialize, Serialize};
 use unicode_normalization::UnicodeNormalization;
 use unicode_segmentation::UnicodeSegmentation;
 
-use super::hash::FastMap;
+use crate::support::hash::FastMap;
 
 /// Largest number of letters (and, separately, of phones) one graphone may carry.
 pub const MAX_UNIT: usize = 3;

@@ -7,7 +7,6 @@
 mod decode;
 mod em;
 mod graphone;
-mod hash;
 pub mod hybrid;
 pub mod lts;
 mod model;
@@ -19,6 +18,6 @@ pub use decode::{AlignedPiece, DecodeOptions, Guess, GuessWarning, Hypothesis};
 pub use em::LatticeBeam;
 pub use graphone::{strip_stress, LetterUnit, SymbolOptions, MAX_UNIT};
 pub use model::Model;
-pub use model_file::{ModelFileError, FORMAT_VERSION, MAGIC};
+pub use model_file::{ModelFileError, FORMAT_VERSION, MAGIC, MAX_MODEL_FILE};
 pub use ngram::{Count, Discount, DISCOUNT_CLASSES, MAX_ORDER};
 pub use train::{train, training_pairs, TrainError, TrainOptions, TrainProgress};

@@ -24,7 +24,9 @@ use std::path::{Path, PathBuf};
 
 use super::graphone::{Graphone, Inventory, LetterUnit, SymbolOptions, SymbolTable};
 use super::model::Model;
-use super::ngram::{Context, Discount, NgramModel, NgramError};
+use super::ngram::{Discount, NgramError, NgramModel, StoredContext};
+use crate::support::located::{origin_of, Located};
+use crate::support::read::{read_capped, Limit, ReadError, MIB};
 
 /// First bytes of every model file.
 pub const MAGIC: [u8; 8] = *b"OEPYG2P\x1a";
@@ -33,26 +35,28 @@ pub const FORMAT_VERSION: u16 = 2;
 /// The oldest format version this build still reads.
 pub const OLDEST_READ_VERSION: u16 = 1;
 const HEADER_LEN: usize = 8 + 2 + 8 + 4;
+/// The largest model file accepted. The demo model is 6 MiB; one trained on all of CMUdict at a
+/// high order is some tens of MiB.
+pub const MAX_MODEL_FILE: Limit = Limit { bytes: 1024 * MIB, what: "model file" };
 
 /// Why a model file could not be read or written.
 #[derive(Debug, thiserror::Error)]
 pub enum ModelFileError {
-    /// The file could not be read or written.
-    #[error("{path}: {source}")]
-    Io {
+    /// The file could not be read, or is larger than [`MAX_MODEL_FILE`].
+    #[error(transparent)]
+    Read(#[from] ReadError),
+    /// The file could not be written.
+    #[error("{}: cannot write the model: {reason}", path.display())]
+    Write {
         /// The file.
         path: PathBuf,
-        /// The system error.
-        source: std::io::Error,
+        /// What the system said.
+        reason: std::io::Error,
     },
-    /// A problem with the contents of a named file.
-    #[error("{path}: {source}")]
-    InFile {
-        /// The file.
-        path: PathBuf,
-        /// What is wrong with it.
-        source: Box<ModelFileError>,
-    },
+    /// A problem with the contents of a named file. A model file is binary, so the place is a
+    /// byte offset inside the message rather than a line and column.
+    #[error("{0}")]
+    InFile(Box<Located<ModelFileError>>),
     /// The bytes do not start with the model magic: not a model file of this program.
     #[error("not an orthoepy G2P model (wrong magic bytes); pass a file written by `orthoepy train`")]
     NotAModel,
@@ -272,13 +276,13 @@ impl Model {
     /// Writes the model to `path` atomically (temporary file in the same folder, fsync, rename;
     /// see [`crate::safe_io::atomic_write`]), so an interrupted save leaves the old file whole.
     pub fn save(&self, path: &Path) -> Result<(), ModelFileError> {
-        crate::safe_io::atomic_write(path, &self.to_bytes(), false).map_err(|source| ModelFileError::Io { path: path.to_path_buf(), source })
+        crate::safe_io::atomic_write(path, &self.to_bytes(), false).map_err(|reason| ModelFileError::Write { path: path.to_path_buf(), reason })
     }
 
     /// Reads a model file.
     pub fn load(path: &Path) -> Result<Model, ModelFileError> {
-        let bytes = std::fs::read(path).map_err(|source| ModelFileError::Io { path: path.to_path_buf(), source })?;
-        Model::from_bytes(&bytes).map_err(|e| ModelFileError::InFile { path: path.to_path_buf(), source: Box::new(e) })
+        let bytes = read_capped(path, MAX_MODEL_FILE)?;
+        Model::from_bytes(&bytes).map_err(|e| ModelFileError::InFile(Box::new(Located::new(origin_of(path), None, e))))
     }
 }
 
@@ -328,7 +332,7 @@ fn decode_payload(r: &mut Reader<'_>, version: u16) -> Result<Model, ModelFileEr
         let backoff = r.f32()?;
         let m = r.count(8)?;
         let entries = (0..m).map(|_| Ok((r.u32()?, r.f32()?))).collect::<Read<Vec<(u32, f32)>>>()?;
-        contexts.push(Context { history, backoff, entries });
+        contexts.push(StoredContext { history, backoff, entries });
     }
     let ngram = NgramModel::from_parts(order, discounts, unigram, contexts).map_err(|e: NgramError| invalid(at, &e.to_string()))?;
     if r.pos != r.data.len() {

@@ -14,10 +14,11 @@ use rayon::prelude::*;
 
 use super::em::{expectation, Expectation, LatticeBeam, Sample};
 use super::graphone::{Graphone, Inventory, SymbolOptions, SymbolTable, MAX_UNIT};
-use super::hash::FastMap;
+use crate::support::hash::FastMap;
 use super::model::Model;
 use super::ngram::{tune_discounts, Discount, Evidence, Key, NgramModel, MAX_ORDER, NONE, START};
-use crate::eval::{closest_reference, word_hash};
+use crate::support::align::closest;
+use crate::support::split::heldout_bucket;
 
 /// Training settings. The defaults are the configuration measured best on CMUdict under the
 /// time budget (see `benches/g2p_cmudict.rs`).
@@ -127,12 +128,6 @@ pub enum TrainError {
     },
 }
 
-/// The held-out bucket (0..100) of a word: the upper half of its evaluation hash, so the
-/// held-out part is independent of the evaluation split in [`crate::eval`].
-fn heldout_bucket(word: &str) -> u32 {
-    ((word_hash(word) >> 32) % 100) as u32
-}
-
 fn check(opts: &TrainOptions) -> Result<(), TrainError> {
     let bad = |m: &str| Err(TrainError::BadOption(m.to_string()));
     if !(1..=MAX_ORDER).contains(&opts.order) {
@@ -226,7 +221,7 @@ fn heldout_per(model: &Model, refs: &References) -> f64 {
         .map(|(word, variants)| {
             let guess = model.guess(word, 1);
             let hyp = guess.hypotheses.first().map(|h| h.phones.clone()).unwrap_or_default();
-            closest_reference(&hyp, variants).map_or((0, 0), |(i, d)| (d, variants[i].len()))
+            closest(&hyp, variants).map_or((0, 0), |(i, d)| (d, variants[i].len()))
         })
         .reduce(|| (0, 0), |a, b| (a.0 + b.0, a.1 + b.1));
     if length == 0 {

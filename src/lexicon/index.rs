@@ -10,6 +10,7 @@
 
 use super::normalize::normalize_key;
 use super::store::Lexicon;
+use crate::support::hash::fnv1a_64;
 use fst::automaton::{Levenshtein, Str};
 use fst::{Automaton, IntoStreamer, Map, MapBuilder, Streamer};
 
@@ -173,7 +174,7 @@ impl SoundMap {
             let start = text.len();
             write_key(id, &mut text);
             span_of.push((start as u32, (text.len() - start) as u32));
-            order.push((fnv1a(&text.as_bytes()[start..]), id));
+            order.push((fnv1a_64(&text.as_bytes()[start..]), id));
         }
         // An integer sort by (hash, entry); then, inside each run of one hash (homophones, or a
         // rare collision), order by text so that every key's entries are contiguous.
@@ -200,22 +201,11 @@ impl SoundMap {
     }
 
     fn get(&self, key: &str) -> &[EntryId] {
-        let hash = fnv1a(key.as_bytes());
+        let hash = fnv1a_64(key.as_bytes());
         let first = self.spans.partition_point(|&(h, s, l)| (h, self.key(s, l)) < (hash, key));
         let count = self.spans[first..].iter().take_while(|&&(h, s, l)| h == hash && self.key(s, l) == key).count();
         &self.ids[first..first + count]
     }
-}
-
-/// FNV-1a, 64-bit (G. Fowler, L. C. Noll, K.-P. Vo; parameters from the IETF draft
-/// draft-eastlake-fnv): a fast, stable hash for in-memory bucketing.
-fn fnv1a(bytes: &[u8]) -> u64 {
-    let mut hash: u64 = 0xcbf2_9ce4_8422_2325;
-    for &b in bytes {
-        hash ^= u64::from(b);
-        hash = hash.wrapping_mul(0x0000_0100_0000_01b3);
-    }
-    hash
 }
 
 /// The index of one lexicon snapshot.

@@ -17,4 +17,4 @@ pub use index::{EntryId, IndexError, IndexOptions, LexiconIndex};
 pub use normalize::{check_headword, normalize_headword, normalize_key, HeadwordError, HeadwordPolicy};
 pub use query::{find, Query};
 pub use stats::LexiconStats;
-pub use store::{LexiconError, LoadMode, Lexicon, ParseProblem, COLUMNS, MAX_LEXICON_BYTES};
+pub use store::{LexiconError, LoadMode, Lexicon, ParseProblem, COLUMNS, MAX_LEXICON};

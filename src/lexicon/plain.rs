@@ -10,41 +10,55 @@
 use super::entry::{join_phones, Entry, Status};
 use super::index::IndexOptions;
 use super::normalize::{normalize_key, HeadwordPolicy};
+use super::store::MAX_LEXICON;
+use crate::support::located::{origin_of, Located};
+use crate::support::read::{read_capped, Limit, ReadError};
 use std::collections::BTreeSet;
-
-/// A line the reader could not take.
-#[derive(Debug, Clone, PartialEq, Eq, serde::Serialize)]
-pub struct RejectedLine {
-    /// 1-based line number.
-    pub line: usize,
-    /// 1-based character column of the problem.
-    pub column: usize,
-    /// What is wrong and what to do.
-    pub problem: String,
-}
+use std::path::Path;
 
 /// The result of reading a plain-text lexicon.
 #[derive(Debug, Clone, Default)]
 pub struct PlainImport {
     /// Entries read, in file order, with status `imported`.
     pub entries: Vec<Entry>,
-    /// Lines that could not be read.
-    pub rejected: Vec<RejectedLine>,
+    /// Lines that could not be read, each at its line and column of the file.
+    pub rejected: Vec<Located>,
     /// Lines that held an entry or a rejected entry (not blank, not comment-only).
     pub content_lines: usize,
 }
 
-/// Reads the plain layout. `source` is written into every entry's `source` column.
+/// The largest plain-layout file [`read_plain_file`] accepts: the store's limit, as both hold a
+/// whole lexicon.
+pub const MAX_PLAIN: Limit = Limit { bytes: MAX_LEXICON.bytes, what: "plain lexicon" };
+
+/// Reads the plain-layout file at `path` (at most [`MAX_PLAIN`]); see [`read_plain`].
+///
+/// ```
+/// use orthoepy::lexicon::plain::read_plain_file;
+/// let dir = tempfile::tempdir().unwrap();
+/// let path = dir.path().join("words.dict");
+/// std::fs::write(&path, "quay K IY1\nferry\n").unwrap();
+/// let import = read_plain_file(&path, "harbour").unwrap();
+/// assert_eq!(import.entries.len(), 1);
+/// assert!(import.rejected[0].to_string().starts_with(&format!("{}:2:6: ", path.display())));
+/// ```
+pub fn read_plain_file(path: &Path, source: &str) -> Result<PlainImport, ReadError> {
+    let bytes = read_capped(path, MAX_PLAIN)?;
+    Ok(read_plain(&bytes, &origin_of(path), source))
+}
+
+/// Reads the plain layout; `origin` names the file in the rejected lines and `source` is
+/// written into every entry's `source` column.
 ///
 /// ```
 /// use orthoepy::lexicon::plain::read_plain;
 /// let text = b"# harbour words\nquay  K IY1\nquay(2) K EY1 # rare\n\nferry\n";
-/// let import = read_plain(text, "harbour");
+/// let import = read_plain(text, "harbour.dict", "harbour");
 /// assert_eq!(import.entries.len(), 2);
 /// assert_eq!(import.entries[1].note, "rare");
-/// assert_eq!(import.rejected[0].line, 5); // a word with no phones
+/// assert_eq!(import.rejected[0].line(), Some(5)); // a word with no phones
 /// ```
-pub fn read_plain(bytes: &[u8], source: &str) -> PlainImport {
+pub fn read_plain(bytes: &[u8], origin: &str, source: &str) -> PlainImport {
     let mut import = PlainImport::default();
     let body = bytes.strip_prefix(b"\xEF\xBB\xBF").unwrap_or(bytes);
     for (number, raw) in body.split(|&b| b == b'\n').enumerate() {
@@ -54,12 +68,8 @@ pub fn read_plain(bytes: &[u8], source: &str) -> PlainImport {
             Ok(t) => t,
             Err(err) => {
                 import.content_lines += 1;
-                let column = crate::text_position::line_column(raw, err.valid_up_to()).1;
-                import.rejected.push(RejectedLine {
-                    line,
-                    column,
-                    problem: "invalid UTF-8; re-save the file as UTF-8".into(),
-                });
+                let column = crate::support::located::line_column(raw, err.valid_up_to()).1;
+                import.rejected.push(Located::at(origin, line, column, "invalid UTF-8; re-save the file as UTF-8"));
                 continue;
             }
         };
@@ -80,7 +90,7 @@ pub fn read_plain(bytes: &[u8], source: &str) -> PlainImport {
                 entry.line = line;
                 import.entries.push(entry);
             }
-            Err((column, problem)) => import.rejected.push(RejectedLine { line, column, problem }),
+            Err((column, problem)) => import.rejected.push(Located::at(origin, line, column, problem)),
         }
     }
     import
@@ -203,7 +213,7 @@ mod tests {
 
     #[test]
     fn comments_blank_lines_and_tabs() {
-        let import = read_plain(b"a\tAH0\n   \n# only a comment\n  b  B IY1   # letter\r\n", "t");
+        let import = read_plain(b"a\tAH0\n   \n# only a comment\n  b  B IY1   # letter\r\n", "t.dict", "t");
         assert_eq!(import.entries.len(), 2);
         assert_eq!(import.entries[1].pronunciation, "B IY1");
         assert_eq!(import.entries[1].line, 4);
@@ -213,15 +223,15 @@ mod tests {
 
     #[test]
     fn bad_lines_are_reported_with_line_and_column() {
-        let import = read_plain(b"ok OW1 K EY1\nlonely\n(3) AH0\nbad\xff W\n", "t");
+        let import = read_plain(b"ok OW1 K EY1\nlonely\n(3) AH0\nbad\xff W\n", "t.dict", "t");
         assert_eq!(import.entries.len(), 1);
-        let found: Vec<(usize, usize)> = import.rejected.iter().map(|r| (r.line, r.column)).collect();
+        let found: Vec<(usize, usize)> = import.rejected.iter().map(|r| (r.line().unwrap_or(0), r.column().unwrap_or(0))).collect();
         assert_eq!(found, [(2, 7), (3, 1), (4, 4)]);
     }
 
     #[test]
     fn odd_phones_are_kept_for_the_audit() {
-        let import = read_plain(b"ferry F EH1 R IY9 XX\n", "t");
+        let import = read_plain(b"ferry F EH1 R IY9 XX\n", "t.dict", "t");
         assert_eq!(import.entries[0].pronunciation, "F EH1 R IY9 XX");
     }
 

@@ -11,7 +11,8 @@
 use super::entry::{Entry, Status};
 use super::normalize::{check_headword, normalize_key, HeadwordError, HeadwordPolicy};
 use crate::safe_io::{self, Fingerprint};
-use crate::text_position::line_column;
+use crate::support::located::{line_column, origin_of, Located, Position};
+use crate::support::read::{read_capped, Limit, ReadError, MIB};
 use rayon::prelude::*;
 use std::fmt;
 use std::path::{Path, PathBuf};
@@ -19,8 +20,9 @@ use std::path::{Path, PathBuf};
 /// The required columns, in the order they are written.
 pub const COLUMNS: [&str; 6] = ["word", "pronunciation", "status", "source", "score", "note"];
 
-/// The largest lexicon file accepted (bytes); larger files are refused before they are read whole.
-pub const MAX_LEXICON_BYTES: u64 = 512 * 1024 * 1024;
+/// The largest lexicon file accepted; larger files are refused after at most this many bytes.
+/// (CMUdict, 135k entries, is about 3.5 MiB.)
+pub const MAX_LEXICON: Limit = Limit { bytes: 512 * MIB, what: "lexicon" };
 
 /// What is wrong at one place of a lexicon file.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
@@ -62,34 +64,20 @@ pub enum ParseProblem {
 /// Errors of loading or saving a lexicon store.
 #[derive(Debug, thiserror::Error)]
 pub enum LexiconError {
-    /// The file could not be read or written.
-    #[error("{}: {source}", path.display())]
+    /// The file could not be read, or is larger than [`MAX_LEXICON`].
+    #[error(transparent)]
+    Read(#[from] ReadError),
+    /// The file could not be written (or re-read to check it is unchanged).
+    #[error("{}: {reason}", path.display())]
     Io {
         /// The file concerned.
         path: PathBuf,
-        /// The underlying error.
-        source: std::io::Error,
-    },
-    /// The file is too large to be a lexicon.
-    #[error("{}: {size} bytes is over the {MAX_LEXICON_BYTES}-byte limit for a lexicon; split it", path.display())]
-    TooLarge {
-        /// The file concerned.
-        path: PathBuf,
-        /// Its size in bytes.
-        size: u64,
+        /// What the system said.
+        reason: std::io::Error,
     },
     /// The content is malformed at a known place.
-    #[error("{}:{line}:{column}: {problem}", path.display())]
-    Parse {
-        /// The file concerned.
-        path: PathBuf,
-        /// 1-based line.
-        line: usize,
-        /// 1-based column, in characters.
-        column: usize,
-        /// What is wrong and what to do.
-        problem: ParseProblem,
-    },
+    #[error("{0}")]
+    Parse(Located<ParseProblem>),
     /// The file changed on disk since it was loaded; nothing was written.
     #[error("{}: changed on disk since it was loaded; nothing was written. Reload it and redo the change", path.display())]
     ChangedOnDisk {
@@ -151,12 +139,7 @@ impl Lexicon {
 
     /// Loads a store with the given strictness.
     pub fn load_with(path: &Path, policy: HeadwordPolicy, mode: LoadMode) -> Result<Lexicon, LexiconError> {
-        let io_err = |source| LexiconError::Io { path: path.to_path_buf(), source };
-        let size = std::fs::metadata(path).map_err(io_err)?.len();
-        if size > MAX_LEXICON_BYTES {
-            return Err(LexiconError::TooLarge { path: path.to_path_buf(), size });
-        }
-        let bytes = std::fs::read(path).map_err(io_err)?;
+        let bytes = read_capped(path, MAX_LEXICON)?;
         let mut lexicon = Lexicon::parse(&bytes, path, policy, mode)?;
         lexicon.origin = Some(Origin {
             path: path.to_path_buf(),
@@ -171,14 +154,9 @@ impl Lexicon {
         let body = bytes.strip_prefix(BOM).unwrap_or(bytes);
         let text = std::str::from_utf8(body).map_err(|err| {
             let (line, column) = line_column(body, err.valid_up_to());
-            LexiconError::Parse { path: path.to_path_buf(), line, column, problem: ParseProblem::BadUtf8 }
+            parse_error(path, line, column, ParseProblem::BadUtf8)
         })?;
-        let fail = |line: usize, column: usize, problem| LexiconError::Parse {
-            path: path.to_path_buf(),
-            line,
-            column,
-            problem,
-        };
+        let fail = |line: usize, column: usize, problem| parse_error(path, line, column, problem);
         if text.is_empty() {
             return Err(fail(1, 1, ParseProblem::NoHeader));
         }
@@ -236,7 +214,7 @@ impl Lexicon {
     pub fn unchanged_on_disk(&self) -> Result<bool, LexiconError> {
         let Some(origin) = &self.origin else { return Ok(false) };
         let now = Fingerprint::of_file(&origin.path)
-            .map_err(|source| LexiconError::Io { path: origin.path.clone(), source })?;
+            .map_err(|reason| LexiconError::Io { path: origin.path.clone(), reason })?;
         Ok(now == Some(origin.fingerprint))
     }
 
@@ -299,7 +277,7 @@ impl Lexicon {
         self.origin = Some(Origin { path: path.to_path_buf(), fingerprint: Fingerprint::of(b""), had_bom });
         let bytes = self.to_csv_bytes();
         safe_io::atomic_write(path, &bytes, true)
-            .map_err(|source| LexiconError::Io { path: path.to_path_buf(), source })?;
+            .map_err(|reason| LexiconError::Io { path: path.to_path_buf(), reason })?;
         self.origin = Some(Origin { path: path.to_path_buf(), fingerprint: Fingerprint::of(&bytes), had_bom });
         Ok(())
     }
@@ -350,7 +328,7 @@ struct RowParser<'a> {
 impl RowParser<'_> {
     fn fail(&self, line: usize, field: usize, problem: ParseProblem) -> LexiconError {
         let column = field_column(self.text, line, field);
-        LexiconError::Parse { path: self.path.to_path_buf(), line, column, problem }
+        parse_error(self.path, line, column, problem)
     }
 
     fn parse(&self, chunk: &str, first_line: usize) -> Result<Vec<Entry>, LexiconError> {
@@ -448,7 +426,12 @@ fn csv_error(err: csv::Error, path: &Path, text: &str, lines_before: usize) -> L
         }
         _ => ParseProblem::Csv(err.to_string()),
     };
-    LexiconError::Parse { path: path.to_path_buf(), line, column: field_column(text, line, 0), problem }
+    parse_error(path, line, field_column(text, line, 0), problem)
+}
+
+/// A located parse error in the file at `path`.
+fn parse_error(path: &Path, line: usize, column: usize, problem: ParseProblem) -> LexiconError {
+    LexiconError::Parse(Located::new(origin_of(path), Some(Position::new(line, column)), problem))
 }
 
 /// The 1-based character column where field `index` starts on `line` of `text`.
@@ -490,7 +473,7 @@ mod tests {
 
     fn problem_at(text: &str) -> (usize, usize, ParseProblem) {
         match parse(text) {
-            Err(LexiconError::Parse { line, column, problem, .. }) => (line, column, problem),
+            Err(LexiconError::Parse(at)) => (at.line().unwrap_or(0), at.column().unwrap_or(0), at.message),
             other => panic!("expected a parse error, got {other:?}"),
         }
     }
@@ -550,8 +533,8 @@ mod tests {
         let mut bytes = format!("{HEADER}ok,K,accepted,,,\nca").into_bytes();
         bytes.extend_from_slice(b"\xff,K,accepted,,,\n");
         match Lexicon::parse(&bytes, Path::new("l.csv"), HeadwordPolicy::default(), LoadMode::Strict) {
-            Err(LexiconError::Parse { line, column, problem: ParseProblem::BadUtf8, .. }) => {
-                assert_eq!((line, column), (3, 3));
+            Err(LexiconError::Parse(at)) if at.message == ParseProblem::BadUtf8 => {
+                assert_eq!(at.position, Some(Position::new(3, 3)));
             }
             other => panic!("{other:?}"),
         }
@@ -617,7 +600,7 @@ mod tests {
         }
         text.push_str("last,K IY1,bogus,,,\n");
         match parse(&text) {
-            Err(LexiconError::Parse { line, problem: ParseProblem::UnknownStatus(_), .. }) => assert_eq!(line, 80_002),
+            Err(LexiconError::Parse(at)) if matches!(at.message, ParseProblem::UnknownStatus(_)) => assert_eq!(at.line(), Some(80_002)),
             other => panic!("{other:?}"),
         }
         text.truncate(text.len() - "last,K IY1,bogus,,,\n".len());

@@ -9,21 +9,21 @@ use std::ops::Range;
 use toml::Spanned;
 
 use super::distance::phone_distance;
-use super::error::{CheckProblem, Located, PhonesetError};
+use super::error::{CheckProblem, PhonesetError};
+use crate::support::located::Located;
 use super::phone::{Features, Phone, PhoneClass};
 use super::raw::{parse_toml, Problems, RawPhone, RawPhoneset};
 use super::schema::Schema;
 use super::stress::StressMarks;
-use super::{phonotactics, PhoneId, Phoneset, MAX_FILE_BYTES};
+use super::{phonotactics, PhoneId, Phoneset, MAX_FILE};
 
 /// Parses and checks phoneset TOML `text`; `file` labels error messages.
 pub(crate) fn from_text(text: &str, file: &str) -> Result<Phoneset, PhonesetError> {
-    if text.len() as u64 > MAX_FILE_BYTES {
-        return Err(PhonesetError::TooLarge {
-            file: file.to_string(),
-            size: text.len() as u64,
-            limit: MAX_FILE_BYTES,
-        });
+    if text.len() as u64 > MAX_FILE.bytes {
+        return Err(PhonesetError::TooLarge(Located::whole(
+            file,
+            format!("{} bytes is more than the {MAX_FILE} accepted for a phoneset file; is this really a phoneset?", text.len()),
+        )));
     }
     let raw: RawPhoneset = parse_toml(text, file)?;
     let mut problems = Problems::new(text);
@@ -44,14 +44,7 @@ pub(crate) fn from_text(text: &str, file: &str) -> Result<Phoneset, PhonesetErro
             count: raw.phone.len(),
             max,
         };
-        return Err(PhonesetError::Invalid {
-            file: file.into(),
-            problems: vec![Located {
-                line: 1,
-                column: 1,
-                problem,
-            }],
-        });
+        return Err(PhonesetError::Invalid(vec![Located::new(file, None, problem)]));
     }
     let (phones, lines) = build_phones(&raw.phone, &schema, &mut problems);
     let by_symbol: HashMap<String, PhoneId> = phones

@@ -2,52 +2,27 @@
 //! problems with line and column) and unknown shipped names. Pronunciation parsing errors live
 //! in [`super::pronunciation`]; mapping errors in [`super::mapping`].
 
-use std::path::PathBuf;
-
 use thiserror::Error;
+
+use crate::support::located::Located;
+use crate::support::read::ReadError;
 
 /// An error while loading or checking a phoneset file.
 #[derive(Debug, Error)]
 pub enum PhonesetError {
-    /// The file could not be read.
-    #[error("cannot read phoneset file {path}: {source}; check the path and its permissions")]
-    Io {
-        /// The path that was read.
-        path: PathBuf,
-        /// The underlying I/O error.
-        #[source]
-        source: std::io::Error,
-    },
-    /// The file is larger than [`super::MAX_FILE_BYTES`].
-    #[error("{file}: {size} bytes is more than the {limit}-byte limit for phoneset files; is this really a phoneset?")]
-    TooLarge {
-        /// File label (path, or the shipped name).
-        file: String,
-        /// Size found (at least this many bytes).
-        size: u64,
-        /// The limit.
-        limit: u64,
-    },
+    /// The file could not be read, is larger than [`super::MAX_FILE`] or is not UTF-8.
+    #[error(transparent)]
+    Read(#[from] ReadError),
+    /// Phoneset text held in memory is larger than [`super::MAX_FILE`].
+    #[error("{0}")]
+    TooLarge(Located),
     /// The file is not valid TOML, or a table has a field of the wrong type or an unknown field.
-    #[error("{file}:{line}:{column}: {message}")]
-    Syntax {
-        /// File label.
-        file: String,
-        /// 1-based line (0 when the parser gave no position).
-        line: usize,
-        /// 1-based character column (0 when the parser gave no position).
-        column: usize,
-        /// The parser's message.
-        message: String,
-    },
-    /// The file parsed but failed the self-check; every problem found is listed.
-    #[error("{}", render_problems(file, problems))]
-    Invalid {
-        /// File label.
-        file: String,
-        /// The problems, in file order.
-        problems: Vec<Located>,
-    },
+    #[error("{0}")]
+    Syntax(Located),
+    /// The file parsed but failed the self-check; every problem found is listed, in file order
+    /// (never empty).
+    #[error("{}", render_problems(.0))]
+    Invalid(Vec<Located<CheckProblem>>),
     /// `Phoneset::shipped` was asked for a name that is not shipped.
     #[error("no shipped phoneset is called `{id}`; shipped ones: {known}")]
     UnknownShipped {
@@ -58,29 +33,13 @@ pub enum PhonesetError {
     },
 }
 
-fn render_problems(file: &str, problems: &[Located]) -> String {
-    let mut out = format!(
-        "{file}: {} problem(s) found by the phoneset self-check",
-        problems.len()
-    );
+fn render_problems(problems: &[Located<CheckProblem>]) -> String {
+    let file = problems.first().map_or("", |p| p.origin.as_str());
+    let mut out = format!("{file}: {} problem(s) found by the phoneset self-check", problems.len());
     for p in problems {
-        out.push_str(&format!(
-            "\n  {file}:{}:{}: {}",
-            p.line, p.column, p.problem
-        ));
+        out.push_str(&format!("\n  {p}"));
     }
     out
-}
-
-/// A self-check problem with its position in the file.
-#[derive(Debug, Clone, PartialEq)]
-pub struct Located {
-    /// 1-based line.
-    pub line: usize,
-    /// 1-based character column.
-    pub column: usize,
-    /// What is wrong.
-    pub problem: CheckProblem,
 }
 
 /// One thing the phoneset self-check rejects. Each message says what to do.

@@ -69,7 +69,7 @@
 //! with the same class, features, targets and syllabicity unless one is an allophone of the
 //! other; `ipa` and `xsampa` given; stress marks non-empty, unique, not symbols themselves and
 //! not able to make a symbol ambiguous; constraints well formed. Files over
-//! [`MAX_FILE_BYTES`] are refused before parsing.
+//! [`MAX_FILE`] are refused before parsing.
 
 mod build;
 mod distance;
@@ -84,10 +84,9 @@ mod stress;
 mod suggest;
 
 use std::collections::HashMap;
-use std::io::Read;
 use std::path::Path;
 
-pub use error::{CheckProblem, Located, PhonesetError};
+pub use error::{CheckProblem, PhonesetError};
 pub use mapping::{map_pronunciation, MappingError};
 pub use phone::{Features, Phone, PhoneClass};
 pub use phonotactics::{PhonotacticConstraint, PhonotacticViolation};
@@ -99,11 +98,14 @@ pub use stress::{Stress, StressLevel};
 
 use stress::StressMarks;
 
+use crate::support::located::origin_of;
+use crate::support::read::{read_capped_string, Limit, MIB};
+
 /// Index of a phone in its phoneset's [`Phoneset::phones`].
 pub type PhoneId = u16;
 
-/// Largest phoneset file accepted, in bytes (4 MiB).
-pub const MAX_FILE_BYTES: u64 = 4 * 1024 * 1024;
+/// Largest phoneset file accepted (4 MiB; the shipped ones are some tens of KiB).
+pub const MAX_FILE: Limit = Limit { bytes: 4 * MIB, what: "phoneset file" };
 
 /// The shipped phonesets: (id, TOML text).
 const SHIPPED: &[(&str, &str)] = &[
@@ -157,49 +159,16 @@ impl Phoneset {
         SHIPPED_IDS
     }
 
-    /// Loads and checks a phoneset file. Files over [`MAX_FILE_BYTES`] are refused.
+    /// Loads and checks a phoneset file. Files over [`MAX_FILE`] are refused.
     ///
     /// ```
     /// use orthoepy::phoneset::{Phoneset, PhonesetError};
     /// let err = Phoneset::load(std::path::Path::new("no/such/file.toml")).unwrap_err();
-    /// assert!(matches!(err, PhonesetError::Io { .. }));
+    /// assert!(matches!(err, PhonesetError::Read(e) if e.is_not_found()));
     /// ```
     pub fn load(path: &Path) -> Result<Phoneset, PhonesetError> {
-        let io = |source| PhonesetError::Io {
-            path: path.to_path_buf(),
-            source,
-        };
-        let file_label = path.display().to_string();
-        let file = std::fs::File::open(path).map_err(io)?;
-        let size = file.metadata().map_err(io)?.len();
-        let too_large = |size| PhonesetError::TooLarge {
-            file: file_label.clone(),
-            size,
-            limit: MAX_FILE_BYTES,
-        };
-        if size > MAX_FILE_BYTES {
-            return Err(too_large(size));
-        }
-        let mut bytes = Vec::new();
-        file.take(MAX_FILE_BYTES + 1)
-            .read_to_end(&mut bytes)
-            .map_err(io)?;
-        if bytes.len() as u64 > MAX_FILE_BYTES {
-            return Err(too_large(bytes.len() as u64));
-        }
-        let text = String::from_utf8(bytes).map_err(|e| {
-            let valid = e.utf8_error().valid_up_to();
-            let ok =
-                String::from_utf8_lossy(e.as_bytes().get(..valid).unwrap_or_default()).into_owned();
-            let (line, column) = crate::text_position::line_column(ok.as_bytes(), ok.len());
-            PhonesetError::Syntax {
-                file: file_label.clone(),
-                line,
-                column,
-                message: "the file is not valid UTF-8".into(),
-            }
-        })?;
-        build::from_text(&text, &file_label)
+        let text = read_capped_string(path, MAX_FILE)?;
+        build::from_text(&text, &origin_of(path))
     }
 
     /// Parses and checks phoneset TOML held in memory; `label` names it in errors.

@@ -2,14 +2,15 @@
 //! kept for error positions. No checking happens here (that is `schema.rs` and `build.rs`), and
 //! nothing outside the phoneset module sees these types.
 
-use crate::text_position::line_column;
+use crate::support::located::line_column;
 use std::collections::BTreeMap;
 use std::ops::Range;
 
 use serde::Deserialize;
 use toml::Spanned;
 
-use super::error::{CheckProblem, Located, PhonesetError};
+use super::error::{CheckProblem, PhonesetError};
+use crate::support::located::{Located, Position};
 
 /// A phoneset file.
 #[derive(Debug, Deserialize)]
@@ -115,15 +116,7 @@ pub(crate) fn parse_toml<T: serde::de::DeserializeOwned>(
     text: &str,
     file: &str,
 ) -> Result<T, PhonesetError> {
-    toml::from_str(text).map_err(|e| {
-        let (line, column) = e.span().map(|s| line_column(text.as_bytes(), s.start)).unwrap_or((0, 0));
-        PhonesetError::Syntax {
-            file: file.to_string(),
-            line,
-            column,
-            message: e.message().trim().to_string(),
-        }
-    })
+    toml::from_str(text).map_err(|e| PhonesetError::Syntax(Located::from_toml(file, text, &e)))
 }
 
 
@@ -131,7 +124,7 @@ pub(crate) fn parse_toml<T: serde::de::DeserializeOwned>(
 /// Collects self-check problems with positions in one source text.
 pub(crate) struct Problems<'t> {
     text: &'t str,
-    found: Vec<(usize, Located)>,
+    found: Vec<(usize, Position, CheckProblem)>,
 }
 
 impl<'t> Problems<'t> {
@@ -145,15 +138,7 @@ impl<'t> Problems<'t> {
 
     /// Records `problem` at byte span `span`.
     pub fn add(&mut self, span: Range<usize>, problem: CheckProblem) {
-        let (line, column) = line_column(self.text.as_bytes(), span.start);
-        self.found.push((
-            span.start,
-            Located {
-                line,
-                column,
-                problem,
-            },
-        ));
+        self.found.push((span.start, Position::at_offset(self.text.as_bytes(), span.start), problem));
     }
 
     /// The 1-based line of byte span `span`.
@@ -166,10 +151,7 @@ impl<'t> Problems<'t> {
         if self.found.is_empty() {
             return Ok(());
         }
-        self.found.sort_by_key(|(at, _)| *at);
-        Err(PhonesetError::Invalid {
-            file: file.to_string(),
-            problems: self.found.into_iter().map(|(_, l)| l).collect(),
-        })
+        self.found.sort_by_key(|(at, _, _)| *at);
+        Err(PhonesetError::Invalid(self.found.into_iter().map(|(_, position, problem)| Located::new(file, Some(position), problem)).collect()))
     }
 }

@@ -2,6 +2,8 @@
 //! small inline files, distance properties, feature lookups, phonotactics and mapping.
 
 use super::*;
+use crate::support::located::{Located, Position};
+use crate::support::read::ReadError;
 
 fn arpa() -> Phoneset {
     Phoneset::shipped("en-arpa").expect("shipped en-arpa loads")
@@ -43,9 +45,9 @@ class = "vowel"
 features = { height = "open", backness = "front", rounding = "unrounded" }
 "#;
 
-fn problems(text: &str) -> Vec<Located> {
+fn problems(text: &str) -> Vec<Located<CheckProblem>> {
     match Phoneset::from_toml_str(text, "test.toml") {
-        Err(PhonesetError::Invalid { problems, .. }) => problems,
+        Err(PhonesetError::Invalid(problems)) => problems,
         other => panic!("expected self-check problems, got {other:?}"),
     }
 }
@@ -341,13 +343,13 @@ fn self_check_rejects_duplicate_symbols_with_lines() {
     let text = format!("{TINY}\n[[phone]]\nsymbol = \"p\"\nipa = \"b\"\nxsampa = \"b\"\nclass = \"consonant\"\nfeatures = {{ place = \"bilabial\", manner = \"stop\", voicing = \"voiced\" }}\n");
     let p = problems(&text);
     assert_eq!(
-        p[0].problem,
+        p[0].message,
         CheckProblem::DuplicateSymbol {
             symbol: "p".into(),
             first_line: 10
         }
     );
-    assert_eq!((p[0].line, p[0].column), (24, 10));
+    assert_eq!(p[0].position, Some(Position::new(24, 10)));
 }
 
 #[test]
@@ -357,22 +359,22 @@ fn self_check_rejects_bad_features() {
         "voicing = \"voiceless\", aspiration = \"yes\"",
     );
     assert!(
-        matches!(&problems(&unknown)[0].problem, CheckProblem::UnknownFeature { feature, .. } if feature == "aspiration")
+        matches!(&problems(&unknown)[0].message, CheckProblem::UnknownFeature { feature, .. } if feature == "aspiration")
     );
     let value = TINY.replace("place = \"bilabial\"", "place = \"labial\"");
     let p = problems(&value);
-    assert!(matches!(&p[0].problem, CheckProblem::UnknownValue { value, .. } if value == "labial"));
-    assert_eq!((p[0].line, p[0].column), (14, 22));
+    assert!(matches!(&p[0].message, CheckProblem::UnknownValue { value, .. } if value == "labial"));
+    assert_eq!(p[0].position, Some(Position::new(14, 22)));
     let missing = TINY.replace(", voicing = \"voiceless\"", "");
     assert!(
-        matches!(&problems(&missing)[0].problem, CheckProblem::MissingFeature { feature, .. } if feature == "voicing")
+        matches!(&problems(&missing)[0].message, CheckProblem::MissingFeature { feature, .. } if feature == "voicing")
     );
     let wrong_class = TINY.replace(
         "rounding = \"unrounded\"",
         "rounding = \"unrounded\", place = \"velar\"",
     );
     assert!(matches!(
-        &problems(&wrong_class)[0].problem,
+        &problems(&wrong_class)[0].message,
         CheckProblem::FeatureNotForClass { .. }
     ));
 }
@@ -382,21 +384,21 @@ fn self_check_rejects_same_bundle_unless_allophone() {
     let twin = "\n[[phone]]\nsymbol = \"P\"\nipa = \"p\"\nxsampa = \"p\"\nclass = \"consonant\"\nfeatures = { place = \"bilabial\", manner = \"stop\", voicing = \"voiceless\" }\n";
     let p = problems(&format!("{TINY}{twin}"));
     assert!(
-        matches!(&p[0].problem, CheckProblem::SameBundle { symbol, other, .. } if symbol == "P" && other == "p")
+        matches!(&p[0].message, CheckProblem::SameBundle { symbol, other, .. } if symbol == "P" && other == "p")
     );
     let ok = format!("{TINY}{twin}allophone_of = [\"p\"]\n");
     assert!(Phoneset::from_toml_str(&ok, "t").is_ok());
     let bad_base = format!("{TINY}{twin}allophone_of = [\"pp\"]\n");
     assert!(problems(&bad_base)
         .iter()
-        .any(|l| matches!(l.problem, CheckProblem::BadAllophoneBase { .. })));
+        .any(|l| matches!(l.message, CheckProblem::BadAllophoneBase { .. })));
 }
 
 #[test]
 fn self_check_rejects_missing_transcriptions() {
     let p = problems(&TINY.replace("xsampa = \"p\"\n", ""));
     assert_eq!(
-        p[0].problem,
+        p[0].message,
         CheckProblem::MissingField {
             phone: "p".into(),
             field: "xsampa"
@@ -404,7 +406,7 @@ fn self_check_rejects_missing_transcriptions() {
     );
     let p = problems(&TINY.replace("ipa = \"a\"", "ipa = \" \""));
     assert_eq!(
-        p[0].problem,
+        p[0].message,
         CheckProblem::MissingField {
             phone: "a".into(),
             field: "ipa"
@@ -417,7 +419,7 @@ fn self_check_rejects_bad_stress_marks() {
     let is_mark = |text: &str| {
         problems(text)
             .iter()
-            .any(|l| matches!(l.problem, CheckProblem::BadStressMark { .. }))
+            .any(|l| matches!(l.message, CheckProblem::BadStressMark { .. }))
     };
     assert!(is_mark(&TINY.replace("mark = \"0\"", "mark = \"p\"")));
     assert!(is_mark(&TINY.replace("mark = \"0\"", "mark = \"1\"")));
@@ -437,7 +439,7 @@ fn self_check_rejects_bad_stress_marks() {
 #[test]
 fn self_check_rejects_bad_schema_and_constraints() {
     let p = problems(&TINY.replace("schema = \"ipa-chart\"", "schema = \"nope\""));
-    assert!(matches!(p[0].problem, CheckProblem::UnknownSchema { .. }));
+    assert!(matches!(p[0].message, CheckProblem::UnknownSchema { .. }));
     let constraint = |pattern: &str| {
         format!("{TINY}\n[[constraint]]\nid = \"c\"\npattern = \"{pattern}\"\nmessage = \"m\"\nsource = \"common practice\"\n")
     };
@@ -453,7 +455,7 @@ fn self_check_rejects_bad_schema_and_constraints() {
     ] {
         let p = problems(&constraint(bad));
         assert!(
-            matches!(p[0].problem, CheckProblem::BadConstraint { .. }),
+            matches!(p[0].message, CheckProblem::BadConstraint { .. }),
             "{bad}"
         );
     }
@@ -480,14 +482,14 @@ features = { height = "high" }
 "#;
     let p = problems(inline);
     assert!(
-        matches!(&p[0].problem, CheckProblem::BadFeature { feature, .. } if feature == "height")
+        matches!(&p[0].message, CheckProblem::BadFeature { feature, .. } if feature == "height")
     );
     let fixed = inline.replace("scale = [1.0, 1.0]", "scale = [1.0, 0.0]");
     let set = Phoneset::from_toml_str(&fixed, "t").unwrap();
     assert_eq!(set.schema().name(), "two-way");
     let shadow = fixed.replace("schema = \"two-way\"", "schema = \"ipa-chart\"");
     assert!(matches!(
-        problems(&shadow)[0].problem,
+        problems(&shadow)[0].message,
         CheckProblem::SchemaShadowsShipped { .. }
     ));
 }
@@ -495,8 +497,8 @@ features = { height = "high" }
 #[test]
 fn malformed_and_huge_files_error_cleanly() {
     match Phoneset::from_toml_str("id = \"x\"\nname = [", "bad.toml") {
-        Err(PhonesetError::Syntax { line, file, .. }) => {
-            assert_eq!((line, file.as_str()), (2, "bad.toml"))
+        Err(PhonesetError::Syntax(at)) => {
+            assert_eq!((at.line(), at.origin.as_str()), (Some(2), "bad.toml"))
         }
         other => panic!("{other:?}"),
     }
@@ -504,12 +506,12 @@ fn malformed_and_huge_files_error_cleanly() {
         &TINY.replace("class = \"vowel\"", "class = \"vowel\"\ncolour = \"red\""),
         "t",
     ) {
-        Err(PhonesetError::Syntax { message, line, .. }) => {
-            assert!(message.contains("colour") && line > 0, "{message}")
+        Err(PhonesetError::Syntax(at)) => {
+            assert!(at.message.contains("colour") && at.line().is_some(), "{at}")
         }
         other => panic!("{other:?}"),
     }
-    let huge = "#".repeat(MAX_FILE_BYTES as usize + 1);
+    let huge = "#".repeat(MAX_FILE.bytes as usize + 1);
     assert!(matches!(
         Phoneset::from_toml_str(&huge, "h"),
         Err(PhonesetError::TooLarge { .. })
@@ -522,20 +524,16 @@ fn malformed_and_huge_files_error_cleanly() {
 fn load_refuses_large_and_non_utf8_files() {
     let dir = tempfile::tempdir().unwrap();
     let big = dir.path().join("big.toml");
-    std::fs::write(&big, vec![b'#'; MAX_FILE_BYTES as usize + 10]).unwrap();
+    std::fs::write(&big, vec![b'#'; MAX_FILE.bytes as usize + 10]).unwrap();
     assert!(matches!(
         Phoneset::load(&big),
-        Err(PhonesetError::TooLarge { .. })
+        Err(PhonesetError::Read(ReadError::TooLarge { .. }))
     ));
     let latin1 = dir.path().join("latin1.toml");
     std::fs::write(&latin1, b"id = \"x\"\nname = \"caf\xe9\"\n").unwrap();
     assert!(matches!(
         Phoneset::load(&latin1),
-        Err(PhonesetError::Syntax {
-            line: 2,
-            column: 12,
-            ..
-        })
+        Err(PhonesetError::Read(ReadError::NotUtf8(at))) if at.position == Some(Position::new(2, 12))
     ));
     let good = dir.path().join("tiny.toml");
     std::fs::write(&good, TINY).unwrap();

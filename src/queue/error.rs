@@ -4,40 +4,39 @@
 use std::path::PathBuf;
 
 use super::fileio::LineError;
+use crate::support::located::{origin_of, Located, Position};
+use crate::support::read::ReadError;
 
 /// Everything that can go wrong reading or writing a queue or a journal, or applying decisions.
 #[derive(Debug, thiserror::Error)]
 pub enum QueueError {
-    /// The file could not be read or written.
-    #[error("{path}: {source} (check the path and its permissions)")]
+    /// The file could not be read, or is larger than its limit
+    /// ([`MAX_QUEUE`](super::MAX_QUEUE), [`MAX_JOURNAL`](super::MAX_JOURNAL)).
+    #[error(transparent)]
+    Read(#[from] ReadError),
+    /// The file could not be written.
+    #[error("{}: {reason} (check the path and its permissions)", path.display())]
     Io {
         /// The file.
         path: PathBuf,
         /// What the system said.
-        #[source]
-        source: std::io::Error,
+        reason: std::io::Error,
     },
-    /// A line could not be parsed.
-    #[error("{path}:{line}:{column}: {message}")]
-    Parse {
-        /// The file.
-        path: PathBuf,
-        /// 1-based line.
-        line: usize,
-        /// 1-based column (0 = whole line).
-        column: usize,
-        /// What is wrong and what to do.
-        message: String,
-    },
+    /// A line could not be parsed (placed at the line, and the column where one is known).
+    #[error("{0}")]
+    Parse(Located),
 }
 
 impl QueueError {
-    pub(crate) fn io(path: &std::path::Path, source: std::io::Error) -> QueueError {
-        QueueError::Io { path: path.to_path_buf(), source }
+    pub(crate) fn io(path: &std::path::Path, reason: std::io::Error) -> QueueError {
+        QueueError::Io { path: path.to_path_buf(), reason }
     }
 
+    /// A parse error at `line`; `column` 0 means the whole line (serde_json also reports 0 when
+    /// it has no column).
     pub(crate) fn parse(path: &std::path::Path, line: usize, column: usize, message: String) -> QueueError {
-        QueueError::Parse { path: path.to_path_buf(), line, column, message }
+        let position = if column == 0 { Position::line(line) } else { Position::new(line, column) };
+        QueueError::Parse(Located::new(origin_of(path), Some(position), message))
     }
 
     pub(crate) fn from_lines(path: &std::path::Path, err: LineError) -> QueueError {

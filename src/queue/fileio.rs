@@ -5,6 +5,14 @@
 
 use std::io::{self, BufRead, Read};
 
+use crate::support::read::{Limit, MIB};
+
+/// The largest queue file read (a queue of 100,000 items is some tens of MiB).
+pub const MAX_QUEUE: Limit = Limit { bytes: 256 * MIB, what: "review queue" };
+
+/// The largest journal read (each decision is one line of a few hundred bytes).
+pub const MAX_JOURNAL: Limit = Limit { bytes: 256 * MIB, what: "review journal" };
+
 /// Longest line we accept in a queue or journal file (1 MiB).
 pub const MAX_LINE: usize = 1 << 20;
 

@@ -7,6 +7,11 @@
 
 use super::item::Item;
 use super::tokenise::{count_unknown, TokenRule};
+use crate::support::read::{Limit, MIB};
+
+/// The largest word list or corpus file read for queue intake (a corpus of some tens of
+/// millions of words).
+pub const MAX_INTAKE_TEXT: Limit = Limit { bytes: 256 * MIB, what: "word list or corpus" };
 
 /// Longest word accepted from a word list, in characters (longer lines are skipped as noise).
 pub const MAX_WORD_CHARS: usize = 64;

@@ -13,7 +13,8 @@ use std::path::{Path, PathBuf};
 use serde::{Deserialize, Serialize};
 
 use super::error::QueueError;
-use super::fileio::read_lines;
+use super::fileio::{read_lines, MAX_JOURNAL};
+use crate::support::read::read_capped;
 use crate::safe_io::append_synced;
 
 /// What the reviewer decided about one item.
@@ -178,10 +179,10 @@ fn check_line(text: &str, previous: Option<u64>) -> Result<Logged, String> {
 impl Journal {
     /// Read a journal without opening it for writing; a missing file has no records.
     pub fn read(path: &Path) -> Result<(Vec<Logged>, Vec<JournalWarning>), QueueError> {
-        match std::fs::read(path) {
+        match read_capped(path, MAX_JOURNAL) {
             Ok(bytes) => parse(path, &bytes).map(|(r, w, _)| (r, w)),
-            Err(e) if e.kind() == std::io::ErrorKind::NotFound => Ok((Vec::new(), Vec::new())),
-            Err(e) => Err(QueueError::io(path, e)),
+            Err(e) if e.is_not_found() => Ok((Vec::new(), Vec::new())),
+            Err(e) => Err(e.into()),
         }
     }
 
@@ -202,10 +203,10 @@ impl Journal {
     /// assert!(warnings.is_empty());
     /// ```
     pub fn open(path: &Path) -> Result<(Journal, Vec<JournalWarning>), QueueError> {
-        let bytes = match std::fs::read(path) {
+        let bytes = match read_capped(path, MAX_JOURNAL) {
             Ok(b) => b,
-            Err(e) if e.kind() == std::io::ErrorKind::NotFound => Vec::new(),
-            Err(e) => return Err(QueueError::io(path, e)),
+            Err(e) if e.is_not_found() => Vec::new(),
+            Err(e) => return Err(e.into()),
         };
         let (records, warnings, good_end) = parse(path, &bytes)?;
         if good_end < bytes.len() as u64 {

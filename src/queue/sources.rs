@@ -19,9 +19,6 @@ use crate::audit::{AuditError, Severity};
 use crate::variants::{Generator, Options as VariantOptions};
 use crate::workspace::{Workspace, WorkspaceError};
 
-/// Largest word list or corpus file read (bytes).
-pub const MAX_INTAKE_BYTES: u64 = 256 * 1024 * 1024;
-
 /// Audit checks whose findings a reviewer settles by choosing or editing a pronunciation; the
 /// headword checks are left to `orthoepy audit --fix` and to the maintainer.
 pub const PRONUNCIATION_CHECKS: [&str; 8] = [
@@ -38,28 +35,9 @@ pub const PRONUNCIATION_CHECKS: [&str; 8] = [
 /// Errors of queue intake.
 #[derive(Debug, thiserror::Error)]
 pub enum IntakeError {
-    /// A word list or corpus could not be read.
-    #[error("{}: cannot read it: {error} (check the path)", path.display())]
-    Read {
-        /// The file.
-        path: PathBuf,
-        /// What the system said.
-        error: std::io::Error,
-    },
-    /// A word list or corpus is too large.
-    #[error("{}: larger than {} MiB; split it first", path.display(), MAX_INTAKE_BYTES / (1024 * 1024))]
-    TooLarge {
-        /// The file.
-        path: PathBuf,
-    },
-    /// A word list or corpus is not UTF-8.
-    #[error("{}: byte {offset} is not valid UTF-8; convert the file to UTF-8", path.display())]
-    NotUtf8 {
-        /// The file.
-        path: PathBuf,
-        /// Byte offset of the first invalid sequence.
-        offset: usize,
-    },
+    /// A word list or corpus could not be read, is too large or is not UTF-8.
+    #[error(transparent)]
+    Read(#[from] crate::support::read::ReadError),
     /// An accent profile could not be loaded.
     #[error(transparent)]
     Workspace(#[from] WorkspaceError),
@@ -185,16 +163,7 @@ fn merge_and_save(queue: &mut Queue, items: Vec<Item>) -> Result<AddSummary, Que
 
 /// Reads a word list or corpus: capped, and checked to be UTF-8.
 fn read_text(path: &Path) -> Result<String, IntakeError> {
-    use std::io::Read;
-    let read_error = |error| IntakeError::Read { path: path.to_path_buf(), error };
-    let file = std::fs::File::open(path).map_err(read_error)?;
-    let mut bytes = Vec::new();
-    file.take(MAX_INTAKE_BYTES + 1).read_to_end(&mut bytes).map_err(read_error)?;
-    if bytes.len() as u64 > MAX_INTAKE_BYTES {
-        return Err(IntakeError::TooLarge { path: path.to_path_buf() });
-    }
-    String::from_utf8(bytes)
-        .map_err(|e| IntakeError::NotUtf8 { path: path.to_path_buf(), offset: e.utf8_error().valid_up_to() })
+    Ok(crate::support::read::read_capped_string(path, super::intake::MAX_INTAKE_TEXT)?)
 }
 
 fn file_label(kind: &str, path: &Path) -> String {

@@ -10,7 +10,8 @@ use std::path::{Path, PathBuf};
 use serde::{Deserialize, Serialize};
 
 use super::error::QueueError;
-use super::fileio::read_lines;
+use super::fileio::{read_lines, MAX_QUEUE};
+use crate::support::read::read_capped;
 use crate::safe_io::atomic_write;
 use super::item::Item;
 
@@ -58,12 +59,12 @@ impl Queue {
     /// ```
     pub fn load(path: &Path) -> Result<Queue, QueueError> {
         let mut queue = Queue { path: Some(path.to_path_buf()), ..Queue::default() };
-        let file = match std::fs::File::open(path) {
-            Ok(f) => f,
-            Err(e) if e.kind() == std::io::ErrorKind::NotFound => return Ok(queue),
-            Err(e) => return Err(QueueError::io(path, e)),
+        let bytes = match read_capped(path, MAX_QUEUE) {
+            Ok(bytes) => bytes,
+            Err(e) if e.is_not_found() => return Ok(queue),
+            Err(e) => return Err(e.into()),
         };
-        let lines = read_lines(file).map_err(|e| QueueError::from_lines(path, e))?;
+        let lines = read_lines(bytes.as_slice()).map_err(|e| QueueError::from_lines(path, e))?;
         for raw in lines.iter().filter(|l| !l.text.trim().is_empty()) {
             if raw.number == 1 {
                 let header: Header = serde_json::from_str(&raw.text).map_err(|e| {

@@ -10,6 +10,35 @@
 
 use crate::queue::{Item, ItemState};
 
+/// Why filter text could not be parsed: the term at fault and what is allowed there.
+#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+pub enum FilterError {
+    /// `kind=` with a value other than new, variant, audit.
+    #[error("`{term}`: kind is new, variant or audit")]
+    Kind {
+        /// The term as typed.
+        term: String,
+    },
+    /// `score<` or `score>` without a finite number.
+    #[error("`{term}`: score needs a number, e.g. score<0.5")]
+    Score {
+        /// The term as typed.
+        term: String,
+    },
+    /// `state=` with an unknown state.
+    #[error("`{term}`: state is pending, decided, aside, applied or all")]
+    State {
+        /// The term as typed.
+        term: String,
+    },
+    /// A term of no known form.
+    #[error("`{term}`: use source=TEXT, origin=TEXT, kind=new|variant|audit, score<X, score>X, state=...")]
+    Unknown {
+        /// The term as typed.
+        term: String,
+    },
+}
+
 /// One parsed filter term.
 #[derive(Debug, Clone, PartialEq)]
 enum Term {
@@ -32,11 +61,13 @@ impl Filter {
     /// Parse filter text; the error says which term is wrong and what is allowed.
     ///
     /// ```
-    /// use orthoepy::tui::Filter;
+    /// use orthoepy::tui::{Filter, FilterError};
     /// assert!(Filter::parse("source=g2p score<0.5").is_ok());
-    /// assert!(Filter::parse("colour=red").unwrap_err().contains("source="));
+    /// let err = Filter::parse("colour=red").unwrap_err();
+    /// assert_eq!(err, FilterError::Unknown { term: "colour=red".into() });
+    /// assert!(err.to_string().contains("source="));
     /// ```
-    pub fn parse(text: &str) -> Result<Filter, String> {
+    pub fn parse(text: &str) -> Result<Filter, FilterError> {
         let mut terms = Vec::new();
         for word in text.split_whitespace() {
             let term = if let Some(v) = word.strip_prefix("source=") {
@@ -46,7 +77,7 @@ impl Filter {
             } else if let Some(v) = word.strip_prefix("kind=") {
                 match v {
                     "new" | "variant" | "audit" => Term::Kind(v.to_string()),
-                    _ => return Err(format!("`{word}`: kind is new, variant or audit")),
+                    _ => return Err(FilterError::Kind { term: word.to_string() }),
                 }
             } else if let Some(v) = word.strip_prefix("score<") {
                 Term::ScoreBelow(parse_score(word, v)?)
@@ -59,12 +90,10 @@ impl Filter {
                     "aside" => Some(ItemState::Aside),
                     "applied" => Some(ItemState::Applied),
                     "all" => None,
-                    _ => return Err(format!("`{word}`: state is pending, decided, aside, applied or all")),
+                    _ => return Err(FilterError::State { term: word.to_string() }),
                 })
             } else {
-                return Err(format!(
-                    "`{word}`: use source=TEXT, origin=TEXT, kind=new|variant|audit, score<X, score>X, state=..."
-                ));
+                return Err(FilterError::Unknown { term: word.to_string() });
             };
             terms.push(term);
         }
@@ -90,8 +119,8 @@ impl Filter {
     }
 }
 
-fn parse_score(word: &str, v: &str) -> Result<f64, String> {
-    v.parse::<f64>().ok().filter(|x| x.is_finite()).ok_or_else(|| format!("`{word}`: score needs a number, e.g. score<0.5"))
+fn parse_score(word: &str, v: &str) -> Result<f64, FilterError> {
+    v.parse::<f64>().ok().filter(|x| x.is_finite()).ok_or_else(|| FilterError::Score { term: word.to_string() })
 }
 
 #[cfg(test)]
@@ -111,6 +140,8 @@ mod tests {
         assert!(!Filter::parse("score>0.5").unwrap().matches(&item, ItemState::Pending));
         assert!(!Filter::parse("state=aside").unwrap().matches(&item, ItemState::Pending));
         assert!(Filter::parse("state=all kind=new").unwrap().matches(&item, ItemState::Aside));
-        assert!(Filter::parse("score<x").is_err());
+        assert_eq!(Filter::parse("score<x"), Err(FilterError::Score { term: "score<x".into() }));
+        assert!(matches!(Filter::parse("kind=other"), Err(FilterError::Kind { .. })));
+        assert!(matches!(Filter::parse("state=done"), Err(FilterError::State { .. })));
     }
 }

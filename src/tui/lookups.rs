@@ -6,9 +6,10 @@
 
 use crate::lexicon::{normalize_key, EntryId, Lexicon, LexiconIndex};
 use crate::phoneset::Phoneset;
-use crate::variants::feature_view;
+use crate::support::align::align as align_positions;
+use crate::variants::{feature_view, Column, Edit, FeatureView};
 
-use super::state::{FeatureColumn, FeatureTrack, FeatureView, Neighbours, SearchMode, WordPron};
+use super::state::{Comparison, Neighbours, SearchMode, WordPron};
 
 /// How many words each neighbour list holds at most.
 pub const NEIGHBOUR_LIMIT: usize = 6;
@@ -137,40 +138,27 @@ impl Lookups {
     }
 
     /// Align two pronunciations phone by phone and lay their features side by side (through
-    /// [`feature_view`] when both parse in the phoneset; otherwise phones only).
-    pub fn feature_view(&self, left: &str, right: &str, against: String) -> FeatureView {
+    /// [`feature_view`] when both parse in the phoneset; otherwise phones only). `left` (the
+    /// candidate) is the view's variant side, `right` its canonical side.
+    pub fn feature_view(&self, left: &str, right: &str, against: String) -> Comparison {
         let parsed = self.phoneset.as_ref().and_then(|set| Some((set, set.parse(left).ok()?, set.parse(right).ok()?)));
         if let Some((set, l, r)) = parsed {
-            let v = feature_view(set, &r, &l);
-            let columns = v
-                .columns
-                .iter()
-                .map(|c| FeatureColumn {
-                    left: c.variant.clone().unwrap_or_default(),
-                    right: c.canonical.clone().unwrap_or_default(),
-                })
-                .collect();
-            let tracks = v
-                .rows
-                .iter()
-                .map(|row| FeatureTrack {
-                    name: row.feature.clone(),
-                    cells: row
-                        .variant
-                        .iter()
-                        .zip(&row.canonical)
-                        .map(|(a, b)| (a.clone().unwrap_or_default(), b.clone().unwrap_or_default()))
-                        .collect(),
-                })
-                .collect();
-            return FeatureView { against, columns, tracks };
+            return Comparison { against, view: feature_view(set, &r, &l) };
         }
         let (pairs, _) = align(&tokens(left), &tokens(right));
         let columns = pairs
             .into_iter()
-            .map(|(l, r)| FeatureColumn { left: l.unwrap_or_default(), right: r.unwrap_or_default() })
+            .map(|(variant, canonical)| {
+                let edit = match (&canonical, &variant) {
+                    (Some(c), Some(v)) if c == v => Edit::Same,
+                    (Some(_), Some(_)) => Edit::Changed,
+                    (None, _) => Edit::Inserted,
+                    (Some(_), None) => Edit::Deleted,
+                };
+                Column { canonical, variant, edit }
+            })
             .collect();
-        FeatureView { against, columns, tracks: Vec::new() }
+        Comparison { against, view: FeatureView { columns, rows: Vec::new() } }
     }
 }
 
@@ -185,48 +173,29 @@ fn bare(t: &str) -> &str {
     t.trim_end_matches(|c: char| c.is_ascii_digit())
 }
 
-/// Levenshtein alignment of two token strings (Levenshtein 1966; Wagner & Fischer, "The
-/// string-to-string correction problem", JACM 1974). A substitution differing only in stress
-/// digits costs 1, other substitutions 2, insertions and deletions 2 each (in half-edit units).
-/// Returns the aligned pairs and the cost.
+/// Alignment of two token strings ([`crate::support::align`]) in half-edit units: a
+/// substitution differing only in stress digits costs 1, other substitutions 2, insertions and
+/// deletions 2 each. Returns the aligned pairs and the cost.
+///
+/// ```
+/// use orthoepy::tui::align;
+/// let t = |s: &str| s.split(' ').map(String::from).collect::<Vec<_>>();
+/// let (pairs, cost) = align(&t("HH AA1 R"), &t("AA2 R"));
+/// assert_eq!(pairs[0], (Some("HH".to_string()), None));
+/// assert_eq!(cost, 3);
+/// ```
 pub fn align(a: &[String], b: &[String]) -> (Vec<AlignedPair>, usize) {
-    let (n, m) = (a.len(), b.len());
-    let sub = |i: usize, j: usize| match (a.get(i), b.get(j)) {
-        (Some(x), Some(y)) if x == y => 0,
-        (Some(x), Some(y)) if bare(x) == bare(y) => 1,
-        _ => 2,
-    };
-    let mut d = vec![vec![0usize; m + 1]; n + 1];
-    for (i, row) in d.iter_mut().enumerate() {
-        row[0] = i * 2;
-    }
-    if let Some(first) = d.first_mut() {
-        for (j, cell) in first.iter_mut().enumerate() {
-            *cell = j * 2;
-        }
-    }
-    for i in 1..=n {
-        for j in 1..=m {
-            d[i][j] = (d[i - 1][j - 1] + sub(i - 1, j - 1)).min(d[i - 1][j] + 2).min(d[i][j - 1] + 2);
-        }
-    }
-    let mut pairs = Vec::new();
-    let (mut i, mut j) = (n, m);
-    while i > 0 || j > 0 {
-        if i > 0 && j > 0 && d[i][j] == d[i - 1][j - 1] + sub(i - 1, j - 1) {
-            pairs.push((a.get(i - 1).cloned(), b.get(j - 1).cloned()));
-            i -= 1;
-            j -= 1;
-        } else if i > 0 && d[i][j] == d[i - 1][j] + 2 {
-            pairs.push((a.get(i - 1).cloned(), None));
-            i -= 1;
+    let found = align_positions(a.len(), b.len(), 2usize, |i, j| {
+        if a[i] == b[j] {
+            0
+        } else if bare(&a[i]) == bare(&b[j]) {
+            1
         } else {
-            pairs.push((None, b.get(j - 1).cloned()));
-            j -= 1;
+            2
         }
-    }
-    pairs.reverse();
-    (pairs, d[n][m])
+    });
+    let pairs = found.pairs.into_iter().map(|(i, j)| (i.and_then(|i| a.get(i).cloned()), j.and_then(|j| b.get(j).cloned()))).collect();
+    (pairs, found.cost)
 }
 
 #[cfg(test)]
@@ -275,20 +244,16 @@ mod tests {
     fn feature_view_compares_with_canonical() {
         let l = lookups();
         let n = l.neighbours("variant:x", "harbour", "HH AA1 R B AH0", Some("HH AA1 R B ER0"));
-        let f = n.features.unwrap();
+        let f = n.features.unwrap().view;
         assert_eq!(f.columns.len(), 5);
-        assert_eq!(f.columns[4].left, "AH0");
-        assert_eq!(f.columns[4].right, "ER0");
+        assert_eq!(f.columns[4].variant.as_deref(), Some("AH0"));
+        assert_eq!(f.columns[4].canonical.as_deref(), Some("ER0"));
         // ER and AH differ in rhoticity at least (en-arpa features; r-coloured vs plain schwa,
         // IPA chart conventions).
-        let differing: Vec<&str> = f
-            .tracks
-            .iter()
-            .filter(|t| t.cells.get(4).is_some_and(|(a, b)| a != b))
-            .map(|t| t.name.as_str())
-            .collect();
+        let differing: Vec<&str> =
+            f.rows.iter().filter(|r| r.changed.get(4).copied().unwrap_or(false)).map(|r| r.feature.as_str()).collect();
         assert!(!differing.is_empty());
-        assert!(f.tracks.iter().all(|t| t.cells.first().is_some_and(|(a, b)| a == b)));
+        assert!(f.rows.iter().all(|r| r.changed.first() == Some(&false)));
     }
 
     #[test]

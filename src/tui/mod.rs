@@ -17,12 +17,12 @@ mod update;
 mod view;
 
 pub use editor::Editor;
-pub use filter::Filter;
+pub use filter::{Filter, FilterError};
 pub use help::KEYS;
 pub use lookups::{align, AlignedPair, Lookups, NEIGHBOUR_LIMIT};
 pub use phones::{check_all, PhoneCheck, PhonesetCheck, SymbolList, TokenVerdict};
 pub use state::{
-    App, FeatureColumn, FeatureTrack, FeatureView, JobProgress, Mode, Neighbours, PendingWrite, SaveState, SearchBox,
+    App, Comparison, JobProgress, Mode, Neighbours, PendingWrite, SaveState, SearchBox,
     SearchMode, WordPron,
 };
 pub use update::{update, Effect, Event, Key};

@@ -12,6 +12,7 @@ use super::filter::Filter;
 use crate::queue::ItemState;
 use super::phones::PhoneCheck;
 use crate::queue::{Candidate, Decision, Item, Ledger};
+use crate::variants::FeatureView;
 
 /// A word with one of its pronunciations, as shown in the neighbour and search panels.
 #[derive(Debug, Clone, PartialEq, Eq)]
@@ -22,33 +23,15 @@ pub struct WordPron {
     pub pronunciation: String,
 }
 
-/// One aligned position of a feature view: a phone on each side (empty = nothing there).
+/// The selected candidate set against another form, position by position: the variants'
+/// [`FeatureView`] with the candidate as its variant side and the other form as its canonical
+/// side (no feature rows when the pronunciations do not parse in the phoneset).
 #[derive(Debug, Clone, PartialEq, Eq)]
-pub struct FeatureColumn {
-    /// Phone of the selected candidate.
-    pub left: String,
-    /// Phone of the form it is compared with.
-    pub right: String,
-}
-
-/// One feature track: the feature's value at every aligned position, on both sides.
-#[derive(Debug, Clone, PartialEq, Eq)]
-pub struct FeatureTrack {
-    /// Feature name ("voice", "place", ...).
-    pub name: String,
-    /// `(left value, right value)` per column.
-    pub cells: Vec<(String, String)>,
-}
-
-/// The selected candidate set against another form, position by position.
-#[derive(Debug, Clone, PartialEq, Eq, Default)]
-pub struct FeatureView {
+pub struct Comparison {
     /// What the candidate is compared with ("canonical K AE1 T", "neighbour: cap").
     pub against: String,
-    /// Aligned phones.
-    pub columns: Vec<FeatureColumn>,
-    /// Feature tracks under the phones.
-    pub tracks: Vec<FeatureTrack>,
+    /// The aligned phones and feature rows.
+    pub view: FeatureView,
 }
 
 /// Lexicon neighbours of the current item and its selected candidate.
@@ -67,7 +50,7 @@ pub struct Neighbours {
     /// Words already pronounced exactly like the selected candidate.
     pub homophones: Vec<WordPron>,
     /// The candidate against its closest neighbour or the canonical form.
-    pub features: Option<FeatureView>,
+    pub features: Option<Comparison>,
 }
 
 /// How `/` searches the lexicon.

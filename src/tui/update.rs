@@ -492,7 +492,7 @@ fn filter_key(app: &mut App, mut text: String, key: Key) -> Vec<Effect> {
                 return Vec::new();
             }
             Err(e) => {
-                app.mode = Mode::Filter(text, Some(e));
+                app.mode = Mode::Filter(text, Some(e.to_string()));
                 return Vec::new();
             }
         },

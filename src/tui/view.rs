@@ -15,7 +15,8 @@ use ratatui::Frame;
 
 use super::help::KEYS;
 use super::phones::{check_all, TokenVerdict};
-use super::state::{App, FeatureView, Mode, SaveState, WordPron};
+use super::state::{App, Mode, SaveState, WordPron};
+use crate::variants::{Edit, FeatureView};
 use crate::queue::{Candidate, ItemKind};
 
 /// Styles used by the view, with or without colour.
@@ -257,18 +258,20 @@ fn gap(s: &str) -> String {
     }
 }
 
+/// The candidate is the view's variant side ("this"), the form it is compared with the canonical
+/// side ("other").
 fn feature_lines(view: &FeatureView, width: usize, t: Theme) -> Vec<Line<'static>> {
-    let cell = |a: &str, b: &str| if a == b { gap(a) } else { format!("{}/{}", gap(a), gap(b)) };
+    let text = |v: &Option<String>| gap(v.as_deref().unwrap_or(""));
+    let cell = |a: &Option<String>, b: &Option<String>| if a == b { text(a) } else { format!("{}/{}", text(a), text(b)) };
+    let value = |values: &[Option<String>], i: usize| values.get(i).cloned().flatten();
     let widths: Vec<usize> = view
         .columns
         .iter()
         .enumerate()
         .map(|(i, c)| {
-            let mut w = gap(&c.left).chars().count().max(gap(&c.right).chars().count());
-            for tr in &view.tracks {
-                if let Some((a, b)) = tr.cells.get(i) {
-                    w = w.max(cell(a, b).chars().count());
-                }
+            let mut w = text(&c.variant).chars().count().max(text(&c.canonical).chars().count());
+            for r in &view.rows {
+                w = w.max(cell(&value(&r.variant, i), &value(&r.canonical, i)).chars().count());
             }
             w + 1
         })
@@ -289,17 +292,19 @@ fn feature_lines(view: &FeatureView, width: usize, t: Theme) -> Vec<Line<'static
         Line::from(spans)
     };
     let mut lines = vec![
-        row("this", view.columns.iter().map(|c| (gap(&c.left), c.left != c.right)).collect()),
-        row("other", view.columns.iter().map(|c| (gap(&c.right), c.left != c.right)).collect()),
+        row("this", view.columns.iter().map(|c| (text(&c.variant), c.edit != Edit::Same)).collect()),
+        row("other", view.columns.iter().map(|c| (text(&c.canonical), c.edit != Edit::Same)).collect()),
     ];
-    for tr in &view.tracks {
-        let cells: Vec<(String, bool)> = tr
-            .cells
-            .iter()
-            .map(|(a, b)| (cell(a, b), a != b))
+    for r in &view.rows {
+        let cells: Vec<(String, bool)> = (0..view.columns.len())
+            .map(|i| {
+                let (a, b) = (value(&r.variant, i), value(&r.canonical, i));
+                let differs = a != b;
+                (cell(&a, &b), differs)
+            })
             .collect();
         if cells.iter().any(|(_, d)| *d) {
-            lines.push(row(&tr.name, cells));
+            lines.push(row(&r.feature, cells));
         }
     }
     lines
@@ -313,7 +318,7 @@ fn draw_features(frame: &mut Frame, app: &App, t: Theme, area: Rect) {
     };
     let block = Block::default().borders(Borders::TOP).title(Span::styled(title, t.title()));
     let lines = match view {
-        Some(v) => feature_lines(v, area.width as usize, t),
+        Some(v) => feature_lines(&v.view, area.width as usize, t),
         None => vec![Line::from(Span::styled("nothing close enough to compare with", t.dim()))],
     };
     frame.render_widget(Paragraph::new(lines).block(block), area);

@@ -7,6 +7,7 @@ use crate::phoneset::{PhoneClass, PhoneId, Phoneset, StressLevel};
 
 use super::bits::PhoneBits;
 use super::error::{NoPhoneWithFeatures, VariantsError};
+use crate::support::located::{Located, Position};
 use super::syntax::{Bundle, Change, Element, RuleAst, Segment, Span, Target, Term};
 
 /// Stress codes used by compiled matchers: none (consonants, unmarked), primary, secondary, unstressed.
@@ -258,16 +259,18 @@ impl Compiler<'_> {
             let Some(result) = result else {
                 let span = sets.first().map_or(Span { start: 0, end: 0 }, |s| s.2);
                 let (line, column) = (self.locate)(span.start);
-                return Err(VariantsError::NoPhoneWithFeatures(Box::new(NoPhoneWithFeatures {
-                    file: self.file.to_string(),
-                    line,
-                    column,
+                let details = NoPhoneWithFeatures {
                     from: self.set.phone(id).symbol.clone(),
                     change: sets.iter().map(|(n, v, _)| format!("{n}={v}")).collect::<Vec<_>>().join(", "),
                     features: features.iter().map(|(n, v)| format!("{n}={v}")).collect::<Vec<_>>().join(", "),
                     phoneset: self.set.id().to_string(),
                     nearest: super::nearest_phones(self.set, &features, 3),
-                })));
+                };
+                return Err(VariantsError::NoPhoneWithFeatures(Box::new(Located::new(
+                    self.file,
+                    Some(Position::new(line, column)),
+                    details,
+                ))));
             };
             if let Some(slot) = map.get_mut(usize::from(id)) {
                 *slot = Some(result);

@@ -1,34 +1,23 @@
 //! Errors of the variants module: every problem found while reading a rule-set or profile file
 //! names the file, line and column and says what to do. This file owns only the error type.
 
-use std::path::PathBuf;
+use crate::support::located::{Located, Position};
+use crate::support::read::ReadError;
 
 /// A problem with a rule set, a profile, or the data handed to generation.
 #[derive(Debug, thiserror::Error)]
 pub enum VariantsError {
-    /// A rule file or profile could not be read.
-    #[error("cannot read {path}: {source}")]
-    Io {
-        /// The file.
-        path: PathBuf,
-        /// The operating-system error.
-        source: std::io::Error,
-    },
-    /// Anything wrong at a place in a file: TOML syntax, rule syntax, unknown phone or feature.
-    #[error("{file}:{line}:{column}: {message}")]
-    At {
-        /// File name (or `<shipped>/ID.toml` for embedded files).
-        file: String,
-        /// 1-based line.
-        line: usize,
-        /// 1-based character column.
-        column: usize,
-        /// What is wrong and how to fix it.
-        message: String,
-    },
+    /// A rule file or profile could not be read, or is larger than
+    /// [`MAX_RULE_FILE`](super::MAX_RULE_FILE).
+    #[error(transparent)]
+    Read(#[from] ReadError),
+    /// Anything wrong at a place in a file: TOML syntax, rule syntax, unknown phone or feature
+    /// (the origin is the file's path, or `rules/variants/ID.toml` for a shipped file).
+    #[error("{0}")]
+    Invalid(Located),
     /// A feature change leads to a feature bundle no phone of the phoneset has.
     #[error("{0}")]
-    NoPhoneWithFeatures(Box<NoPhoneWithFeatures>),
+    NoPhoneWithFeatures(Box<Located<NoPhoneWithFeatures>>),
     /// A rule-set or profile id that is neither shipped nor a readable file.
     #[error("unknown {kind} `{id}`; shipped ones are: {}; or give a path to a .toml file", known.join(", "))]
     Unknown {
@@ -41,15 +30,9 @@ pub enum VariantsError {
     },
 }
 
-/// Details of [`VariantsError::NoPhoneWithFeatures`].
+/// Details of [`VariantsError::NoPhoneWithFeatures`] (the place is in the [`Located`] around it).
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct NoPhoneWithFeatures {
-    /// File name.
-    pub file: String,
-    /// 1-based line.
-    pub line: usize,
-    /// 1-based character column of the change.
-    pub column: usize,
     /// The phone the change was applied to.
     pub from: String,
     /// The change as written.
@@ -66,8 +49,8 @@ impl std::fmt::Display for NoPhoneWithFeatures {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
         write!(
             f,
-            "{}:{}:{}: changing {} by [{}] gives {{{}}}, which no phone in phoneset {} has; nearest by feature distance: {}; restrict the target or name the result phone",
-            self.file, self.line, self.column, self.from, self.change, self.features, self.phoneset, self.nearest.join(", ")
+            "changing {} by [{}] gives {{{}}}, which no phone in phoneset {} has; nearest by feature distance: {}; restrict the target or name the result phone",
+            self.from, self.change, self.features, self.phoneset, self.nearest.join(", ")
         )
     }
 }
@@ -75,6 +58,6 @@ impl std::fmt::Display for NoPhoneWithFeatures {
 impl VariantsError {
     /// Builds a located error.
     pub(crate) fn at(file: &str, (line, column): (usize, usize), message: impl Into<String>) -> VariantsError {
-        VariantsError::At { file: file.to_string(), line, column, message: message.into() }
+        VariantsError::Invalid(Located::new(file, Some(Position::new(line, column)), message.into()))
     }
 }

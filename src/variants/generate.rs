@@ -106,9 +106,9 @@ impl<'a> Generator<'a> {
     ///
     /// ```
     /// use orthoepy::phoneset::Phoneset;
-    /// use orthoepy::variants::{Generator, Options, Profile, RuleSet};
+    /// use orthoepy::variants::{Generator, Options, Profile, VariantRuleSet};
     /// let arpa = Phoneset::shipped("en-arpa").unwrap();
-    /// let profile = Profile::from_rule_sets(vec![RuleSet::shipped("flapping", &arpa).unwrap()]);
+    /// let profile = Profile::from_rule_sets(vec![VariantRuleSet::shipped("flapping", &arpa).unwrap()]);
     /// let generator = Generator::new(&arpa, &profile, Options::default());
     /// let water = arpa.parse("W AO1 T ER0").unwrap();
     /// let variants = generator.variants_of("water", &water);

@@ -1,5 +1,5 @@
 //! Variant pronunciations from articulatory-feature rewrite rules: the rule language
-//! ([`syntax`]), rule-set files and the shipped sets ([`RuleSet`]), accent profiles
+//! ([`syntax`]), rule-set files and the shipped sets ([`VariantRuleSet`]), accent profiles
 //! ([`Profile`]), generation of weighted variants over words and lexicons ([`Generator`]) and
 //! the aligned feature view ([`feature_view`]). This module must not read the lexicon file
 //! itself (it takes a loaded [`crate::lexicon::Lexicon`]) and prints nothing.
@@ -30,7 +30,7 @@ pub use compile::{Mode, Rule, CLASS_WORDS};
 pub use error::{NoPhoneWithFeatures, VariantsError};
 pub use generate::{FiredRule, Generation, Generator, Options, Skipped, Variant, MIN_PROBABILITY_FLOOR};
 pub use profile::{Profile, ProfileUse};
-pub use ruleset::RuleSet;
+pub use ruleset::{VariantRuleSet, MAX_RULE_FILE};
 pub use view::{feature_view, Column, Edit, FeatureRow, FeatureView};
 
 use crate::phoneset::{Features, Phone, PhoneId, Phoneset};

@@ -8,7 +8,8 @@ use crate::phoneset::Phoneset;
 
 use super::apply::Weighted;
 use super::error::VariantsError;
-use super::ruleset::{read_limited, RuleSet};
+use super::ruleset::{read_limited, VariantRuleSet};
+use crate::support::located::origin_of;
 use super::source::{ProfileFile, SourceText};
 
 const SHIPPED: &[(&str, &str)] = &[
@@ -21,7 +22,7 @@ const SHIPPED: &[(&str, &str)] = &[
 #[derive(Debug, Clone)]
 pub struct ProfileUse {
     /// The compiled set.
-    pub set: RuleSet,
+    pub set: VariantRuleSet,
     /// Probability that a speaker of the accent uses this set; multiplies each rule's weight.
     pub weight: f64,
     /// Per-rule weights replacing the rule file's weights, by rule id.
@@ -66,7 +67,7 @@ impl Profile {
     /// A profile file; its `file = "..."` entries are read relative to the profile's folder.
     pub fn load(path: &Path, phoneset: &Phoneset) -> Result<Profile, VariantsError> {
         let text = read_limited(path)?;
-        Profile::parse(&text, &path.display().to_string(), path.parent(), phoneset)
+        Profile::parse(&text, &origin_of(path), path.parent(), phoneset)
     }
 
     /// A shipped profile id, else a path to a profile file (relative to `base_dir`).
@@ -82,7 +83,7 @@ impl Profile {
     }
 
     /// An ad-hoc profile applying the given rule sets with weight 1, in order.
-    pub fn from_rule_sets(sets: Vec<RuleSet>) -> Profile {
+    pub fn from_rule_sets(sets: Vec<VariantRuleSet>) -> Profile {
         let id = sets.iter().map(|s| s.id.as_str()).collect::<Vec<_>>().join(",");
         Profile {
             title: format!("rule sets {id}"),
@@ -121,8 +122,8 @@ impl Profile {
         for spanned in &parsed.uses {
             let entry = spanned.get_ref();
             let set = match (&entry.rules, &entry.file, dir) {
-                (Some(id), None, _) => RuleSet::shipped(id, phoneset).map_err(|e| src.error_at(spanned, e.to_string()))?,
-                (None, Some(rel), Some(dir)) => RuleSet::load(&dir.join(rel), phoneset)?,
+                (Some(id), None, _) => VariantRuleSet::shipped(id, phoneset).map_err(|e| src.error_at(spanned, e.to_string()))?,
+                (None, Some(rel), Some(dir)) => VariantRuleSet::load(&dir.join(rel), phoneset)?,
                 (None, Some(_), None) => return Err(src.error_at(spanned, "`file = ...` needs a profile read from a file")),
                 _ => return Err(src.error_at(spanned, "each [[use]] names exactly one of `rules = \"ID\"` (shipped) or `file = \"PATH\"`")),
             };

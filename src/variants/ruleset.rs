@@ -4,14 +4,16 @@
 use std::path::Path;
 
 use crate::phoneset::Phoneset;
+use crate::support::located::origin_of;
+use crate::support::read::{read_capped_string, Limit, MIB};
 
 use super::compile::{Compiler, Mode, Rule};
 use super::error::VariantsError;
 use super::source::{RuleSetFile, SourceText};
 use super::syntax::parse_rule;
 
-/// Largest rule or profile file read (a rule file is a few kilobytes).
-pub(crate) const MAX_FILE_BYTES: u64 = 1 << 20;
+/// Largest rule-set or profile file read (the shipped ones are a few KiB).
+pub const MAX_RULE_FILE: Limit = Limit { bytes: MIB, what: "variant rule or profile file" };
 
 /// The shipped rule sets: (id, file text).
 const SHIPPED: &[(&str, &str)] = &[
@@ -32,7 +34,7 @@ const SHIPPED: &[(&str, &str)] = &[
 
 /// An ordered list of compiled rules with its provenance.
 #[derive(Debug, Clone)]
-pub struct RuleSet {
+pub struct VariantRuleSet {
     /// Kebab-case id, e.g. `flapping`.
     pub id: String,
     /// One-line title.
@@ -47,17 +49,12 @@ pub struct RuleSet {
     pub rules: Vec<Rule>,
 }
 
-/// Reads a file of at most [`MAX_FILE_BYTES`].
+/// Reads a rule-set or profile file of at most [`MAX_RULE_FILE`].
 pub(crate) fn read_limited(path: &Path) -> Result<String, VariantsError> {
-    let io = |source| VariantsError::Io { path: path.to_path_buf(), source };
-    let len = std::fs::metadata(path).map_err(io)?.len();
-    if len > MAX_FILE_BYTES {
-        return Err(VariantsError::at(&path.display().to_string(), (1, 1), format!("file is {len} bytes; rule and profile files are limited to {MAX_FILE_BYTES}")));
-    }
-    std::fs::read_to_string(path).map_err(io)
+    Ok(read_capped_string(path, MAX_RULE_FILE)?)
 }
 
-impl RuleSet {
+impl VariantRuleSet {
     /// Ids of the rule sets embedded in the library.
     pub fn shipped_ids() -> Vec<&'static str> {
         SHIPPED.iter().map(|(id, _)| *id).collect()
@@ -67,15 +64,15 @@ impl RuleSet {
     ///
     /// ```
     /// use orthoepy::phoneset::Phoneset;
-    /// use orthoepy::variants::RuleSet;
+    /// use orthoepy::variants::VariantRuleSet;
     /// let arpa = Phoneset::shipped("en-arpa").unwrap();
-    /// let flapping = RuleSet::shipped("flapping", &arpa).unwrap();
+    /// let flapping = VariantRuleSet::shipped("flapping", &arpa).unwrap();
     /// assert_eq!(flapping.rules[0].id, "t-d-flap");
-    /// assert!(RuleSet::shipped("no-such-set", &arpa).is_err());
+    /// assert!(VariantRuleSet::shipped("no-such-set", &arpa).is_err());
     /// ```
-    pub fn shipped(id: &str, phoneset: &Phoneset) -> Result<RuleSet, VariantsError> {
+    pub fn shipped(id: &str, phoneset: &Phoneset) -> Result<VariantRuleSet, VariantsError> {
         match SHIPPED.iter().find(|(i, _)| *i == id) {
-            Some((_, text)) => RuleSet::parse(text, &format!("rules/variants/{id}.toml"), phoneset),
+            Some((_, text)) => VariantRuleSet::parse(text, &format!("rules/variants/{id}.toml"), phoneset),
             None => Err(VariantsError::Unknown {
                 kind: "rule set",
                 id: id.to_string(),
@@ -85,28 +82,28 @@ impl RuleSet {
     }
 
     /// A rule-set file compiled against `phoneset`.
-    pub fn load(path: &Path, phoneset: &Phoneset) -> Result<RuleSet, VariantsError> {
+    pub fn load(path: &Path, phoneset: &Phoneset) -> Result<VariantRuleSet, VariantsError> {
         let text = read_limited(path)?;
-        RuleSet::parse(&text, &path.display().to_string(), phoneset)
+        VariantRuleSet::parse(&text, &origin_of(path), phoneset)
     }
 
     /// A shipped id, else a path (relative paths against `base_dir`).
-    pub fn resolve(spec: &str, base_dir: &Path, phoneset: &Phoneset) -> Result<RuleSet, VariantsError> {
+    pub fn resolve(spec: &str, base_dir: &Path, phoneset: &Phoneset) -> Result<VariantRuleSet, VariantsError> {
         if SHIPPED.iter().any(|(i, _)| *i == spec) {
-            return RuleSet::shipped(spec, phoneset);
+            return VariantRuleSet::shipped(spec, phoneset);
         }
         let path = base_dir.join(spec);
         if path.is_file() {
-            return RuleSet::load(&path, phoneset);
+            return VariantRuleSet::load(&path, phoneset);
         }
-        RuleSet::shipped(spec, phoneset)
+        VariantRuleSet::shipped(spec, phoneset)
     }
 
     /// Parses and compiles rule-set TOML; `file` names it in errors.
     ///
     /// ```
     /// use orthoepy::phoneset::Phoneset;
-    /// use orthoepy::variants::RuleSet;
+    /// use orthoepy::variants::VariantRuleSet;
     /// let arpa = Phoneset::shipped("en-arpa").unwrap();
     /// let text = r#"
     /// id = "n-velar"
@@ -119,13 +116,13 @@ impl RuleSet {
     /// mode = "optional"
     /// weight = 0.5
     /// "#;
-    /// let set = RuleSet::parse(text, "n-velar.toml", &arpa).unwrap();
+    /// let set = VariantRuleSet::parse(text, "n-velar.toml", &arpa).unwrap();
     /// assert_eq!(set.rules[0].line, 8);
     /// let bad = text.replace("place=velar]", "place=velr]");
-    /// let err = RuleSet::parse(&bad, "n-velar.toml", &arpa).unwrap_err();
+    /// let err = VariantRuleSet::parse(&bad, "n-velar.toml", &arpa).unwrap_err();
     /// assert!(err.to_string().starts_with("n-velar.toml:8:"), "{err}");
     /// ```
-    pub fn parse(text: &str, file: &str, phoneset: &Phoneset) -> Result<RuleSet, VariantsError> {
+    pub fn parse(text: &str, file: &str, phoneset: &Phoneset) -> Result<VariantRuleSet, VariantsError> {
         let src = SourceText { name: file, text };
         let parsed: RuleSetFile = src.parse()?;
         if parsed.phoneset.get_ref() != phoneset.id() {
@@ -166,6 +163,6 @@ impl RuleSet {
                 right: parts.right,
             });
         }
-        Ok(RuleSet { id: parsed.id, title: parsed.title, source: parsed.source, note: parsed.note, phoneset: phoneset.id().to_string(), rules })
+        Ok(VariantRuleSet { id: parsed.id, title: parsed.title, source: parsed.source, note: parsed.note, phoneset: phoneset.id().to_string(), rules })
     }
 }

@@ -57,6 +57,8 @@ pub(crate) struct UseEntry {
     pub weights: std::collections::BTreeMap<String, f64>,
 }
 
+use crate::support::located::Located;
+
 /// Text of a file with its name, for turning byte offsets into positions.
 pub(crate) struct SourceText<'a> {
     pub name: &'a str,
@@ -66,7 +68,7 @@ pub(crate) struct SourceText<'a> {
 impl SourceText<'_> {
     /// 1-based (line, character column) of a byte offset.
     pub fn position(&self, byte: usize) -> (usize, usize) {
-        crate::text_position::line_column(self.text.as_bytes(), byte)
+        crate::support::located::line_column(self.text.as_bytes(), byte)
     }
 
     /// Position of character `offset` inside a string value spanned by `span`. Exact for a
@@ -88,10 +90,7 @@ impl SourceText<'_> {
 
     /// Parses the whole file as `T`, turning TOML errors into located errors.
     pub fn parse<T: serde::de::DeserializeOwned>(&self) -> Result<T, VariantsError> {
-        toml::from_str(self.text).map_err(|e| {
-            let pos = e.span().map_or((1, 1), |s| self.position(s.start));
-            VariantsError::at(self.name, pos, e.message().to_string())
-        })
+        toml::from_str(self.text).map_err(|e| VariantsError::Invalid(Located::from_toml(self.name, self.text, &e)))
     }
 
     /// Located error at a spanned value.

@@ -2,7 +2,8 @@
 //! feature tracks (one row per feature, one column per aligned position), with changed cells,
 //! insertions and deletions marked. Alignment is a weighted edit distance whose substitution
 //! cost is `Phoneset::distance` (R. A. Wagner & M. J. Fischer, "The string-to-string correction
-//! problem", 1974). Owns the plain data and a plain-text rendering; must not draw to a terminal.
+//! problem", 1974; the alignment itself is [`crate::support::align`]). Owns the plain data
+//! and a plain-text rendering; must not draw to a terminal.
 
 use crate::phoneset::{Phone, PhoneClass, PhoneToken, Phoneset, Pronunciation};
 
@@ -81,48 +82,14 @@ fn class_name(p: &Phone) -> String {
     .to_string()
 }
 
-/// Aligns by weighted edit distance; returns (canonical index, variant index) pairs.
+/// Aligns by weighted edit distance ([`crate::support::align`]); returns (canonical index,
+/// variant index) pairs.
 fn align(set: &Phoneset, a: &Pronunciation, b: &Pronunciation) -> Vec<(Option<usize>, Option<usize>)> {
-    let (n, m) = (a.phones.len(), b.phones.len());
-    let w = m + 1;
-    let mut cost = vec![0.0f64; (n + 1) * w];
-    for i in 0..=n {
-        for j in 0..=m {
-            cost[i * w + j] = match (i, j) {
-                (0, _) => j as f64 * INDEL_COST,
-                (_, 0) => i as f64 * INDEL_COST,
-                _ => {
-                    let (x, y) = (&a.phones[i - 1], &b.phones[j - 1]);
-                    let sub = f64::from(set.distance(x.phone, y.phone)) + if x.stress == y.stress { 0.0 } else { 0.05 };
-                    (cost[(i - 1) * w + j - 1] + sub).min(cost[(i - 1) * w + j] + INDEL_COST).min(cost[i * w + j - 1] + INDEL_COST)
-                }
-            };
-        }
-    }
-    let mut path = Vec::with_capacity(n.max(m));
-    let (mut i, mut j) = (n, m);
-    while i > 0 || j > 0 {
-        let here = cost[i * w + j];
-        if i > 0 && j > 0 {
-            let (x, y) = (&a.phones[i - 1], &b.phones[j - 1]);
-            let sub = f64::from(set.distance(x.phone, y.phone)) + if x.stress == y.stress { 0.0 } else { 0.05 };
-            if (cost[(i - 1) * w + j - 1] + sub - here).abs() < 1e-9 {
-                path.push((Some(i - 1), Some(j - 1)));
-                i -= 1;
-                j -= 1;
-                continue;
-            }
-        }
-        if i > 0 && (j == 0 || (cost[(i - 1) * w + j] + INDEL_COST - here).abs() < 1e-9) {
-            path.push((Some(i - 1), None));
-            i -= 1;
-        } else {
-            path.push((None, Some(j - 1)));
-            j -= 1;
-        }
-    }
-    path.reverse();
-    path
+    let substitute = |i: usize, j: usize| {
+        let (x, y) = (&a.phones[i], &b.phones[j]);
+        f64::from(set.distance(x.phone, y.phone)) + if x.stress == y.stress { 0.0 } else { 0.05 }
+    };
+    crate::support::align::align(a.phones.len(), b.phones.len(), INDEL_COST, substitute).pairs
 }
 
 /// Lays `canonical` and `variant` side by side.

@@ -12,6 +12,11 @@ use serde::Deserialize;
 use toml::Spanned;
 
 use crate::phoneset::{Phoneset, Pronunciation};
+use crate::support::located::{origin_of, Located};
+use crate::support::read::{read_capped_string, Limit, ReadError, MIB};
+
+/// The largest language configuration file accepted; the shipped ones are a few KiB.
+pub const MAX_CONFIG_FILE: Limit = Limit { bytes: MIB, what: "language configuration" };
 
 fn shipped_text(id: &str) -> Option<&'static str> {
     match id {
@@ -24,26 +29,13 @@ fn shipped_text(id: &str) -> Option<&'static str> {
 /// Errors loading a language configuration.
 #[derive(Debug, thiserror::Error)]
 pub enum ConfigError {
-    /// The file could not be read.
-    #[error("{path}: cannot read the language configuration: {source}")]
-    Io {
-        /// The file.
-        path: String,
-        /// The underlying error.
-        source: std::io::Error,
-    },
-    /// Malformed TOML, or a value that does not fit the phoneset.
-    #[error("{origin}:{line}:{column}: {message}")]
-    Invalid {
-        /// File path or `shipped:<id>`.
-        origin: String,
-        /// 1-based line (0 when unknown).
-        line: usize,
-        /// 1-based column (0 when unknown).
-        column: usize,
-        /// What is wrong and what to do.
-        message: String,
-    },
+    /// The file could not be read, or is larger than [`MAX_CONFIG_FILE`].
+    #[error(transparent)]
+    Read(#[from] ReadError),
+    /// Malformed TOML, or a value that does not fit the phoneset (the origin is the file's
+    /// path or `shipped:<id>`).
+    #[error("{0}")]
+    Invalid(Located),
     /// No shipped configuration has this id.
     #[error("no shipped language configuration `{0}`; shipped: en, es")]
     UnknownShipped(String),
@@ -178,23 +170,14 @@ impl LanguageConfig {
 
     /// Loads a configuration file.
     pub fn load(path: &Path, phoneset: &Phoneset) -> Result<LanguageConfig, ConfigError> {
-        let text = std::fs::read_to_string(path)
-            .map_err(|source| ConfigError::Io { path: path.display().to_string(), source })?;
-        LanguageConfig::parse(&text, &path.display().to_string(), phoneset)
+        let text = read_capped_string(path, MAX_CONFIG_FILE)?;
+        LanguageConfig::parse(&text, &origin_of(path), phoneset)
     }
 
     /// Parses configuration text; `origin` names it in errors.
     pub fn parse(text: &str, origin: &str, phoneset: &Phoneset) -> Result<LanguageConfig, ConfigError> {
-        let at = |offset: usize, message: String| {
-            let before = text.get(..offset).unwrap_or(text);
-            let line = before.matches('\n').count() + 1;
-            let column = before.rsplit('\n').next().map_or(0, |l| l.chars().count()) + 1;
-            ConfigError::Invalid { origin: origin.to_string(), line, column, message }
-        };
-        let raw: RawConfig = toml::from_str(text).map_err(|e| match e.span() {
-            Some(span) => at(span.start, e.message().to_string()),
-            None => ConfigError::Invalid { origin: origin.to_string(), line: 0, column: 0, message: e.message().to_string() },
-        })?;
+        let at = |offset: usize, message: String| ConfigError::Invalid(Located::at_offset(origin, text.as_bytes(), offset, message));
+        let raw: RawConfig = toml::from_str(text).map_err(|e| ConfigError::Invalid(Located::from_toml(origin, text, &e)))?;
         if raw.phoneset.get_ref() != phoneset.id() {
             return Err(at(
                 raw.phoneset.span().start,

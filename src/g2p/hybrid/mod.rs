@@ -22,7 +22,7 @@ mod derivation;
 
 pub use config::{Allomorph, CompoundLimits, ConfigError, LanguageConfig, Scores, Suffix};
 
-use crate::g2p::lts::RuleSet;
+use crate::g2p::lts::LetterToSoundRules;
 use crate::g2p::AlignedPiece;
 use crate::lexicon::{Lexicon, LexiconIndex};
 use crate::phoneset::{Phoneset, Pronunciation, StressLevel};
@@ -146,7 +146,7 @@ pub struct HybridGuesser<'a> {
     phoneset: &'a Phoneset,
     config: &'a LanguageConfig,
     model: Option<&'a dyn Nbest>,
-    rules: Option<&'a RuleSet>,
+    rules: Option<&'a LetterToSoundRules>,
 }
 
 impl<'a> HybridGuesser<'a> {
@@ -162,7 +162,7 @@ impl<'a> HybridGuesser<'a> {
     }
 
     /// Adds letter-to-sound rules, used when there is no model.
-    pub fn with_rules(mut self, rules: &'a RuleSet) -> HybridGuesser<'a> {
+    pub fn with_rules(mut self, rules: &'a LetterToSoundRules) -> HybridGuesser<'a> {
         self.rules = Some(rules);
         self
     }

@@ -9,17 +9,18 @@ use std::collections::BTreeMap;
 use serde::Deserialize;
 use toml::Spanned;
 
-use super::pattern::{Context, PatternError};
+use super::pattern::{LetterContext, PatternError};
 use super::stress::StressMethod;
 use super::{LtsError, Output, Rule};
 use crate::phoneset::Phoneset;
+use crate::support::located::{line_column, Located};
 
 /// The TOML document as written.
 #[derive(Debug, Deserialize)]
 #[serde(deny_unknown_fields)]
 struct RawFile {
     language: String,
-    phoneset: String,
+    phoneset: Spanned<String>,
     #[serde(default)]
     description: String,
     alphabet: Spanned<String>,
@@ -52,34 +53,18 @@ pub(super) struct ParsedFile {
     pub(super) stress: StressMethod,
 }
 
-/// Maps byte offsets of `text` to 1-based line and column (in characters).
-struct Positions<'a> {
-    text: &'a str,
-}
-
-impl Positions<'_> {
-    fn at(&self, offset: usize) -> (usize, usize) {
-        crate::text_position::line_column(self.text.as_bytes(), offset)
-    }
-}
-
 /// Parses and validates a rule file; `origin` names it in errors (a path or `shipped:en`).
 pub(super) fn parse(text: &str, origin: &str, phoneset: &Phoneset) -> Result<ParsedFile, LtsError> {
-    let positions = Positions { text };
-    let raw: RawFile = toml::from_str(text).map_err(|e| {
-        let (line, column) = e.span().map_or((0, 0), |s| positions.at(s.start));
-        LtsError::Syntax { origin: origin.to_string(), line, column, message: e.message().to_string() }
-    })?;
-    let located = |offset: usize, message: String| {
-        let (line, column) = positions.at(offset);
-        LtsError::Syntax { origin: origin.to_string(), line, column, message }
-    };
-    if raw.phoneset != phoneset.id() {
-        return Err(LtsError::PhonesetMismatch {
-            origin: origin.to_string(),
-            declared: raw.phoneset.clone(),
-            given: phoneset.id().to_string(),
-        });
+    let raw: RawFile = toml::from_str(text).map_err(|e| LtsError::Syntax(Located::from_toml(origin, text, &e)))?;
+    let located = |offset: usize, message: String| LtsError::Syntax(Located::at_offset(origin, text.as_bytes(), offset, message));
+    if raw.phoneset.get_ref() != phoneset.id() {
+        let declared = raw.phoneset.get_ref();
+        return Err(LtsError::PhonesetMismatch(Located::at_offset(
+            origin,
+            text.as_bytes(),
+            raw.phoneset.span().start,
+            format!("the rules are written for phoneset `{declared}` but `{}` was given; load them with `{declared}`", phoneset.id()),
+        )));
     }
     let mut classes = BTreeMap::new();
     for (name, members) in &raw.classes {
@@ -105,7 +90,7 @@ pub(super) fn parse(text: &str, origin: &str, phoneset: &Phoneset) -> Result<Par
         let mut rule = parse_rule(line.get_ref(), &classes, phoneset)
             .map_err(|(column, message)| located(start + 1 + column, message))?;
         rule.order = order;
-        rule.line = positions.at(start).0;
+        rule.line = line_column(text.as_bytes(), start).0;
         rules.push(rule);
     }
     let alphabet: Vec<char> = raw.alphabet.get_ref().chars().filter(|c| !c.is_whitespace()).collect();
@@ -145,11 +130,11 @@ fn parse_rule(line: &str, classes: &BTreeMap<char, Vec<char>>, phoneset: &Phones
         None => (rest, None, line.len()),
     };
     let (left, right) = match context_text {
-        None => (Context::default(), Context::default()),
+        None => (LetterContext::default(), LetterContext::default()),
         Some(ctx) => {
             let underscore = ctx.find('_').ok_or((context_offset, "the context after `/` needs `_` where the letters stand".to_string()))?;
             let pattern = |text: &str, base: usize| {
-                Context::parse(text, classes).map_err(|e| match e {
+                LetterContext::parse(text, classes).map_err(|e| match e {
                     PatternError::UnknownClass { name, column } => {
                         (base + column, format!("letter class `{name}` is not declared under [classes]"))
                     }

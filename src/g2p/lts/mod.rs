@@ -3,7 +3,7 @@
 //! translation of English text to phonetics", IEEE Trans. ASSP 24(6), 1976 (the rules and the
 //! file format are this project's own; see DEVELOPERS.md, "Letter-to-sound rule files").
 //!
-//! A [`RuleSet`] is loaded from a TOML file (or a shipped one: `en`, `es`), with every output
+//! A [`LetterToSoundRules`] is loaded from a TOML file (or a shipped one: `en`, `es`), with every output
 //! phone checked against the phoneset at load time. Rules are indexed by their first letter;
 //! transcription scans the word left to right and at each position applies the longest matching
 //! rule (ties: the one written first), then a stress method marks stress. This module owns
@@ -19,10 +19,15 @@ use std::path::Path;
 use unicode_normalization::UnicodeNormalization;
 
 use crate::phoneset::{PhoneId, PhoneToken, Phoneset, Pronunciation, StressLevel};
-use pattern::Context;
+use crate::support::located::{origin_of, Located};
+use crate::support::read::{read_capped_string, Limit, ReadError, MIB};
+use pattern::LetterContext;
 use stress::{Emitted, StressMethod};
 
 pub use stress::{syllabify, Syllable};
+
+/// The largest letter-to-sound rule file accepted; the shipped ones are a few KiB.
+pub const MAX_RULE_FILE: Limit = Limit { bytes: MIB, what: "letter-to-sound rule file" };
 
 /// Ids of the rule sets shipped with orthoepy and the phoneset each is written for.
 pub const SHIPPED: &[(&str, &str)] = &[("en", "en-arpa"), ("es", "es-ipa")];
@@ -38,36 +43,17 @@ fn shipped_text(id: &str) -> Option<&'static str> {
 /// Errors from loading a rule file or transcribing a word.
 #[derive(Debug, thiserror::Error)]
 pub enum LtsError {
-    /// The rule file could not be read.
-    #[error("{path}: cannot read the rule file: {source}")]
-    Io {
-        /// The file.
-        path: String,
-        /// The underlying error.
-        source: std::io::Error,
-    },
-    /// The file is not valid TOML, or a rule, class or stress setting is malformed.
-    #[error("{origin}:{line}:{column}: {message}")]
-    Syntax {
-        /// File path or `shipped:<id>`.
-        origin: String,
-        /// 1-based line.
-        line: usize,
-        /// 1-based column.
-        column: usize,
-        /// What is wrong and what to write instead.
-        message: String,
-    },
-    /// The file was written for another phoneset than the one it is loaded with.
-    #[error("{origin}: the rules are written for phoneset `{declared}` but `{given}` was given; load them with `{declared}`")]
-    PhonesetMismatch {
-        /// File path or `shipped:<id>`.
-        origin: String,
-        /// The `phoneset` key of the file.
-        declared: String,
-        /// The phoneset passed in.
-        given: String,
-    },
+    /// The rule file could not be read, or is larger than [`MAX_RULE_FILE`].
+    #[error(transparent)]
+    Read(#[from] ReadError),
+    /// The file is not valid TOML, or a rule, class or stress setting is malformed (the origin
+    /// is the file's path or `shipped:<id>`).
+    #[error("{0}")]
+    Syntax(Located),
+    /// The file was written for another phoneset than the one it is loaded with (placed at its
+    /// `phoneset` key).
+    #[error("{0}")]
+    PhonesetMismatch(Located),
     /// No shipped rule set has this id.
     #[error("no shipped letter-to-sound rules for `{0}`; shipped: en, es")]
     UnknownShipped(String),
@@ -96,8 +82,8 @@ enum Output {
 #[derive(Debug, Clone)]
 struct Rule {
     letters: Vec<char>,
-    left: Context,
-    right: Context,
+    left: LetterContext,
+    right: LetterContext,
     output: Vec<Output>,
     /// Position in the file (0 = first rule), the tie-breaker between equally long matches.
     order: usize,
@@ -107,7 +93,7 @@ struct Rule {
 
 impl Rule {
     fn is_context_free(&self) -> bool {
-        self.left == Context::default() && self.right == Context::default()
+        self.left == LetterContext::default() && self.right == LetterContext::default()
     }
 
     fn matches(&self, word: &[char], at: usize) -> bool {
@@ -120,15 +106,15 @@ impl Rule {
 /// A compiled, validated set of letter-to-sound rules for one language and phoneset.
 ///
 /// ```
-/// use orthoepy::g2p::lts::RuleSet;
+/// use orthoepy::g2p::lts::LetterToSoundRules;
 /// use orthoepy::phoneset::Phoneset;
 /// let es = Phoneset::shipped("es-ipa").unwrap();
-/// let rules = RuleSet::shipped("es", &es).unwrap();
+/// let rules = LetterToSoundRules::shipped("es", &es).unwrap();
 /// let guess = rules.transcribe("chorizo").unwrap();
 /// assert_eq!(guess.render(&es), "tʃ o0 ɾ i1 s o0");
 /// ```
 #[derive(Debug, Clone)]
-pub struct RuleSet {
+pub struct LetterToSoundRules {
     language: String,
     description: String,
     phoneset: Phoneset,
@@ -138,19 +124,19 @@ pub struct RuleSet {
     stress: StressMethod,
 }
 
-impl RuleSet {
+impl LetterToSoundRules {
     /// Loads a shipped rule set (`en` for `en-arpa`, `es` for `es-ipa`).
-    pub fn shipped(id: &str, phoneset: &Phoneset) -> Result<RuleSet, LtsError> {
+    pub fn shipped(id: &str, phoneset: &Phoneset) -> Result<LetterToSoundRules, LtsError> {
         let text = shipped_text(id).ok_or_else(|| LtsError::UnknownShipped(id.to_string()))?;
-        RuleSet::parse(text, &format!("shipped:{id}"), phoneset)
+        LetterToSoundRules::parse(text, &format!("shipped:{id}"), phoneset)
     }
 
     /// A shipped rule set when `spec` is a shipped id (`en`, `es`), else the rule file at that path
     /// (as a project's `letter_to_sound` names it).
-    pub fn resolve(spec: &str, phoneset: &Phoneset) -> Result<RuleSet, LtsError> {
+    pub fn resolve(spec: &str, phoneset: &Phoneset) -> Result<LetterToSoundRules, LtsError> {
         match shipped_text(spec) {
-            Some(_) => RuleSet::shipped(spec, phoneset),
-            None => RuleSet::load(Path::new(spec), phoneset),
+            Some(_) => LetterToSoundRules::shipped(spec, phoneset),
+            None => LetterToSoundRules::load(Path::new(spec), phoneset),
         }
     }
 
@@ -167,30 +153,29 @@ impl RuleSet {
     /// The id of the shipped rule set written for a phoneset (`en-arpa` → `en`).
     ///
     /// ```
-    /// assert_eq!(orthoepy::g2p::lts::RuleSet::shipped_for_phoneset("es-ipa"), Some("es"));
+    /// assert_eq!(orthoepy::g2p::lts::LetterToSoundRules::shipped_for_phoneset("es-ipa"), Some("es"));
     /// ```
     pub fn shipped_for_phoneset(phoneset_id: &str) -> Option<&'static str> {
         SHIPPED.iter().find(|(_, p)| *p == phoneset_id).map(|(id, _)| *id)
     }
 
     /// Loads a rule file from disk.
-    pub fn load(path: &Path, phoneset: &Phoneset) -> Result<RuleSet, LtsError> {
-        let text = std::fs::read_to_string(path)
-            .map_err(|source| LtsError::Io { path: path.display().to_string(), source })?;
-        RuleSet::parse(&text, &path.display().to_string(), phoneset)
+    pub fn load(path: &Path, phoneset: &Phoneset) -> Result<LetterToSoundRules, LtsError> {
+        let text = read_capped_string(path, MAX_RULE_FILE)?;
+        LetterToSoundRules::parse(&text, &origin_of(path), phoneset)
     }
 
     /// Parses rule-file text; `origin` names it in error messages.
     ///
     /// ```
-    /// use orthoepy::g2p::lts::RuleSet;
+    /// use orthoepy::g2p::lts::LetterToSoundRules;
     /// use orthoepy::phoneset::Phoneset;
     /// let en = Phoneset::shipped("en-arpa").unwrap();
     /// let text = "language = \"x\"\nphoneset = \"en-arpa\"\nalphabet = \"a\"\n[stress]\nmethod = \"none\"\n[rules]\na = [\"a -> QQ\"]\n";
-    /// let err = RuleSet::parse(text, "x.toml", &en).unwrap_err();
+    /// let err = LetterToSoundRules::parse(text, "x.toml", &en).unwrap_err();
     /// assert!(err.to_string().starts_with("x.toml:7:12: phone `QQ`"), "{err}");
     /// ```
-    pub fn parse(text: &str, origin: &str, phoneset: &Phoneset) -> Result<RuleSet, LtsError> {
+    pub fn parse(text: &str, origin: &str, phoneset: &Phoneset) -> Result<LetterToSoundRules, LtsError> {
         let parsed = file::parse(text, origin, phoneset)?;
         let mut by_first: HashMap<char, Vec<Rule>> = HashMap::new();
         for rule in parsed.rules {
@@ -201,7 +186,7 @@ impl RuleSet {
         for rules in by_first.values_mut() {
             rules.sort_by(|a, b| b.letters.len().cmp(&a.letters.len()).then(a.order.cmp(&b.order)));
         }
-        Ok(RuleSet {
+        Ok(LetterToSoundRules {
             language: parsed.language,
             description: parsed.description,
             phoneset: phoneset.clone(),
@@ -237,7 +222,7 @@ impl RuleSet {
     }
 
     /// True when every letter of `word` (after normalisation) is in the file's alphabet, so
-    /// [`RuleSet::transcribe`] cannot fail on it.
+    /// [`LetterToSoundRules::transcribe`] cannot fail on it.
     pub fn covers(&self, word: &str) -> bool {
         normalize(word).iter().all(|c| self.alphabet.contains(c))
     }

@@ -30,7 +30,7 @@ pub(crate) enum Repeat {
 
 /// A parsed context: elements in reading order (left to right as written).
 #[derive(Debug, Clone, Default, PartialEq, Eq)]
-pub(crate) struct Context {
+pub(crate) struct LetterContext {
     items: Vec<(Element, Repeat)>,
 }
 
@@ -42,9 +42,9 @@ pub(crate) enum PatternError {
     RepeatedBoundary { column: usize },
 }
 
-impl Context {
+impl LetterContext {
     /// Parses `text` using the declared letter classes.
-    pub(crate) fn parse(text: &str, classes: &BTreeMap<char, Vec<char>>) -> Result<Context, PatternError> {
+    pub(crate) fn parse(text: &str, classes: &BTreeMap<char, Vec<char>>) -> Result<LetterContext, PatternError> {
         let mut items: Vec<(Element, Repeat)> = Vec::new();
         for (column, c) in text.char_indices() {
             match c {
@@ -65,7 +65,7 @@ impl Context {
                 c => items.push((Element::Letter(c), Repeat::Once)),
             }
         }
-        Ok(Context { items })
+        Ok(LetterContext { items })
     }
 
     /// True when this context, read rightwards, matches the letters starting at `start`.
@@ -161,7 +161,7 @@ mod tests {
 
     #[test]
     fn right_context_with_class_and_boundary() {
-        let ctx = Context::parse("C e #", &classes()).unwrap();
+        let ctx = LetterContext::parse("C e #", &classes()).unwrap();
         // "make": after 'a' (index 1) comes "ke" and the end.
         assert!(ctx.matches_right(&word("make"), 2));
         assert!(!ctx.matches_right(&word("makes"), 2));
@@ -169,32 +169,32 @@ mod tests {
 
     #[test]
     fn left_context_reads_backwards() {
-        let ctx = Context::parse("# C", &classes()).unwrap();
+        let ctx = LetterContext::parse("# C", &classes()).unwrap();
         assert!(ctx.matches_left(&word("ba"), 1));
         assert!(!ctx.matches_left(&word("aba"), 2));
-        let boundary = Context::parse("#", &classes()).unwrap();
+        let boundary = LetterContext::parse("#", &classes()).unwrap();
         assert!(boundary.matches_left(&word("ab"), 0));
         assert!(!boundary.matches_left(&word("ab"), 1));
     }
 
     #[test]
     fn repeats_backtrack() {
-        let ctx = Context::parse("C* e #", &classes()).unwrap();
+        let ctx = LetterContext::parse("C* e #", &classes()).unwrap();
         assert!(ctx.matches_right(&word("ae"), 1));
         assert!(ctx.matches_right(&word("arte"), 1));
         assert!(!ctx.matches_right(&word("arta"), 1));
-        let plus = Context::parse("V+ #", &classes()).unwrap();
+        let plus = LetterContext::parse("V+ #", &classes()).unwrap();
         assert!(!plus.matches_right(&word("b"), 1));
         assert!(plus.matches_right(&word("bio"), 1));
-        let left = Context::parse("# C+", &classes()).unwrap();
+        let left = LetterContext::parse("# C+", &classes()).unwrap();
         assert!(left.matches_left(&word("stra"), 3));
         assert!(!left.matches_left(&word("astra"), 4));
     }
 
     #[test]
     fn errors_name_the_column() {
-        assert_eq!(Context::parse("a Q", &classes()), Err(PatternError::UnknownClass { name: 'Q', column: 2 }));
-        assert_eq!(Context::parse("*a", &classes()), Err(PatternError::DanglingRepeat { column: 0 }));
-        assert_eq!(Context::parse("#+", &classes()), Err(PatternError::RepeatedBoundary { column: 1 }));
+        assert_eq!(LetterContext::parse("a Q", &classes()), Err(PatternError::UnknownClass { name: 'Q', column: 2 }));
+        assert_eq!(LetterContext::parse("*a", &classes()), Err(PatternError::DanglingRepeat { column: 0 }));
+        assert_eq!(LetterContext::parse("#+", &classes()), Err(PatternError::RepeatedBoundary { column: 1 }));
     }
 }
