@@ -10,6 +10,7 @@ pub mod audit;
 pub mod eval;
 pub mod g2p;
 pub mod lexicon;
+pub mod lock;
 pub mod phoneset;
 pub mod pls;
 pub mod project;

@@ -5,7 +5,8 @@ use std::path::PathBuf;
 
 use super::fileio::LineError;
 
-/// Everything that can go wrong reading or writing a queue or a journal, or applying decisions.
+/// Everything that can go wrong reading or writing a queue, or applying decisions (the journal
+/// has its own [`JournalError`](super::JournalError)).
 #[derive(Debug, thiserror::Error)]
 pub enum QueueError {
     /// The file could not be read or written.
@@ -47,7 +48,7 @@ impl QueueError {
                 path,
                 line,
                 0,
-                format!("line longer than {} bytes; this is not a queue or journal file", super::fileio::MAX_LINE),
+                format!("line longer than {} bytes; this is not a queue file", super::fileio::MAX_LINE),
             ),
             LineError::NotUtf8(line) => {
                 QueueError::parse(path, line, 0, "not valid UTF-8; save the file as UTF-8".into())
