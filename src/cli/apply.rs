@@ -41,13 +41,21 @@ fn describe(o: &Outcome) -> String {
 /// Run `orthoepy apply`.
 pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     let project = args.project.require()?;
+    // A dry run only reads; a real one writes the lexicon and the journal, one writer at a time.
+    let lock = if args.dry_run { None } else { Some(super::lock_project(&project, "apply")?) };
     let mut lexicon = Lexicon::load(&project.lexicon, project.headword_policy()).context("cannot load the lexicon")?;
     let queue = Queue::load(&project.queue).context("cannot read the queue")?;
-    let (mut journal, warnings) = Journal::open(&project.journal).context("cannot open the journal")?;
+    // Opened for writing (which keeps a torn last line aside) only under the lock.
+    let (ledger, warnings, journal) = if lock.is_some() {
+        let (journal, warnings) = Journal::open(&project.journal).context("cannot open the journal")?;
+        (Ledger::replay(journal.records()), warnings, Some(journal))
+    } else {
+        let (records, warnings) = Journal::read(&project.journal).context("cannot read the journal")?;
+        (Ledger::replay(&records), warnings, None)
+    };
     for w in &warnings {
         eprintln!("warning: {w}");
     }
-    let ledger = Ledger::replay(journal.records());
     let report = apply_decisions(&mut lexicon, &queue, &ledger);
     match args.format {
         DataFormat::Json => print_json(&report)?,
@@ -62,10 +70,10 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
                    Review those items again, or pass --skip-conflicts to merge the rest.");
         return Ok(ExitCode::from(1));
     }
-    if args.dry_run {
+    let Some(mut journal) = journal else {
         eprintln!("dry run: nothing was changed");
         return Ok(ExitCode::SUCCESS);
-    }
+    };
     if report.changed() {
         lexicon.save().context("cannot save the lexicon (nothing was marked applied; run apply again)")?;
     }
@@ -83,5 +91,6 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     if !reopened.is_empty() {
         eprintln!("{} conflicting item(s) are back in the review queue", reopened.len());
     }
+    drop(lock);
     Ok(ExitCode::SUCCESS)
 }

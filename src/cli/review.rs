@@ -39,6 +39,9 @@ pub fn open_review(project: &Project, reviewer: Option<String>) -> anyhow::Resul
         std::io::stdout().is_terminal(),
         "the review screen needs a terminal; use `orthoepy queue list` to see the queue from a script"
     );
+    // The screen appends to the journal and may write the queue back: one writer at a time,
+    // held until the screen has closed and the queue is saved.
+    let lock = super::lock_project(project, "review")?;
     let lexicon = Lexicon::load(&project.lexicon, project.headword_policy()).context("cannot load the lexicon")?;
     let mut queue = Queue::load(&project.queue).context("cannot read the queue")?;
     let (journal, warnings) = Journal::open(&project.journal).context("cannot open the journal")?;
@@ -75,6 +78,7 @@ pub fn open_review(project: &Project, reviewer: Option<String>) -> anyhow::Resul
     if guessed {
         queue.save().context("cannot save guessed candidates to the queue")?;
     }
+    drop(lock);
     let pending = app.ledger.unapplied().len();
     println!(
         "{pending} decision(s) in {} waiting to be merged; run `orthoepy apply --project {}`",

@@ -180,3 +180,151 @@ pub fn repair_journal(path: &Path, checked: &JournalReport) -> Result<Option<Rep
     let side_file = move_tail_aside(path, &bytes, tail.offset, label)?;
     Ok(Some(Repaired { side_file, moved: tail.clone(), kept_records: checked.records }))
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::queue::{Action, Decision, Journal, Record};
+
+    fn decide(word: &str) -> Record {
+        Record::Decide(Decision { item: format!("new:{word}"), word: word.into(), action: Action::Reject, note: String::new() })
+    }
+
+    /// A journal of `n` decisions, with every decision up to `applied` merged.
+    fn journal(n: usize, applied: u64) -> (tempfile::TempDir, PathBuf) {
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("j.jsonl");
+        let (mut j, _) = Journal::open(&path).unwrap();
+        for i in 0..n {
+            j.append(decide(&format!("w{i}"))).unwrap();
+            if i as u64 + 1 == applied {
+                j.append(Record::Applied { through: applied }).unwrap();
+            }
+        }
+        (dir, path)
+    }
+
+    /// Replaces line `number` (1-based) of the file with `text`.
+    fn replace_line(path: &Path, number: usize, text: &str) {
+        let old = std::fs::read_to_string(path).unwrap();
+        let lines: Vec<&str> = old.lines().enumerate().map(|(i, l)| if i + 1 == number { text } else { l }).collect();
+        std::fs::write(path, lines.join("\n") + "\n").unwrap();
+    }
+
+    fn side_files(dir: &Path) -> Vec<PathBuf> {
+        let mut v: Vec<PathBuf> = std::fs::read_dir(dir)
+            .unwrap()
+            .map(|e| e.unwrap().path())
+            .filter(|p| p.file_name().unwrap().to_string_lossy().contains(".jsonl."))
+            .collect();
+        v.sort();
+        v
+    }
+
+    #[test]
+    fn clean_journal_reports_its_state() {
+        let (_dir, path) = journal(3, 2);
+        let report = check_journal(&path).unwrap();
+        assert!(report.is_clean());
+        // Lines: decide 1, decide 2, applied 3, decide 4.
+        assert_eq!((report.records, report.last_seq, report.applied_through, report.pending), (4, 4, 2, 1));
+        assert_eq!(report.tail, None);
+        assert_eq!(repair_journal(&path, &report).unwrap(), None);
+    }
+
+    #[test]
+    fn missing_journal_is_clean_and_empty() {
+        let dir = tempfile::tempdir().unwrap();
+        let report = check_journal(&dir.path().join("none.jsonl")).unwrap();
+        assert!(report.is_clean() && !report.exists);
+        assert_eq!(repair_journal(&dir.path().join("none.jsonl"), &report).unwrap(), None);
+        assert_eq!(std::fs::read_dir(dir.path()).unwrap().count(), 0);
+    }
+
+    #[test]
+    fn check_lists_every_bad_line_and_changes_nothing() {
+        let (_dir, path) = journal(6, 0);
+        replace_line(&path, 3, "{\"seq\":3,\"garbled");
+        let text = std::fs::read_to_string(&path).unwrap();
+        let dup = text.lines().nth(3).unwrap().to_string();
+        replace_line(&path, 5, &dup); // line 5 repeats line 4's sequence number
+        let before = std::fs::read(&path).unwrap();
+        let report = check_journal(&path).unwrap();
+        let lines: Vec<usize> = report.problems.iter().map(|p| p.line).collect();
+        // Line 6 (sequence number 6) then does not follow line 5's 4 either.
+        assert_eq!(lines, [3, 5, 6]);
+        assert!(report.problems[1].message.contains("repeats"), "{:?}", report.problems);
+        assert!(report.problems[2].message.contains("does not follow 4"), "{:?}", report.problems);
+        let tail = report.tail.clone().unwrap();
+        // Lines 3..=6 move: line 4, 5 and 6 are whole records on their own.
+        assert_eq!((tail.from_line, tail.lines, tail.records, tail.kind), (3, 4, 3, ProblemKind::Damaged));
+        assert_eq!((report.records, report.last_seq), (2, 2));
+        assert_eq!(std::fs::read(&path).unwrap(), before);
+    }
+
+    #[test]
+    fn repair_moves_the_tail_aside_and_loses_no_byte() {
+        let (dir, path) = journal(5, 0);
+        replace_line(&path, 3, "{\"seq\":3,\"record\":{\"op\":\"revoke\",\"seq\":1},\"crc\":\"00000000\"}");
+        let before = std::fs::read(&path).unwrap();
+        let report = check_journal(&path).unwrap();
+        let repaired = repair_journal(&path, &report).unwrap().unwrap();
+        assert_eq!(repaired.kept_records, 2);
+        assert!(repaired.side_file.file_name().unwrap().to_string_lossy().starts_with("j.jsonl.damaged-"));
+        let mut joined = std::fs::read(&path).unwrap();
+        joined.extend(std::fs::read(&repaired.side_file).unwrap());
+        assert_eq!(joined, before, "good prefix + side file = the journal as it was");
+        assert!(check_journal(&path).unwrap().is_clean());
+        let (mut j, warnings) = Journal::open(&path).unwrap();
+        assert!(warnings.is_empty());
+        assert_eq!(j.append(decide("again")).unwrap(), 3);
+        assert_eq!(side_files(dir.path()), [repaired.side_file]);
+    }
+
+    #[test]
+    fn torn_tail_repairs_into_a_torn_side_file() {
+        let (_dir, path) = journal(2, 0);
+        let mut bytes = std::fs::read(&path).unwrap();
+        bytes.truncate(bytes.len() - 5);
+        std::fs::write(&path, &bytes).unwrap();
+        let report = check_journal(&path).unwrap();
+        assert_eq!(report.tail.as_ref().map(|t| t.kind), Some(ProblemKind::Torn));
+        let repaired = repair_journal(&path, &report).unwrap().unwrap();
+        assert!(repaired.side_file.file_name().unwrap().to_string_lossy().starts_with("j.jsonl.torn-"));
+    }
+
+    #[test]
+    fn repair_refuses_a_file_changed_since_the_check() {
+        let (dir, path) = journal(3, 0);
+        replace_line(&path, 2, "garbage");
+        let report = check_journal(&path).unwrap();
+        let mut bytes = std::fs::read(&path).unwrap();
+        bytes.extend_from_slice(b"more\n");
+        std::fs::write(&path, &bytes).unwrap();
+        assert!(matches!(repair_journal(&path, &report), Err(JournalError::Changed { .. })));
+        assert_eq!(std::fs::read(&path).unwrap(), bytes);
+        assert!(side_files(dir.path()).is_empty());
+    }
+
+    #[test]
+    fn not_a_journal_cannot_be_checked_or_repaired() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("j.jsonl");
+        std::fs::write(&path, b"my notes\n").unwrap();
+        assert!(matches!(check_journal(&path), Err(JournalError::NotAJournal { line: 1, .. })));
+        assert_eq!(std::fs::read(&path).unwrap(), b"my notes\n");
+    }
+
+    #[test]
+    fn only_the_first_problems_are_listed() {
+        let (_dir, path) = journal(1, 0);
+        let mut text = std::fs::read_to_string(&path).unwrap();
+        for _ in 0..40 {
+            text.push_str("{\"seq\":9,\"bad\n");
+        }
+        std::fs::write(&path, text).unwrap();
+        let report = check_journal(&path).unwrap();
+        assert_eq!(report.problems.len() + report.unlisted_problems, 40);
+        assert_eq!(report.problems.len(), 21);
+    }
+}
