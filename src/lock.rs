@@ -132,7 +132,7 @@ pub enum LockError {
         /// The lock file.
         path: PathBuf,
         /// Who holds it.
-        holder: LockHolder,
+        holder: Box<LockHolder>,
     },
     /// The lock belongs to a process on another host, which cannot be checked from here.
     #[error(
@@ -144,7 +144,7 @@ pub enum LockError {
         /// The lock file.
         path: PathBuf,
         /// Who holds it.
-        holder: LockHolder,
+        holder: Box<LockHolder>,
         /// This host.
         this_host: String,
     },
@@ -250,9 +250,9 @@ impl ProjectLock {
             let previous = LockHolder::from_bytes(&existing)
                 .map_err(|problem| LockError::Damaged { path: path.clone(), problem })?;
             match standing(&previous) {
-                Standing::Running => return Err(LockError::Held { path, holder: previous }),
+                Standing::Running => return Err(LockError::Held { path, holder: Box::new(previous) }),
                 Standing::Elsewhere => {
-                    return Err(LockError::HeldElsewhere { path, holder: previous, this_host: holder.host })
+                    return Err(LockError::HeldElsewhere { path, holder: Box::new(previous), this_host: holder.host })
                 }
                 Standing::Gone => {
                     if take_away(&path, &existing).map_err(io_err)? {
@@ -519,7 +519,7 @@ mod tests {
         assert!(first.notes().is_empty());
         let err = ProjectLock::acquire(dir.path(), "apply").unwrap_err();
         let LockError::Held { holder, .. } = &err else { panic!("{err:?}") };
-        assert_eq!(holder, first.holder());
+        assert_eq!(**holder, *first.holder());
         let text = err.to_string();
         for part in [&format!("process {}", std::process::id()), "orthoepy review", "since ", "UTC", "rm "] {
             assert!(text.contains(part), "{part:?} missing from {text}");

@@ -324,9 +324,13 @@ mod hook {
         BackupKept,
     }
 
+    /// What a test runs at each stage.
+    #[cfg(test)]
+    type Hook = Box<dyn FnMut(Stage)>;
+
     #[cfg(test)]
     thread_local! {
-        static HOOK: std::cell::RefCell<Option<Box<dyn FnMut(Stage)>>> = std::cell::RefCell::new(None);
+        static HOOK: std::cell::RefCell<Option<Hook>> = std::cell::RefCell::new(None);
     }
 
     /// Runs `body` with `hook` called at every stage of replaces on this thread.
