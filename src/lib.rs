@@ -5,6 +5,7 @@
 //! Data flows one way: files are read by [`project`], turned into a [`lexicon::Lexicon`] and a
 //! [`phoneset::Phoneset`], examined by [`audit`], extended by [`g2p`] and [`variants`], queued for
 //! people in [`queue`], reviewed in [`tui`], and saved back through [`lexicon::Lexicon::save`].
+//! Commands that write a project hold its [`lock::ProjectLock`]; every save goes through [`safe_io`].
 
 pub mod audit;
 pub mod eval;

@@ -11,8 +11,9 @@
 //! read: those are for a person to clear.
 //!
 //! A lock counts as gone when its host is this host and either the machine was restarted since
-//! (Linux boot id), or no process has its PID, or the process with its PID started at another
-//! moment than the holder did (PID reuse; start times from `/proc/PID/stat`).
+//! (Linux boot id), or no process has its PID, or that process has exited and waits to be
+//! collected by its parent (a zombie), or the process with its PID started at another moment
+//! than the holder did (PID reuse; states and start times from `/proc/PID/stat`).
 
 use std::fs;
 use std::io::{self, Read};
@@ -291,7 +292,7 @@ impl ProjectLock {
     pub fn clean_leftovers(&mut self, targets: &[&Path]) -> Result<Vec<PathBuf>, LockError> {
         let mut removed = Vec::new();
         for target in targets {
-            let gone = safe_io::remove_leftover_temps(target, |pid| !process_gone(pid))
+            let gone = safe_io::remove_leftover_temps(target, |pid| !process_gone(pid) && !process_exited(pid))
                 .map_err(|source| LockError::Io { path: target.to_path_buf(), source })?;
             removed.extend(gone);
         }
@@ -424,7 +425,7 @@ fn standing(holder: &LockHolder) -> Standing {
             return Standing::Gone;
         }
     }
-    if process_gone(holder.pid) {
+    if process_gone(holder.pid) || process_exited(holder.pid) {
         return Standing::Gone;
     }
     match (holder.process_start, process_start(holder.pid)) {
@@ -458,11 +459,25 @@ fn process_start(pid: u32) -> Option<u64> {
     start_from_stat(&fs::read_to_string(format!("/proc/{pid}/stat")).ok()?)
 }
 
-/// Field 22 of a `/proc/PID/stat` line. Field 2 is the command name in parentheses and may
-/// itself hold spaces and parentheses, so fields are counted from the last `)`.
+/// Whether the process has exited and only waits for its parent to collect it (state `Z`
+/// zombie or `X` dead in `/proc/PID/stat`, field 3); such a process still answers `kill(pid, 0)`.
+fn process_exited(pid: u32) -> bool {
+    fs::read_to_string(format!("/proc/{pid}/stat"))
+        .ok()
+        .and_then(|stat| stat_field(&stat, 3).map(|state| matches!(state, "Z" | "X")))
+        .unwrap_or(false)
+}
+
+/// Field 22 (start time) of a `/proc/PID/stat` line.
 fn start_from_stat(stat: &str) -> Option<u64> {
+    stat_field(stat, 22)?.parse().ok()
+}
+
+/// Field `n` (1-based, `n >= 3`) of a `/proc/PID/stat` line. Field 2 is the command name in
+/// parentheses and may itself hold spaces and parentheses, so fields are counted from the last `)`.
+fn stat_field(stat: &str, n: usize) -> Option<&str> {
     let (_, after_name) = stat.rsplit_once(')')?;
-    after_name.split_whitespace().nth(22 - 3)?.parse().ok()
+    after_name.split_whitespace().nth(n.checked_sub(3)?)
 }
 
 /// The Linux boot id, which changes at every restart.
@@ -536,6 +551,25 @@ mod tests {
         assert!(lock.notes()[0].to_string().contains("no longer running"));
         let now: LockFile = serde_json::from_slice(&fs::read(dir.path().join(LOCK_FILE)).unwrap()).unwrap();
         assert_eq!(now.holder, *lock.holder());
+    }
+
+    #[test]
+    fn lock_of_an_exited_process_not_yet_collected_is_gone() {
+        // A child that has exited but is not waited for stays a zombie (proc(5), state Z).
+        let mut child = std::process::Command::new("true").spawn().unwrap();
+        let pid = child.id();
+        let deadline = std::time::Instant::now() + std::time::Duration::from_secs(10);
+        while !process_exited(pid) && std::time::Instant::now() < deadline && process_start(pid).is_some() {
+            std::thread::sleep(std::time::Duration::from_millis(5));
+        }
+        if process_exited(pid) {
+            assert!(!process_gone(pid), "kill(pid, 0) still finds a zombie");
+            let dir = tempfile::tempdir().unwrap();
+            write_lock(dir.path(), &someone(pid));
+            let lock = ProjectLock::acquire(dir.path(), "apply").unwrap();
+            assert!(matches!(lock.notes(), [LockNote::TookOver { .. }]), "{:?}", lock.notes());
+        }
+        child.wait().unwrap();
     }
 
     #[test]
@@ -657,5 +691,6 @@ mod tests {
         assert_eq!(start_from_stat(&line), Some(987_654));
         assert_eq!(start_from_stat("4242 (truncated"), None);
         assert_eq!(start_from_stat("4242 (short) S 1 2\n"), None);
+        assert_eq!(stat_field(&line, 3), Some("S"));
     }
 }
