@@ -368,7 +368,7 @@ fn create_exclusive(path: &Path, contents: &[u8]) -> io::Result<bool> {
         },
     }
     if let Some(folder) = path.parent().filter(|p| !p.as_os_str().is_empty()) {
-        fs::File::open(folder)?.sync_all()?;
+        safe_io::sync_folder(folder)?;
     }
     Ok(true)
 }

@@ -390,7 +390,9 @@ pub fn append_synced(path: &Path, expected_len: u64, line: &[u8]) -> Result<u64,
     Ok(expected_len + line.len() as u64)
 }
 
-fn sync_folder(folder: &Path) -> io::Result<()> {
+/// Syncs a folder so that a rename or a new file in it survives a crash (best effort where
+/// folders cannot be opened).
+pub(crate) fn sync_folder(folder: &Path) -> io::Result<()> {
     // Folders can be opened read-only and synced on Unix; elsewhere this is best effort.
     match File::open(folder) {
         Ok(dir) => match dir.sync_all() {
