@@ -5,6 +5,7 @@
 //! Data flows one way: files are read by [`project`], turned into a [`lexicon::Lexicon`] and a
 //! [`phoneset::Phoneset`], examined by [`audit`], extended by [`g2p`] and [`variants`], queued for
 //! people in [`queue`], reviewed in [`tui`], and saved back through [`lexicon::Lexicon::save`].
+//! Commands that write a project hold its [`lock::ProjectLock`]; every save goes through [`safe_io`].
 
 #![deny(missing_docs)]
 
@@ -12,6 +13,7 @@ pub mod audit;
 pub mod eval;
 pub mod g2p;
 pub mod lexicon;
+pub mod lock;
 pub mod phoneset;
 pub mod pls;
 pub mod project;

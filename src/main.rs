@@ -29,6 +29,7 @@ enum Command {
     Queue(cli::queue::Args),
     Review(cli::review::Args),
     Apply(cli::apply::Args),
+    Journal(cli::journal::Args),
     Demo(cli::demo::Args),
 }
 
@@ -61,6 +62,7 @@ fn main() -> ExitCode {
         Command::Queue(args) => cli::queue::run(args),
         Command::Review(args) => cli::review::run(args),
         Command::Apply(args) => cli::apply::run(args),
+        Command::Journal(args) => cli::journal::run(args),
         Command::Demo(args) => cli::demo::run(args),
     };
     match result {

@@ -1,11 +1,14 @@
 //! Safe file writing shared by every store that holds a user's data.
 //!
 //! This module owns the one way orthoepy replaces a file: write the new bytes to a temporary file
-//! in the same folder, fsync it, keep the previous content as `NAME.bak`, rename the temporary
-//! file over the target and fsync the folder. A reader never sees a half-written file and a crash
-//! at any moment leaves either the old or the new content. It also owns [`Fingerprint`], the
-//! record of what a file held when it was read, used to refuse overwriting a file that someone else
-//! changed in the meantime. It must not know what the bytes mean.
+//! `.NAME.PID.tmp` in the same folder, fsync it, keep the previous content as `NAME.bak`, rename
+//! the temporary file over the target and fsync the folder. A reader never sees a half-written
+//! file and a crash at any moment leaves either the old or the new content. It also owns
+//! [`Fingerprint`], the record of what a file held when it was read: [`replace_if_unchanged`]
+//! compares it again after the new content is on disk, just before the backup and the rename, so
+//! an edit made by someone else meanwhile is refused rather than lost. Temporary files left by a
+//! killed save are recognised by their exact name pattern and removed by
+//! [`remove_leftover_temps`]. It must not know what the bytes mean.
 
 use std::fs::{self, File, OpenOptions};
 use std::io::{self, Write};
@@ -54,11 +57,24 @@ pub fn backup_path(path: &Path) -> PathBuf {
     path.with_file_name(name)
 }
 
+/// Why [`replace_if_unchanged`] or [`append_synced`] did not write.
+#[derive(Debug, thiserror::Error)]
+pub enum WriteError {
+    /// The file no longer holds what was read (or is gone, or has another length); nothing was
+    /// written.
+    #[error("changed on disk since it was read; nothing was written")]
+    Changed,
+    /// Reading or writing failed.
+    #[error(transparent)]
+    Io(#[from] io::Error),
+}
+
 /// Replaces the content of `path` with `bytes` atomically.
 ///
-/// When `keep_backup` is set and the file exists, its previous content is first saved (itself
-/// atomically) as [`backup_path`]. The temporary file lives in the same folder so the final rename
-/// never crosses file systems.
+/// When `keep_backup` is set and the file exists, its previous content is kept as
+/// [`backup_path`] (a hard link to the old file where the file system allows, else a synced
+/// copy). The temporary file lives in the same folder so the final rename never crosses file
+/// systems. Use [`replace_if_unchanged`] for a file that others may edit.
 ///
 /// ```
 /// let dir = tempfile::tempdir().unwrap();
@@ -69,62 +85,314 @@ pub fn backup_path(path: &Path) -> PathBuf {
 /// assert_eq!(std::fs::read(dir.path().join("a.txt.bak")).unwrap(), b"one\n");
 /// ```
 pub fn atomic_write(path: &Path, bytes: &[u8], keep_backup: bool) -> io::Result<()> {
-    if keep_backup {
-        match fs::read(path) {
-            Ok(previous) => replace_file(&backup_path(path), &previous)?,
-            Err(err) if err.kind() == io::ErrorKind::NotFound => {}
-            Err(err) => return Err(err),
-        }
+    match replace(path, bytes, None, keep_backup) {
+        Ok(()) => Ok(()),
+        Err(WriteError::Io(err)) => Err(err),
+        // Only a replace given an expected fingerprint reports a change; kept for completeness.
+        Err(WriteError::Changed) => Err(io::Error::other("changed on disk while saving")),
     }
-    replace_file(path, bytes)
 }
 
-fn replace_file(path: &Path, bytes: &[u8]) -> io::Result<()> {
-    let folder = match path.parent() {
+/// Replaces `path` with `bytes` only if it still holds what was read, whose [`Fingerprint`] is
+/// `expected`.
+///
+/// The slow part (writing and syncing the new content to a temporary file) happens first; then
+/// the file is compared again. With `keep_backup` the current file is hard-linked as the backup
+/// and its content checked through that link, so an edit made in place after the check lands in
+/// the backup rather than being lost, and an edit that replaced the file is refused. Only the
+/// moment between the last look at the file and the final rename cannot be covered by a
+/// check; it is a few system calls long.
+///
+/// ```
+/// use orthoepy::safe_io::{replace_if_unchanged, Fingerprint, WriteError};
+/// let dir = tempfile::tempdir().unwrap();
+/// let path = dir.path().join("lexicon.csv");
+/// std::fs::write(&path, b"old\n").unwrap();
+/// let read = Fingerprint::of(b"old\n");
+/// std::fs::write(&path, b"someone else's edit\n").unwrap();
+/// assert!(matches!(replace_if_unchanged(&path, b"mine\n", read, true), Err(WriteError::Changed)));
+/// assert_eq!(std::fs::read(&path).unwrap(), b"someone else's edit\n");
+/// ```
+pub fn replace_if_unchanged(path: &Path, bytes: &[u8], expected: Fingerprint, keep_backup: bool) -> Result<(), WriteError> {
+    replace(path, bytes, Some(expected), keep_backup)
+}
+
+fn folder_of(path: &Path) -> PathBuf {
+    match path.parent() {
         Some(p) if !p.as_os_str().is_empty() => p.to_path_buf(),
         _ => PathBuf::from("."),
-    };
+    }
+}
+
+/// The temporary file a save of `path` by process `pid` writes: `.NAME.PID.tmp` beside it.
+pub(crate) fn temp_path(path: &Path, pid: u32) -> PathBuf {
     let name = path.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default();
-    let temp = folder.join(format!(".{name}.{}.tmp", std::process::id()));
-    let result = (|| {
-        let mut file = OpenOptions::new().write(true).create(true).truncate(true).open(&temp)?;
-        file.write_all(bytes)?;
-        file.sync_all()?;
-        drop(file);
-        fs::rename(&temp, path)?;
-        sync_folder(&folder)
-    })();
+    folder_of(path).join(format!(".{name}.{pid}.tmp"))
+}
+
+fn write_synced(path: &Path, bytes: &[u8]) -> io::Result<()> {
+    let mut file = OpenOptions::new().write(true).create(true).truncate(true).open(path)?;
+    file.write_all(bytes)?;
+    file.sync_all()
+}
+
+fn replace(path: &Path, bytes: &[u8], expected: Option<Fingerprint>, keep_backup: bool) -> Result<(), WriteError> {
+    let temp = temp_path(path, std::process::id());
+    let result = write_synced(&temp, bytes).map_err(WriteError::from).and_then(|()| {
+        hook::run(hook::Stage::TempSynced);
+        commit(path, &temp, expected, keep_backup)
+    });
     if result.is_err() {
         let _ = fs::remove_file(&temp);
     }
     result
 }
 
-/// Appends one line to `path` and syncs it to disk before returning.
+/// What identifies a file's current version cheaply: which inode, how long, when last written.
+#[derive(Debug, PartialEq)]
+struct Version {
+    #[cfg(unix)]
+    inode: (u64, u64),
+    len: u64,
+    modified: Option<std::time::SystemTime>,
+}
+
+impl Version {
+    fn of(meta: &fs::Metadata) -> Version {
+        Version {
+            #[cfg(unix)]
+            inode: {
+                use std::os::unix::fs::MetadataExt;
+                (meta.dev(), meta.ino())
+            },
+            len: meta.len(),
+            modified: meta.modified().ok(),
+        }
+    }
+
+    /// The version of `path` now, `None` when it does not exist.
+    fn of_path(path: &Path) -> io::Result<Option<Version>> {
+        match fs::metadata(path) {
+            Ok(meta) => Ok(Some(Version::of(&meta))),
+            Err(err) if err.kind() == io::ErrorKind::NotFound => Ok(None),
+            Err(err) => Err(err),
+        }
+    }
+}
+
+/// Compares, keeps the backup and renames `temp` over `path`.
+fn commit(path: &Path, temp: &Path, expected: Option<Fingerprint>, keep_backup: bool) -> Result<(), WriteError> {
+    let folder = folder_of(path);
+    if keep_backup {
+        if let Some((staged, version)) = stage_backup(path, expected)? {
+            hook::run(hook::Stage::BackupStaged);
+            // Last look: the file must still be the version whose content was checked.
+            if expected.is_some() && Version::of_path(path)?.as_ref() != Some(&version) {
+                let _ = fs::remove_file(&staged);
+                return Err(WriteError::Changed);
+            }
+            if let Err(err) = fs::rename(&staged, backup_path(path)) {
+                let _ = fs::remove_file(&staged);
+                return Err(err.into());
+            }
+            hook::run(hook::Stage::BackupKept);
+        }
+    } else if let Some(expected) = expected {
+        if Fingerprint::of_file(path)? != Some(expected) {
+            return Err(WriteError::Changed);
+        }
+    }
+    fs::rename(temp, path)?;
+    sync_folder(&folder)?;
+    Ok(())
+}
+
+/// Puts the current content of `path` into a temporary backup file beside it and checks it
+/// against `expected`. Returns the staged file and the version of `path` it was taken from, or
+/// `None` when there is nothing to back up.
+fn stage_backup(path: &Path, expected: Option<Fingerprint>) -> Result<Option<(PathBuf, Version)>, WriteError> {
+    let staged = temp_path(&backup_path(path), std::process::id());
+    match fs::remove_file(&staged) {
+        Ok(()) => {}
+        Err(err) if err.kind() == io::ErrorKind::NotFound => {}
+        Err(err) => return Err(err.into()),
+    }
+    let outcome = (|| {
+        let before = match Version::of_path(path)? {
+            Some(v) => v,
+            None if expected.is_some() => return Err(WriteError::Changed),
+            None => return Ok(None),
+        };
+        let bytes = match fs::hard_link(path, &staged) {
+            // The link and the file are one inode: read it through the link, so what is
+            // checked is exactly what becomes the backup.
+            Ok(()) => fs::read(&staged)?,
+            Err(err) if err.kind() == io::ErrorKind::NotFound => return Err(WriteError::Changed),
+            // File systems without hard links get a copy.
+            Err(_) => {
+                let bytes = match fs::read(path) {
+                    Ok(b) => b,
+                    Err(err) if err.kind() == io::ErrorKind::NotFound => return Err(WriteError::Changed),
+                    Err(err) => return Err(err.into()),
+                };
+                write_synced(&staged, &bytes)?;
+                bytes
+            }
+        };
+        if expected.is_some_and(|want| Fingerprint::of(&bytes) != want) {
+            return Err(WriteError::Changed);
+        }
+        // Written to while it was read: a later look could not tell, so refuse now.
+        if expected.is_some() && Version::of_path(path)?.as_ref() != Some(&before) {
+            return Err(WriteError::Changed);
+        }
+        Ok(Some((staged.clone(), before)))
+    })();
+    if !matches!(outcome, Ok(Some(_))) {
+        let _ = fs::remove_file(&staged);
+    }
+    outcome
+}
+
+/// Removes what saves of `target` (and of its backup) killed before they finished left behind:
+/// files named exactly `.NAME.PID.tmp` or `.NAME.bak.PID.tmp` in its folder whose PID is not a
+/// live process according to `is_live`. Returns the files removed.
+///
+/// Call it only while holding the project lock, so no other orthoepy process is saving; the
+/// lock's [`clean_leftovers`](crate::lock::ProjectLock::clean_leftovers) does.
+///
+/// ```
+/// let dir = tempfile::tempdir().unwrap();
+/// let target = dir.path().join("lexicon.csv");
+/// std::fs::write(dir.path().join(".lexicon.csv.4242.tmp"), b"half a save").unwrap();
+/// std::fs::write(dir.path().join(".lexicon.csv.notes.tmp"), b"not ours").unwrap();
+/// let removed = orthoepy::safe_io::remove_leftover_temps(&target, |pid| pid != 4242).unwrap();
+/// assert_eq!(removed, vec![dir.path().join(".lexicon.csv.4242.tmp")]);
+/// assert!(dir.path().join(".lexicon.csv.notes.tmp").exists());
+/// ```
+pub fn remove_leftover_temps(target: &Path, is_live: impl Fn(u32) -> bool) -> io::Result<Vec<PathBuf>> {
+    let Some(name) = target.file_name().and_then(|n| n.to_str()) else { return Ok(Vec::new()) };
+    let folder = folder_of(target);
+    let entries = match fs::read_dir(&folder) {
+        Ok(entries) => entries,
+        Err(err) if err.kind() == io::ErrorKind::NotFound => return Ok(Vec::new()),
+        Err(err) => return Err(err),
+    };
+    let backup = format!("{name}.bak");
+    let mut removed = Vec::new();
+    for entry in entries {
+        let entry = entry?;
+        let file_name = entry.file_name();
+        let Some(file_name) = file_name.to_str() else { continue };
+        let pid = temp_pid(file_name, name).or_else(|| temp_pid(file_name, &backup));
+        let Some(pid) = pid else { continue };
+        if is_live(pid) || !entry.file_type()?.is_file() {
+            continue;
+        }
+        match fs::remove_file(entry.path()) {
+            Ok(()) => removed.push(entry.path()),
+            Err(err) if err.kind() == io::ErrorKind::NotFound => {}
+            Err(err) => return Err(err),
+        }
+    }
+    removed.sort();
+    Ok(removed)
+}
+
+/// The PID in `file_name` when it is exactly `.{name}.{PID}.tmp` (PID: ASCII digits, no sign,
+/// no leading zero, fits a `u32`).
+fn temp_pid(file_name: &str, name: &str) -> Option<u32> {
+    let digits = file_name.strip_prefix('.')?.strip_prefix(name)?.strip_prefix('.')?.strip_suffix(".tmp")?;
+    let well_formed = !digits.is_empty() && digits.bytes().all(|b| b.is_ascii_digit()) && !digits.starts_with('0');
+    if well_formed {
+        digits.parse().ok()
+    } else {
+        None
+    }
+}
+
+/// A test-only pause inside a replace, so a test can act as another program at an exact moment.
+mod hook {
+    /// Where a replace is.
+    #[derive(Debug, Clone, Copy, PartialEq, Eq)]
+    pub(crate) enum Stage {
+        /// The new content is in the temporary file and synced; nothing else happened yet.
+        TempSynced,
+        /// The backup is staged and checked; the last look and the renames come next.
+        BackupStaged,
+        /// The backup is in place (one file with the target until the next rename).
+        BackupKept,
+    }
+
+    /// What a test runs at each stage.
+    #[cfg(test)]
+    type Hook = Box<dyn FnMut(Stage)>;
+
+    #[cfg(test)]
+    thread_local! {
+        static HOOK: std::cell::RefCell<Option<Hook>> = std::cell::RefCell::new(None);
+    }
+
+    /// Runs `body` with `hook` called at every stage of replaces on this thread.
+    #[cfg(test)]
+    pub(crate) fn with<R>(hook: impl FnMut(Stage) + 'static, body: impl FnOnce() -> R) -> R {
+        HOOK.with(|h| *h.borrow_mut() = Some(Box::new(hook)));
+        let out = body();
+        HOOK.with(|h| *h.borrow_mut() = None);
+        out
+    }
+
+    #[cfg(test)]
+    pub(crate) fn run(stage: Stage) {
+        HOOK.with(|h| {
+            if let Some(f) = h.borrow_mut().as_mut() {
+                f(stage);
+            }
+        });
+    }
+
+    #[cfg(not(test))]
+    #[inline(always)]
+    pub(crate) fn run(_stage: Stage) {}
+}
+
+#[cfg(test)]
+pub(crate) use hook::{with as with_hook, Stage as HookStage};
+
+/// Appends one line to `path` (creating it when missing) if the file is `expected_len` bytes
+/// long, and syncs it to disk before returning its new length.
 ///
 /// Used by append-only journals: once this returns, the line survives a crash or a `kill -9`.
+/// A file of another length was written by someone else since it was read, and is refused
+/// ([`WriteError::Changed`]) rather than appended to. When the write fails halfway, the part
+/// written is cut off again where possible, so a later append does not start mid-line.
 ///
 /// ```
 /// let dir = tempfile::tempdir().unwrap();
 /// let path = dir.path().join("journal");
-/// orthoepy::safe_io::append_synced(&path, b"first\n").unwrap();
-/// orthoepy::safe_io::append_synced(&path, b"second\n").unwrap();
+/// let len = orthoepy::safe_io::append_synced(&path, 0, b"first\n").unwrap();
+/// orthoepy::safe_io::append_synced(&path, len, b"second\n").unwrap();
 /// assert_eq!(std::fs::read_to_string(&path).unwrap(), "first\nsecond\n");
+/// assert!(orthoepy::safe_io::append_synced(&path, len, b"stale\n").is_err());
 /// ```
-pub fn append_synced(path: &Path, line: &[u8]) -> io::Result<()> {
-    let existed = path.exists();
+pub fn append_synced(path: &Path, expected_len: u64, line: &[u8]) -> Result<u64, WriteError> {
     let mut file = OpenOptions::new().create(true).append(true).open(path)?;
-    file.write_all(line)?;
-    file.sync_data()?;
-    if !existed {
-        if let Some(folder) = path.parent().filter(|p| !p.as_os_str().is_empty()) {
-            sync_folder(folder)?;
-        }
+    if file.metadata()?.len() != expected_len {
+        return Err(WriteError::Changed);
     }
-    Ok(())
+    if let Err(err) = file.write_all(line).and_then(|()| file.sync_data()) {
+        let _ = file.set_len(expected_len);
+        return Err(err.into());
+    }
+    if expected_len == 0 {
+        sync_folder(&folder_of(path))?;
+    }
+    Ok(expected_len + line.len() as u64)
 }
 
-fn sync_folder(folder: &Path) -> io::Result<()> {
+/// Syncs a folder so that a rename or a new file in it survives a crash (best effort where
+/// folders cannot be opened).
+pub(crate) fn sync_folder(folder: &Path) -> io::Result<()> {
     // Folders can be opened read-only and synced on Unix; elsewhere this is best effort.
     match File::open(folder) {
         Ok(dir) => match dir.sync_all() {
@@ -165,5 +433,142 @@ mod tests {
         assert_eq!(fs::read(backup_path(&path)).unwrap(), b"2");
         let names: Vec<_> = fs::read_dir(dir.path()).unwrap().map(|e| e.unwrap().file_name()).collect();
         assert_eq!(names.len(), 2, "only the file and one backup remain: {names:?}");
+    }
+
+    /// Lists the names in a folder, sorted.
+    fn names(dir: &Path) -> Vec<String> {
+        let mut names: Vec<String> =
+            fs::read_dir(dir).unwrap().map(|e| e.unwrap().file_name().to_string_lossy().into_owned()).collect();
+        names.sort();
+        names
+    }
+
+    #[test]
+    fn temporary_file_is_named_dot_name_pid_tmp() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("l.csv");
+        let folder = dir.path().to_path_buf();
+        let seen = std::rc::Rc::new(std::cell::RefCell::new(Vec::new()));
+        let log = seen.clone();
+        with_hook(move |stage| if stage == HookStage::TempSynced { log.borrow_mut().extend(names(&folder)) }, || {
+            atomic_write(&path, b"x", false).unwrap()
+        });
+        assert_eq!(*seen.borrow(), vec![format!(".l.csv.{}.tmp", std::process::id())]);
+        assert_eq!(names(dir.path()), ["l.csv"]);
+    }
+
+    #[test]
+    fn leftovers_match_only_our_exact_pattern_and_dead_pids() {
+        let dir = tempfile::tempdir().unwrap();
+        let target = dir.path().join("lexicon.csv");
+        for name in [
+            ".lexicon.csv.100.tmp",      // ours, dead: removed
+            ".lexicon.csv.bak.101.tmp",  // backup staging, dead: removed
+            ".lexicon.csv.200.tmp",      // ours, live: kept
+            ".lexicon.csv.0100.tmp",     // leading zero: not a PID we write
+            ".lexicon.csv.+100.tmp",     // sign: not ours
+            ".lexicon.csv..tmp",         // no PID
+            ".lexicon.csv.100.tmp~",     // editor backup of a temp: not ours
+            ".lexicon.csvx.100.tmp",     // another file's temp
+            "lexicon.csv.100.tmp",       // no leading dot
+            ".lexicon.csv.99999999999.tmp", // does not fit a PID
+        ] {
+            fs::write(dir.path().join(name), b"").unwrap();
+        }
+        fs::create_dir(dir.path().join(".lexicon.csv.102.tmp")).unwrap(); // a folder: never removed
+        let removed = remove_leftover_temps(&target, |pid| pid == 200).unwrap();
+        let removed: Vec<String> = removed.iter().map(|p| p.file_name().unwrap().to_string_lossy().into_owned()).collect();
+        assert_eq!(removed, [".lexicon.csv.100.tmp", ".lexicon.csv.bak.101.tmp"]);
+        assert_eq!(names(dir.path()).len(), 9);
+    }
+
+    #[test]
+    fn edit_in_place_after_the_temp_is_written_is_refused_and_kept() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("l.csv");
+        atomic_write(&path, b"v1\n", true).unwrap();
+        atomic_write(&path, b"v2\n", true).unwrap();
+        let read = Fingerprint::of(b"v2\n");
+        let target = path.clone();
+        let result = with_hook(
+            move |stage| {
+                if stage == HookStage::TempSynced {
+                    fs::write(&target, b"their edit\n").unwrap(); // truncates and rewrites the same file
+                }
+            },
+            || replace_if_unchanged(&path, b"mine\n", read, true),
+        );
+        assert!(matches!(result, Err(WriteError::Changed)), "{result:?}");
+        assert_eq!(fs::read(&path).unwrap(), b"their edit\n");
+        assert_eq!(fs::read(backup_path(&path)).unwrap(), b"v1\n");
+        assert_eq!(names(dir.path()), ["l.csv", "l.csv.bak"]);
+    }
+
+    #[test]
+    fn file_replaced_after_the_backup_is_staged_is_refused_and_kept() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("l.csv");
+        atomic_write(&path, b"v1\n", true).unwrap();
+        atomic_write(&path, b"v2\n", true).unwrap();
+        let target = path.clone();
+        let result = with_hook(
+            move |stage| {
+                if stage == HookStage::BackupStaged {
+                    // An editor's save: a new file renamed over the old one.
+                    let other = target.with_file_name("editor-save");
+                    fs::write(&other, b"v2\n").unwrap(); // same bytes, other file
+                    fs::rename(&other, &target).unwrap();
+                }
+            },
+            || replace_if_unchanged(&path, b"mine\n", Fingerprint::of(b"v2\n"), true),
+        );
+        assert!(matches!(result, Err(WriteError::Changed)), "{result:?}");
+        assert_eq!(fs::read(&path).unwrap(), b"v2\n");
+        assert_eq!(fs::read(backup_path(&path)).unwrap(), b"v1\n");
+        assert_eq!(names(dir.path()), ["l.csv", "l.csv.bak"]);
+    }
+
+    #[test]
+    fn edit_in_place_in_the_last_moment_survives_in_the_backup() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("l.csv");
+        atomic_write(&path, b"v1\n", false).unwrap();
+        let target = path.clone();
+        let result = with_hook(
+            move |stage| {
+                if stage == HookStage::BackupKept {
+                    fs::write(&target, b"their edit\n").unwrap();
+                }
+            },
+            || replace_if_unchanged(&path, b"mine\n", Fingerprint::of(b"v1\n"), true),
+        );
+        result.unwrap();
+        assert_eq!(fs::read(&path).unwrap(), b"mine\n");
+        // The backup is the very file that was edited, so the edit is not lost.
+        assert_eq!(fs::read(backup_path(&path)).unwrap(), b"their edit\n");
+    }
+
+    #[test]
+    fn unchanged_file_is_replaced_with_its_backup() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("l.csv");
+        fs::write(&path, b"old\n").unwrap();
+        replace_if_unchanged(&path, b"new\n", Fingerprint::of(b"old\n"), true).unwrap();
+        assert_eq!(fs::read(&path).unwrap(), b"new\n");
+        assert_eq!(fs::read(backup_path(&path)).unwrap(), b"old\n");
+        replace_if_unchanged(&path, b"newer\n", Fingerprint::of(b"new\n"), false).unwrap();
+        assert_eq!(fs::read(&path).unwrap(), b"newer\n");
+        assert_eq!(fs::read(backup_path(&path)).unwrap(), b"old\n");
+    }
+
+    #[test]
+    fn vanished_file_is_a_change() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("l.csv");
+        for keep in [true, false] {
+            let result = replace_if_unchanged(&path, b"new\n", Fingerprint::of(b"old\n"), keep);
+            assert!(matches!(result, Err(WriteError::Changed)), "{result:?}");
+            assert!(names(dir.path()).is_empty());
+        }
     }
 }

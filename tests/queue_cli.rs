@@ -171,7 +171,7 @@ fn apply_refuses_when_the_lexicon_now_contradicts_a_decision() {
 }
 
 #[test]
-fn torn_journal_tail_is_reported_and_ignored() {
+fn torn_journal_tail_is_reported_ignored_and_kept_aside() {
     let tmp = tempfile::tempdir().unwrap();
     let dir = tmp.path();
     project_with_queued_words(dir, "Kelport\nSaltmarsh\n");
@@ -180,10 +180,20 @@ fn torn_journal_tail_is_reported_and_ignored() {
     let bytes = std::fs::read(dir.join("journal.jsonl")).unwrap();
     std::fs::write(dir.join("journal.jsonl"), &bytes[..bytes.len() - 7]).unwrap();
     let out = orthoepy(dir, &["queue", "list", "--format", "json"]).output().unwrap();
-    assert!(String::from_utf8_lossy(&out.stderr).contains("journal.jsonl:2: last line is incomplete"));
+    assert!(String::from_utf8_lossy(&out.stderr).contains("journal.jsonl:2: the last line has no line ending"));
     let items: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
     assert_eq!(items[0]["state"], "aside");
     assert_eq!(items[1]["state"], "pending");
+    // A reader leaves the torn line where it is; a writer moves it into a side file.
+    assert_eq!(std::fs::read(dir.join("journal.jsonl")).unwrap(), &bytes[..bytes.len() - 7]);
+    let out = orthoepy(dir, &["apply"]).output().unwrap();
+    assert!(out.status.success());
+    assert!(String::from_utf8_lossy(&out.stderr).contains("the partial line was moved to"));
+    let torn: Vec<_> = std::fs::read_dir(dir)
+        .unwrap()
+        .filter(|e| e.as_ref().unwrap().file_name().to_string_lossy().starts_with("journal.jsonl.torn-"))
+        .collect();
+    assert_eq!(torn.len(), 1, "the torn line is kept, not deleted");
 }
 
 #[test]

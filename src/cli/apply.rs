@@ -40,7 +40,10 @@ fn describe(o: &Outcome) -> String {
 pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     let project = args.project.require()?;
     let options = ApplyOptions { dry_run: args.dry_run, skip_conflicts: args.skip_conflicts };
+    // A dry run only reads; a real one writes the lexicon and the journal, one writer at a time.
+    let lock = if args.dry_run { None } else { Some(super::lock_project(&project, "apply")?) };
     let run = apply_project(&project, options)?;
+    drop(lock);
     for w in &run.warnings {
         eprintln!("warning: {w}");
     }

@@ -79,6 +79,11 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     };
     let phoneset = super::resolve_phoneset(args.phoneset.as_deref(), project.as_ref())?;
     let stress = project.as_ref().map(|p| p.stress.clone()).unwrap_or_default();
+    // Repairs write the lexicon: inside a project, one writer at a time.
+    let _lock = match (&project, args.fix) {
+        (Some(p), true) => Some(super::lock_project(p, "audit --fix")?),
+        _ => None,
+    };
     let load = || Lexicon::load_with(&path, policy, LoadMode::Repair).context("cannot load the lexicon");
     let mut lexicon = load()?;
     let changes = if args.fix { fix::apply(&mut lexicon) } else { Vec::new() };

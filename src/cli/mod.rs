@@ -13,6 +13,7 @@ pub mod export;
 pub mod find;
 pub mod guess;
 pub mod import;
+pub mod journal;
 pub mod queue;
 pub mod review;
 pub mod split;
@@ -22,6 +23,7 @@ pub mod variants;
 
 use anyhow::Context;
 use orthoepy::lexicon::{HeadwordPolicy, Lexicon};
+use orthoepy::lock::ProjectLock;
 use orthoepy::project::Project;
 use std::io::IsTerminal;
 use std::path::{Path, PathBuf};
@@ -108,6 +110,17 @@ pub fn refuse_overwrite(path: &Path, force: bool) -> anyhow::Result<()> {
         anyhow::bail!("{} exists; pass --force to replace it", path.display());
     }
     Ok(())
+}
+
+/// Takes the project lock for a command that writes the project's lexicon, queue or journal,
+/// printing its notes (a lock taken over, leftovers of killed saves removed). Take it before
+/// reading what will be written, and keep it until the last write is done.
+pub fn lock_project(project: &Project, command: &str) -> anyhow::Result<ProjectLock> {
+    let lock = ProjectLock::acquire_for(project, command)?;
+    for note in lock.notes() {
+        eprintln!("note: {note}");
+    }
+    Ok(lock)
 }
 
 /// A progress bar on stderr when it is a terminal, hidden otherwise (pipes and CI stay clean).

@@ -113,6 +113,7 @@ fn add(project: Project, a: AddArgs) -> anyhow::Result<ExitCode> {
 /// add everything to the project's queue; returns the summary and the queue file.
 pub fn add_sources(project: Project, sources: &Sources, guess: bool) -> anyhow::Result<(queue::AddSummary, PathBuf)> {
     let queue_path = project.queue.clone();
+    let _lock = super::lock_project(&project, "queue add")?;
     let workspace = Workspace::open(project)?;
     let bar = super::progress_bar(0, "guessing");
     let (summary, warnings) = queue::add_sources(&workspace, sources, guess, &mut |done, total| {

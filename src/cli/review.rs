@@ -38,6 +38,9 @@ pub fn open_review(project: Project, reviewer: Option<String>) -> anyhow::Result
         std::io::stdout().is_terminal(),
         "the review screen needs a terminal; use `orthoepy queue list` to see the queue from a script"
     );
+    // The screen appends to the journal and writes guesses back to the queue: one writer at a
+    // time, held until the screen has closed and the queue is saved.
+    let lock = super::lock_project(&project, "review")?;
     let files = ReviewFiles::open(&project)?;
     for w in &files.warnings {
         eprintln!("warning: {w}");
@@ -63,6 +66,7 @@ pub fn open_review(project: Project, reviewer: Option<String>) -> anyhow::Result
     let app = tui::run(app, services).context("the review screen failed")?;
     let guessed = app.keys.iter().map(String::as_str).zip(app.items.iter().map(|i| i.candidates.as_slice()));
     save_guessed(&project.queue, guessed).context("cannot save guessed candidates to the queue")?;
+    drop(lock);
     let pending = app.ledger.unapplied().len();
     println!(
         "{pending} decision(s) in {} waiting to be merged; run `orthoepy apply --project {}`",

@@ -254,13 +254,18 @@ impl Lexicon {
     }
 
     /// Saves to the file it was loaded from: atomically, keeping one `.bak`, and only if the file
-    /// still holds what was loaded.
+    /// still holds what was loaded. The comparison is made after the new content is written and
+    /// synced, right before the backup and the rename (see [`safe_io::replace_if_unchanged`]), so
+    /// an edit someone makes while the lexicon is being saved is refused, not lost.
     pub fn save(&mut self) -> Result<(), LexiconError> {
         let origin = self.origin.clone().ok_or(LexiconError::NoPath)?;
-        if !self.unchanged_on_disk()? {
-            return Err(LexiconError::ChangedOnDisk { path: origin.path });
-        }
-        self.write_to(&origin.path, origin.had_bom)
+        let bytes = self.to_csv_bytes();
+        safe_io::replace_if_unchanged(&origin.path, &bytes, origin.fingerprint, true).map_err(|err| match err {
+            safe_io::WriteError::Changed => LexiconError::ChangedOnDisk { path: origin.path.clone() },
+            safe_io::WriteError::Io(reason) => LexiconError::Io { path: origin.path.clone(), reason },
+        })?;
+        self.origin = Some(Origin { fingerprint: Fingerprint::of(&bytes), ..origin });
+        Ok(())
     }
 
     /// Saves to `path` (atomically, with a `.bak` if it exists) and makes it this lexicon's file.
@@ -558,6 +563,32 @@ mod tests {
         lexicon.push(crate::lexicon::Entry::new("ferry", "F EH1 R IY0"));
         assert!(matches!(lexicon.save(), Err(LexiconError::ChangedOnDisk { .. })));
         assert_eq!(std::fs::read_to_string(&path).unwrap(), theirs);
+    }
+
+    #[test]
+    fn edit_made_while_saving_is_refused_and_kept_in_the_file() {
+        // The race of issue 16: someone edits the lexicon after the save began. The edit must
+        // survive in the lexicon (or its .bak); here it is refused and stays in the lexicon.
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("lexicon.csv");
+        std::fs::write(&path, format!("{HEADER}quay,K IY1,accepted,,,\n")).unwrap();
+        let mut lexicon = Lexicon::load(&path, HeadwordPolicy::default()).unwrap();
+        lexicon.push(crate::lexicon::Entry::new("ferry", "F EH1 R IY0"));
+        let theirs = format!("{HEADER}pier,P IH1 R,accepted,,,\nquay,K IY1,accepted,,,\n");
+        let (target, edit) = (path.clone(), theirs.clone());
+        let result = crate::safe_io::with_hook(
+            move |stage| {
+                if stage == crate::safe_io::HookStage::TempSynced {
+                    std::fs::write(&target, &edit).unwrap();
+                }
+            },
+            || lexicon.save(),
+        );
+        assert!(matches!(result, Err(LexiconError::ChangedOnDisk { .. })), "{result:?}");
+        assert_eq!(std::fs::read_to_string(&path).unwrap(), theirs);
+        assert!(!crate::safe_io::backup_path(&path).exists());
+        let left: Vec<_> = std::fs::read_dir(dir.path()).unwrap().map(|e| e.unwrap().file_name()).collect();
+        assert_eq!(left.len(), 1, "no temporary file is left: {left:?}");
     }
 
     #[test]

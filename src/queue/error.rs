@@ -7,9 +7,13 @@ use super::fileio::LineError;
 use crate::support::located::{origin_of, Located, Position};
 use crate::support::read::ReadError;
 
-/// Everything that can go wrong reading or writing a queue or a journal, or applying decisions.
+/// Everything that can go wrong reading or writing a queue, or applying decisions (the journal
+/// has its own [`JournalError`](super::JournalError)).
 #[derive(Debug, thiserror::Error)]
 pub enum QueueError {
+    /// The journal could not be read or written, or is damaged.
+    #[error(transparent)]
+    Journal(#[from] super::journal::JournalError),
     /// The file could not be read, or is larger than its limit
     /// ([`MAX_QUEUE`](super::MAX_QUEUE), [`MAX_JOURNAL`](super::MAX_JOURNAL)).
     #[error(transparent)]
@@ -46,7 +50,7 @@ impl QueueError {
                 path,
                 line,
                 0,
-                format!("line longer than {} bytes; this is not a queue or journal file", super::fileio::MAX_LINE),
+                format!("line longer than {} bytes; this is not a queue file", super::fileio::MAX_LINE),
             ),
             LineError::NotUtf8(line) => {
                 QueueError::parse(path, line, 0, "not valid UTF-8; save the file as UTF-8".into())

@@ -1,5 +1,6 @@
-//! Reading queue and journal files line by line with a length cap, so a hostile file cannot make
-//! us allocate without bound. Writing goes through [`crate::safe_io`].
+//! Reading queue files line by line with a length cap, so a hostile file cannot make us allocate
+//! without bound (the journal scans its bytes itself, as it must tell torn lines from damaged
+//! ones). Writing goes through [`crate::safe_io`].
 //!
 //! Owns no format; callers decide what a line means.
 
@@ -22,10 +23,6 @@ pub struct RawLine {
     pub number: usize,
     /// The text without its line ending.
     pub text: String,
-    /// Byte offset just past this line (including its newline, if any).
-    pub end: u64,
-    /// Whether the line ended with a newline (a last line without one may be torn).
-    pub terminated: bool,
 }
 
 /// Why a line could not be read.
@@ -43,7 +40,6 @@ pub enum LineError {
 pub fn read_lines(reader: impl Read) -> Result<Vec<RawLine>, LineError> {
     let mut reader = io::BufReader::new(reader);
     let mut out = Vec::new();
-    let mut offset = 0u64;
     loop {
         let mut buf = Vec::new();
         let n = (&mut reader)
@@ -58,7 +54,6 @@ pub fn read_lines(reader: impl Read) -> Result<Vec<RawLine>, LineError> {
         if !terminated && buf.len() > MAX_LINE {
             return Err(LineError::TooLong(number));
         }
-        offset += n as u64;
         if terminated {
             buf.pop();
             if buf.last() == Some(&b'\r') {
@@ -66,7 +61,7 @@ pub fn read_lines(reader: impl Read) -> Result<Vec<RawLine>, LineError> {
             }
         }
         let text = String::from_utf8(buf).map_err(|_| LineError::NotUtf8(number))?;
-        out.push(RawLine { number, text, end: offset, terminated });
+        out.push(RawLine { number, text });
     }
 }
 
@@ -75,12 +70,12 @@ mod tests {
     use super::*;
 
     #[test]
-    fn lines_report_termination_and_offsets() {
+    fn lines_lose_their_endings_and_are_numbered() {
         let lines = read_lines("a\r\nbc\nd".as_bytes()).unwrap();
         assert_eq!(lines.len(), 3);
         assert_eq!(lines[0].text, "a");
-        assert_eq!(lines[1].end, 6);
-        assert!(!lines[2].terminated);
+        assert_eq!((lines[1].number, lines[1].text.as_str()), (2, "bc"));
+        assert_eq!(lines[2].text, "d");
     }
 
     #[test]

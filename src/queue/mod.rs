@@ -1,7 +1,7 @@
 //! The review queue: items waiting for a person, the candidates on offer for each, the
 //! decisions people make, the append-only journal those decisions go to, intake from every
 //! source (word lists, running text, variant proposals, audit findings), and merging decided
-//! items into the lexicon in a crash-safe order.
+//! items into the lexicon in a crash-safe order; checking and repairing a damaged journal.
 //!
 //! This module draws nothing. It gets candidates only from the project's one guesser
 //! ([`Workspace`](crate::workspace::Workspace)) and from the variant generator, and the review
@@ -18,6 +18,7 @@ mod ledger;
 mod project_files;
 mod sources;
 mod state;
+mod recovery;
 mod store;
 mod tokenise;
 
@@ -32,7 +33,10 @@ pub use state::ItemState;
 pub use fileio::{MAX_JOURNAL, MAX_QUEUE};
 pub use intake::{items_from_corpus, items_from_word_list, MAX_INTAKE_TEXT, MAX_WORD_CHARS};
 pub use item::{sort_candidates, AlignPair, Candidate, Item, ItemKind};
-pub use journal::{Action, Decision, Journal, JournalWarning, Logged, Record};
+pub use journal::{
+    Action, Decision, Journal, JournalError, JournalProblem, JournalWarning, Logged, ProblemKind, Record, MAX_JOURNAL_BYTES,
+};
 pub use ledger::Ledger;
+pub use recovery::{check_journal, repair_journal, DamagedTail, JournalReport, Repaired};
 pub use store::{Added, Queue, QUEUE_FORMAT};
 pub use tokenise::{count_unknown, tokens, Apostrophe, Case, Counted, Digits, Hyphen, TokenRule, MAX_CONTEXT};

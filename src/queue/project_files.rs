@@ -27,9 +27,12 @@ pub enum ProjectQueueError {
     /// The lexicon could not be loaded or saved.
     #[error(transparent)]
     Lexicon(#[from] LexiconError),
-    /// The queue or journal could not be read or written.
+    /// The queue could not be read or written.
     #[error(transparent)]
     Queue(#[from] QueueError),
+    /// The journal could not be read or written, or is damaged.
+    #[error(transparent)]
+    Journal(#[from] super::journal::JournalError),
 }
 
 /// The queue of a project with its journal open and replayed.
@@ -45,7 +48,7 @@ pub struct ReviewFiles {
 }
 
 impl ReviewFiles {
-    /// Opens the project's queue and journal.
+    /// Opens the project's queue and journal for writing (the caller holds the project lock).
     pub fn open(project: &Project) -> Result<ReviewFiles, QueueError> {
         let queue = Queue::load(&project.queue)?;
         let (journal, warnings) = Journal::open(&project.journal)?;
@@ -119,12 +122,21 @@ pub struct ApplyRun {
 }
 
 /// Merges the journal's unapplied decisions into the project's lexicon in the crash-safe order
-/// (see the module docs).
+/// (see the module docs). Unless it is a dry run, the caller holds the project lock
+/// ([`ProjectLock`](crate::lock::ProjectLock)).
 pub fn apply_project(project: &Project, options: ApplyOptions) -> Result<ApplyRun, ProjectQueueError> {
     let mut lexicon = Lexicon::load(&project.lexicon, project.headword_policy())?;
     let queue = Queue::load(&project.queue)?;
-    let (mut journal, warnings) = Journal::open(&project.journal)?;
-    let ledger = Ledger::replay(journal.records());
+    // A dry run only reads the journal; a real run opens it for writing (which keeps a torn
+    // last line aside), so the caller must hold the project lock.
+    let (journal, ledger, warnings) = if options.dry_run {
+        let (records, warnings) = Journal::read(&project.journal)?;
+        (None, Ledger::replay(&records), warnings)
+    } else {
+        let (journal, warnings) = Journal::open(&project.journal)?;
+        let ledger = Ledger::replay(journal.records());
+        (Some(journal), ledger, warnings)
+    };
     let report = apply_decisions(&mut lexicon, &queue, &ledger);
     let merged = report.outcomes.iter().filter(|o| matches!(o, Outcome::Added { .. } | Outcome::Replaced { .. })).count();
     let mut run = ApplyRun { report, status: ApplyStatus::DryRun, merged, reopened: 0, warnings };
@@ -132,9 +144,9 @@ pub fn apply_project(project: &Project, options: ApplyOptions) -> Result<ApplyRu
         run.status = ApplyStatus::Refused;
         return Ok(run);
     }
-    if options.dry_run {
+    let Some(mut journal) = journal else {
         return Ok(run);
-    }
+    };
     if run.report.changed() {
         lexicon.save()?;
     }
