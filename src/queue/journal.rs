@@ -179,10 +179,24 @@ impl Journal {
     /// Read a journal without opening it for writing; a missing file has no records.
     pub fn read(path: &Path) -> Result<(Vec<Logged>, Vec<JournalWarning>), QueueError> {
         match std::fs::read(path) {
-            Ok(bytes) => parse(path, &bytes).map(|(r, w, _)| (r, w)),
+            Ok(bytes) => Journal::read_bytes(&bytes, path),
             Err(e) if e.kind() == std::io::ErrorKind::NotFound => Ok((Vec::new(), Vec::new())),
             Err(e) => Err(QueueError::io(path, e)),
         }
+    }
+
+    /// Parse journal bytes as [`Journal::read`] does; `path` names the file in errors and warnings.
+    ///
+    /// ```
+    /// use orthoepy::queue::Journal;
+    /// let path = std::path::Path::new("journal.jsonl");
+    /// let (records, warnings) = Journal::read_bytes(b"", path).unwrap();
+    /// assert!(records.is_empty() && warnings.is_empty());
+    /// // A damaged line before the last one refuses the whole journal.
+    /// assert!(Journal::read_bytes(b"{\"seq\":1}\n{\"seq\":2}\n", path).is_err());
+    /// ```
+    pub fn read_bytes(bytes: &[u8], path: &Path) -> Result<(Vec<Logged>, Vec<JournalWarning>), QueueError> {
+        parse(path, bytes).map(|(r, w, _)| (r, w))
     }
 
     /// Open (or create) a journal for appending. A torn last line is reported in the warnings
