@@ -1,6 +1,6 @@
 //! Plain-text lexicon import (`read_plain`) on arbitrary bytes: it never panics, every line is
 //! accounted for (an entry or a rejection, never both), and the build lexicon written from what
-//! it read reads back to the same build lexicon (writing is a fixed point after one pass).
+//! it read reads back, with no line rejected, to entries that write the same build lexicon.
 #![no_main]
 
 use libfuzzer_sys::fuzz_target;
@@ -22,9 +22,12 @@ fuzz_target!(|data: &[u8]| {
     ] {
         let first = write_plain(&import.entries, &policy, &options);
         let again = read_plain(first.text.as_bytes(), "fuzz");
-        assert!(again.rejected.is_empty(), "the written build lexicon has lines it cannot read: {:?}", again.rejected);
-        assert_eq!(again.entries.len(), first.lines);
-        let second = write_plain(&again.entries, &policy, &options);
-        assert_eq!(first, second, "build lexicon changed on a second pass");
+        assert!(again.rejected.is_empty(), "the written build lexicon has lines it cannot read ({options:?}): {:?}", again.rejected);
+        assert_eq!(again.entries.len(), first.lines, "{options:?}");
+        // The second pass does not strip again: a token such as `A11` is the symbol `A1` with a
+        // stress mark, and its stripped form `A1` is a symbol of its own (the writer does not
+        // validate phones). What must hold is that the written text reads back to itself.
+        let second = write_plain(&again.entries, &policy, &PlainExport { strip_stress: false, ..options.clone() });
+        assert_eq!(first, second, "build lexicon changed on a second pass ({options:?})");
     }
 });
