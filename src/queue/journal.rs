@@ -305,6 +305,28 @@ mod tests {
     }
 
     #[test]
+    fn a_score_survives_the_checksum_on_reading() {
+        // Found by tests/properties.rs: this score did not parse back to the same f64 with
+        // serde_json's default float parsing, so the recomputed checksum differed and a
+        // complete decision was reported as a torn write. serde_json's `float_roundtrip`
+        // feature parses exactly (the shortest representation round-trips, as IEEE 754-2008
+        // section 5.12.2 requires of a conversion that preserves the value).
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("j.jsonl");
+        let record = Record::Decide(Decision {
+            item: "new:a".into(),
+            word: "a".into(),
+            action: Action::Accept { pronunciation: "AA0".into(), source: String::new(), score: Some(0.36103247852200876), edited: false },
+            note: String::new(),
+        });
+        let (mut j, _) = Journal::open(&path).unwrap();
+        j.append(record.clone()).unwrap();
+        let (records, warnings) = Journal::read(&path).unwrap();
+        assert!(warnings.is_empty(), "{warnings:?}");
+        assert_eq!(records, vec![Logged { seq: 1, record }]);
+    }
+
+    #[test]
     fn checksum_matches_crc32_of_body() {
         // CRC-32/ISO-HDLC check value for "123456789" is 0xCBF43926 (Williams, "A painless
         // guide to CRC error detection algorithms", 1993): confirms the polynomial we document.
