@@ -192,6 +192,19 @@ mod tests {
     use crate::queue::Candidate;
 
     #[test]
+    fn a_candidate_score_survives_write_and_read() {
+        // Found by the `queue_file` fuzz target: 1.1076693999740562 read back as
+        // 1.1076693999740561 with serde_json's default float parsing, so every save moved the
+        // score; the `float_roundtrip` feature parses exactly.
+        let path = Path::new("q.jsonl");
+        let text = include_bytes!("../../fuzz/regressions/queue_file/float-score.jsonl");
+        let first = Queue::parse(text, path).unwrap();
+        assert_eq!(first.items()[0].candidates[0].score, Some(1.1076693999740562));
+        let again = Queue::parse(&first.to_bytes().unwrap(), path).unwrap();
+        assert_eq!(first.items(), again.items());
+    }
+
+    #[test]
     fn adding_twice_merges_and_survives_reload() {
         let dir = tempfile::tempdir().unwrap();
         let path = dir.path().join("q.jsonl");
