@@ -325,8 +325,12 @@ fn records() -> impl Strategy<Value = Vec<Record>> {
     })
 }
 
+/// Applied mark, last sequence number, pending decisions, and per item: the decision in force
+/// and whether it is applied.
+type LedgerState = (u64, u64, Vec<(u64, Decision)>, Vec<(String, Option<(u64, Decision)>, bool)>);
+
 /// The observable state of a ledger over the items of `records`.
-fn ledger_state(ledger: &Ledger, records: &[Logged]) -> (u64, u64, Vec<(u64, Decision)>, Vec<(String, Option<(u64, Decision)>, bool)>) {
+fn ledger_state(ledger: &Ledger, records: &[Logged]) -> LedgerState {
     let unapplied = ledger.unapplied().into_iter().map(|(s, d)| (s, d.clone())).collect();
     let mut items: Vec<String> = records
         .iter()
