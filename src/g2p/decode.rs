@@ -315,8 +315,14 @@ impl Model {
                 }
             }
         }
-        let total = finals.values().fold(f64::NEG_INFINITY, |acc, f| log_add(acc, f.0));
-        let mut out: Vec<Hypothesis> = finals.into_values().map(|(score, _, node)| self.backtrack(&nodes, letters, node, score, total)).collect();
+        // Normalised relative to the best score in the linear domain: `best + ln(sum)` in log
+        // space loses the sum next to a huge |best| (a model with log-probabilities near -1e37
+        // gave every hypothesis posterior 1; found by the `model_file` fuzz target).
+        let best = finals.values().fold(f64::NEG_INFINITY, |acc, f| acc.max(f.0));
+        let sum: f64 = finals.values().map(|f| (f.0 - best).exp()).sum();
+        let posterior = |score: f64| if sum > 0.0 { (score - best).exp() / sum } else { 0.0 };
+        let mut out: Vec<Hypothesis> =
+            finals.into_values().map(|(score, _, node)| self.backtrack(&nodes, letters, node, score, posterior(score))).collect();
         out.sort_by(|a, b| b.log_prob.total_cmp(&a.log_prob));
         out
     }
@@ -339,7 +345,7 @@ impl Model {
         (node, phones.iter().fold(p.phone_hash, |h, &ph| extend_hash(h, ph)))
     }
 
-    fn backtrack(&self, nodes: &[Node], letters: &[String], mut node: u32, score: f64, total: f64) -> Hypothesis {
+    fn backtrack(&self, nodes: &[Node], letters: &[String], mut node: u32, score: f64, posterior: f64) -> Hypothesis {
         let mut pieces = Vec::new();
         while let Some(n) = nodes.get(node as usize).filter(|n| n.parent != NONE) {
             let (count, phones) = match self.inventory.get(n.graphone) {
@@ -353,6 +359,6 @@ impl Model {
         }
         pieces.reverse();
         let phones = pieces.iter().flat_map(|p| p.phones.iter().cloned()).collect();
-        Hypothesis { phones, log_prob: score, posterior: (score - total).exp(), alignment: pieces }
+        Hypothesis { phones, log_prob: score, posterior, alignment: pieces }
     }
 }

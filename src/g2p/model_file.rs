@@ -340,3 +340,26 @@ fn decode_payload(r: &mut Reader<'_>, version: u16) -> Result<Model, ModelFileEr
     }
     Ok(Model::new(symbols, phoneset_id, letters, phones, inventory, ngram))
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn extreme_log_probabilities_still_give_posteriors_summing_to_at_most_one() {
+        // Found by the `model_file` fuzz target: a file with log-probabilities near -1e37 gave
+        // three hypotheses with posterior 1 each; the decoder now normalises in the linear
+        // domain relative to the best score.
+        let bytes = include_bytes!("../../fuzz/regressions/model_file/posteriors-sum-to-3.g2p");
+        let model = Model::from_bytes(bytes).unwrap();
+        let guess = model.guess("harbour", 3);
+        assert_eq!(guess.hypotheses.len(), 3);
+        let total: f64 = guess.hypotheses.iter().map(|h| h.posterior).sum();
+        assert!(total <= 1.0 + 1e-9, "{total}");
+    }
+
+    #[test]
+    fn the_format_1_fixture_still_loads() {
+        assert!(Model::from_bytes(include_bytes!("../../tests/fixtures/g2p-model-format-1.g2p")).is_ok());
+    }
+}

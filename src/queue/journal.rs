@@ -438,7 +438,21 @@ impl Journal {
     /// is an error.
     pub fn read(path: &Path) -> Result<(Vec<Logged>, Vec<JournalWarning>), JournalError> {
         let Some(bytes) = read_journal(path)? else { return Ok((Vec::new(), Vec::new())) };
-        let scan = scan(path, &bytes)?;
+        Journal::read_bytes(&bytes, path)
+    }
+
+    /// Parses journal bytes as [`Journal::read`] does; `path` names the file in errors and warnings.
+    ///
+    /// ```
+    /// use orthoepy::queue::Journal;
+    /// let path = std::path::Path::new("journal.jsonl");
+    /// let (records, warnings) = Journal::read_bytes(b"", path).unwrap();
+    /// assert!(records.is_empty() && warnings.is_empty());
+    /// // A damaged complete line refuses the whole journal.
+    /// assert!(Journal::read_bytes(b"{\"seq\":1}\n{\"seq\":2}\n", path).is_err());
+    /// ```
+    pub fn read_bytes(bytes: &[u8], path: &Path) -> Result<(Vec<Logged>, Vec<JournalWarning>), JournalError> {
+        let scan = scan(path, bytes)?;
         let warnings = match scan.problems.first() {
             None => Vec::new(),
             Some(p) if p.kind == ProblemKind::Damaged => return Err(damaged(path, p)),
@@ -762,6 +776,28 @@ mod tests {
         // Sparse: takes no disk space and must not be read.
         std::fs::File::create(&path).unwrap().set_len(MAX_JOURNAL_BYTES + 1).unwrap();
         assert!(matches!(Journal::open(&path), Err(JournalError::TooLarge { .. })));
+    }
+
+    #[test]
+    fn a_score_survives_the_checksum_on_reading() {
+        // Found by tests/properties.rs: this score did not parse back to the same f64 with
+        // serde_json's default float parsing, so the recomputed checksum differed and a
+        // complete decision was reported as a torn write. serde_json's `float_roundtrip`
+        // feature parses exactly (the shortest representation round-trips, as IEEE 754-2008
+        // section 5.12.2 requires of a conversion that preserves the value).
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("j.jsonl");
+        let record = Record::Decide(Decision {
+            item: "new:a".into(),
+            word: "a".into(),
+            action: Action::Accept { pronunciation: "AA0".into(), source: String::new(), score: Some(0.36103247852200876), edited: false },
+            note: String::new(),
+        });
+        let (mut j, _) = Journal::open(&path).unwrap();
+        j.append(record.clone()).unwrap();
+        let (records, warnings) = Journal::read(&path).unwrap();
+        assert!(warnings.is_empty(), "{warnings:?}");
+        assert_eq!(records, vec![Logged { seq: 1, record }]);
     }
 
     #[test]

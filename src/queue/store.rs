@@ -58,13 +58,33 @@ impl Queue {
     /// assert_eq!(Queue::load(&path).unwrap().items().len(), 1);
     /// ```
     pub fn load(path: &Path) -> Result<Queue, QueueError> {
-        let mut queue = Queue { path: Some(path.to_path_buf()), ..Queue::default() };
         let bytes = match read_capped(path, MAX_QUEUE) {
             Ok(bytes) => bytes,
-            Err(e) if e.is_not_found() => return Ok(queue),
+            Err(e) if e.is_not_found() => return Ok(Queue { path: Some(path.to_path_buf()), ..Queue::default() }),
             Err(e) => return Err(e.into()),
         };
-        let lines = read_lines(bytes.as_slice()).map_err(|e| QueueError::from_lines(path, e))?;
+        Queue::from_reader(bytes.as_slice(), path)
+    }
+
+    /// Parse queue file bytes; the queue is bound to `path`, which also names the file in errors.
+    /// Empty input is an empty queue, as a missing file is for [`Queue::load`].
+    ///
+    /// ```
+    /// use orthoepy::queue::{Item, Queue};
+    /// let path = std::path::Path::new("queue.jsonl");
+    /// let mut q = Queue::new();
+    /// q.add(Item::new_word("Saltmarsh"));
+    /// let again = Queue::parse(&q.to_bytes().unwrap(), path).unwrap();
+    /// assert_eq!(again.items(), q.items());
+    /// assert!(Queue::parse(b"{\"orthoepy_queue\":9}\n", path).is_err());
+    /// ```
+    pub fn parse(bytes: &[u8], path: &Path) -> Result<Queue, QueueError> {
+        Queue::from_reader(bytes, path)
+    }
+
+    fn from_reader(reader: impl std::io::Read, path: &Path) -> Result<Queue, QueueError> {
+        let mut queue = Queue { path: Some(path.to_path_buf()), ..Queue::default() };
+        let lines = read_lines(reader).map_err(|e| QueueError::from_lines(path, e))?;
         for raw in lines.iter().filter(|l| !l.text.trim().is_empty()) {
             if raw.number == 1 {
                 let header: Header = serde_json::from_str(&raw.text).map_err(|e| {
@@ -147,16 +167,21 @@ impl Queue {
         }
     }
 
-    /// Write the queue to `path`, atomically.
-    pub fn save_as(&self, path: &Path) -> Result<(), QueueError> {
-        let mut text = serde_json::to_string(&Header { orthoepy_queue: QUEUE_FORMAT })
-            .map_err(|e| QueueError::io(path, e.into()))?;
+    /// The bytes [`save_as`](Self::save_as) writes: the header line, then one JSON item per line.
+    pub fn to_bytes(&self) -> Result<Vec<u8>, serde_json::Error> {
+        let mut text = serde_json::to_string(&Header { orthoepy_queue: QUEUE_FORMAT })?;
         text.push('\n');
         for item in &self.items {
-            text.push_str(&serde_json::to_string(item).map_err(|e| QueueError::io(path, e.into()))?);
+            text.push_str(&serde_json::to_string(item)?);
             text.push('\n');
         }
-        atomic_write(path, text.as_bytes(), false).map_err(|e| QueueError::io(path, e))
+        Ok(text.into_bytes())
+    }
+
+    /// Write the queue to `path`, atomically.
+    pub fn save_as(&self, path: &Path) -> Result<(), QueueError> {
+        let bytes = self.to_bytes().map_err(|e| QueueError::io(path, e.into()))?;
+        atomic_write(path, &bytes, false).map_err(|e| QueueError::io(path, e))
     }
 }
 
@@ -164,6 +189,19 @@ impl Queue {
 mod tests {
     use super::*;
     use crate::queue::Candidate;
+
+    #[test]
+    fn a_candidate_score_survives_write_and_read() {
+        // Found by the `queue_file` fuzz target: 1.1076693999740562 read back as
+        // 1.1076693999740561 with serde_json's default float parsing, so every save moved the
+        // score; the `float_roundtrip` feature parses exactly.
+        let path = Path::new("q.jsonl");
+        let text = include_bytes!("../../fuzz/regressions/queue_file/float-score.jsonl");
+        let first = Queue::parse(text, path).unwrap();
+        assert_eq!(first.items()[0].candidates[0].score, Some(1.1076693999740562));
+        let again = Queue::parse(&first.to_bytes().unwrap(), path).unwrap();
+        assert_eq!(first.items(), again.items());
+    }
 
     #[test]
     fn adding_twice_merges_and_survives_reload() {

@@ -48,7 +48,7 @@ struct RawConfig {
     phoneset: Spanned<String>,
     letter_to_sound: Option<String>,
     vowel_letters: String,
-    scores: Scores,
+    scores: Spanned<Scores>,
     letter_names: BTreeMap<String, Spanned<String>>,
     compound: CompoundLimits,
     #[serde(default)]
@@ -184,6 +184,23 @@ impl LanguageConfig {
                 format!("written for phoneset `{}`, loaded with `{}`", raw.phoneset.get_ref(), phoneset.id()),
             ));
         }
+        let sc = raw.scores.get_ref();
+        for (name, value) in [
+            ("initialism", sc.initialism),
+            ("vowelless", sc.vowelless),
+            ("derivation", sc.derivation),
+            ("compound", sc.compound),
+            ("alternative", sc.alternative),
+            ("rules", sc.rules),
+            ("model", sc.model),
+        ] {
+            if !(0.0..=1.0).contains(&value) {
+                return Err(at(
+                    raw.scores.span().start,
+                    format!("[scores] {name} = {value} is not a probability; write a value between 0 and 1"),
+                ));
+            }
+        }
         let pronunciation = |value: &Spanned<String>| {
             phoneset.parse(value.get_ref()).map_err(|e| at(value.span().start, format!("`{}`: {e}", value.get_ref())))
         };
@@ -221,10 +238,44 @@ impl LanguageConfig {
             language: raw.language,
             letter_to_sound: raw.letter_to_sound,
             vowel_letters: raw.vowel_letters.chars().collect(),
-            scores: raw.scores,
+            scores: raw.scores.into_inner(),
             letter_names,
             compound: raw.compound,
             suffixes,
         })
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_score_outside_zero_to_one_is_refused_with_its_place() {
+        // Found by the `lang_config` fuzz target: `[scores]` values above 1 were accepted and
+        // the hybrid guesser then gave candidates scores above 1, off the documented 0..=1 scale.
+        let set = Phoneset::shipped("en-arpa").unwrap();
+        let text = shipped_text("en").unwrap();
+        assert!(LanguageConfig::parse(text, "en.toml", &set).is_ok());
+        let line = text.lines().position(|l| l.trim_start().starts_with("initialism")).unwrap();
+        let bad: String = text
+            .lines()
+            .enumerate()
+            .map(|(i, l)| if i == line { "initialism = 1.9\n".to_string() } else { format!("{l}\n") })
+            .collect();
+        let err = LanguageConfig::parse(&bad, "en.toml", &set).unwrap_err().to_string();
+        assert!(err.contains("initialism = 1.9 is not a probability"), "{err}");
+        let scores_line = text.lines().position(|l| l.trim() == "[scores]").unwrap() + 1;
+        assert!(err.starts_with(&format!("en.toml:{scores_line}:")), "{err}");
+        let negative = bad.replace("initialism = 1.9", "initialism = -0.1");
+        assert!(LanguageConfig::parse(&negative, "en.toml", &set).is_err());
+    }
+
+    #[test]
+    fn the_fuzz_reproducer_is_refused() {
+        let set = Phoneset::shipped("en-arpa").unwrap();
+        let text = include_str!("../../../fuzz/regressions/lang_config/score-above-one.toml");
+        let err = LanguageConfig::parse(text, "fuzz.toml", &set).unwrap_err().to_string();
+        assert!(err.contains("is not a probability"), "{err}");
     }
 }

@@ -1,0 +1,33 @@
+<?xml version="1.0" encoding="UTF-8"?>
+<lexicon version="1.0" xmlns="http://www.w3.org/2005/01/pronunciation-lexicon" alphabet="ipa" xml:lang="en-US">
+  <lexeme><grapheme>a</grapheme><phoneme>ʌ</phoneme><phoneme>ˈeɪ</phoneme></lexeme>
+  <lexeme><grapheme>about</grapheme><phoneme>ʌˈbaʊt</phoneme></lexeme>
+  <lexeme><grapheme>access</grapheme><phoneme>ˈækˌsɛs</phoneme></lexeme>
+  <lexeme><grapheme>adult</grapheme><phoneme>ʌˈdʌlt</phoneme><phoneme>ˈædʌlt</phoneme></lexeme>
+  <lexeme><grapheme>adults</grapheme><phoneme>ʌˈdʌlts</phoneme><phoneme>ˈædʌlts</phoneme></lexeme>
+  <lexeme><grapheme>after</grapheme><phoneme>ˈæftɝ</phoneme></lexeme>
+  <lexeme><grapheme>afternoon</grapheme><phoneme>ˌæftɝˈnun</phoneme></lexeme>
+  <lexeme><grapheme>again</grapheme><phoneme>ʌˈɡɛn</phoneme><phoneme>ʌˈɡeɪn</phoneme></lexeme>
+  <lexeme><grapheme>all</grapheme><phoneme>ˈɔl</phoneme></lexeme>
+  <lexeme><grapheme>also</grapheme><phoneme>ˈɔlsoʊ</phoneme></lexeme>
+  <lexeme><grapheme>am</grapheme><phoneme>ˈæm</phoneme><phoneme>ˈeɪˈɛm</phoneme></lexeme>
+  <lexeme><grapheme>an</grapheme><phoneme>ˈæn</phoneme><phoneme>ʌn</phoneme></lexeme>
+  <lexeme><grapheme>and</grapheme><phoneme>ʌnd</phoneme><phoneme>ˈænd</phoneme></lexeme>
+  <lexeme><grapheme>annual</grapheme><phoneme>ˈænjuʌl</phoneme></lexeme>
+  <lexeme><grapheme>any</grapheme><phoneme>ˈɛni</phoneme></lexeme>
+  <lexeme><grapheme>app</grapheme><phoneme>ˈæp</phoneme></lexeme>
+  <lexeme><grapheme>are</grapheme><phoneme>ˈɑɹ</phoneme><phoneme>ɝ</phoneme></lexeme>
+  <lexeme><grapheme>arrival</grapheme><phoneme>ɝˈaɪvʌl</phoneme></lexeme>
+  <lexeme><grapheme>arrive</grapheme><phoneme>ɝˈaɪv</phoneme></lexeme>
+  <lexeme><grapheme>arrives</grapheme><phoneme>ɝˈaɪvz</phoneme></lexeme>
+  <lexeme><grapheme>assistance</grapheme><phoneme>ʌˈsɪstʌns</phoneme></lexeme>
+  <lexeme><grapheme>at</grapheme><phoneme>ˈæt</phoneme></lexeme>
+  <lexeme><grapheme>available</grapheme><phoneme>ʌˈveɪlʌbʌl</phoneme></lexeme>
+  <lexeme><grapheme>back</grapheme><phoneme>ˈbæk</phoneme></lexeme>
+  <lexeme><grapheme>bag</grapheme><phoneme>ˈbæɡ</phoneme></lexeme>
+  <lexeme><grapheme>bags</grapheme><phoneme>ˈbæɡz</phoneme></lexeme>
+  <lexeme><grapheme>bay</grapheme><phoneme>ˈbeɪ</phoneme></lexeme>
+  <lexeme><grapheme>be</grapheme><phoneme>ˈbi</phoneme><phoneme>bi</phoneme></lexeme>
+  <lexeme><grapheme>beach</grapheme><phoneme>ˈbit͡ʃ</phoneme></lexeme>
+  <lexeme><grapheme>before</grapheme><phoneme>bɪˈfɔɹ</phoneme></lexeme>
+</lexicon>
