@@ -67,21 +67,24 @@ fn main() {
         let dir = tmp.path().join(format!("add-{n}"));
         project(&dir, &store, false);
         std::fs::write(dir.join("words.txt"), words[..n].join("\n")).unwrap();
-        let secs = timed(&["queue", "add", "--words", "words.txt", "--no-guess"], &dir);
+        let list = dir.join("words.txt").display().to_string();
+        let secs = timed(&["queue", "add", "--words", &list, "--no-guess"], &dir);
         let queued = Queue::load(&dir.join("review-queue.jsonl")).unwrap().items().len();
         println!("queue add --words --no-guess  {n:>7} words: {secs:6.2} s  ({queued} queued, {:.1} µs/word)", secs * 1e6 / n as f64);
     }
     let dir = tmp.path().join("guess-10k");
     project(&dir, &store, true);
     std::fs::write(dir.join("words.txt"), words[..10_000].join("\n")).unwrap();
-    let secs = timed(&["queue", "add", "--words", "words.txt"], &dir);
+    let list = dir.join("words.txt").display().to_string();
+    let secs = timed(&["queue", "add", "--words", &list], &dir);
     println!("queue add --words (guessing)    10000 words: {secs:6.2} s  ({:.0} words/s)", 10_000.0 / secs);
 
     // apply: 10,000 accepted new words into the CMUdict store.
     let dir = tmp.path().join("apply-10k");
     project(&dir, &store, false);
     std::fs::write(dir.join("words.txt"), words[..10_000].join("\n")).unwrap();
-    timed(&["queue", "add", "--words", "words.txt", "--no-guess"], &dir);
+    let list = dir.join("words.txt").display().to_string();
+    timed(&["queue", "add", "--words", &list, "--no-guess"], &dir);
     let queue = Queue::load(&dir.join("review-queue.jsonl")).unwrap();
     let (mut journal, _) = Journal::open(&dir.join("review-journal.jsonl")).unwrap();
     for item in queue.items() {

@@ -77,7 +77,7 @@ pub enum WorkspaceError {
 ///
 /// ```
 /// let dir = tempfile::tempdir().unwrap();
-/// std::fs::write(dir.path().join("orthoepy.toml"), "lexicon = \"lexicon.csv\"\nletter_to_sound = \"en\"\n").unwrap();
+/// std::fs::write(dir.path().join("orthoepy.toml"), "lexicon = \"lexicon.csv\"\n").unwrap();
 /// std::fs::write(dir.path().join("lexicon.csv"),
 ///     "word,pronunciation,status,source,score,note\nferry,F EH1 R IY0,imported,demo,,\nboat,B OW1 T,imported,demo,,\n").unwrap();
 /// let project = orthoepy::project::Project::load(dir.path()).unwrap();

@@ -148,7 +148,7 @@ pub fn levenshtein<T: PartialEq>(a: &[T], b: &[T]) -> usize {
 ///
 /// ```
 /// use orthoepy::support::align::closest;
-/// let p = |s: &str| s.split(' ').collect::<Vec<_>>();
+/// fn p(s: &str) -> Vec<&str> { s.split(' ').collect() }
 /// let variants = [p("R AW1 T"), p("R UW1 T S"), p("R UW1 T")];
 /// assert_eq!(closest(&p("R UW1 T"), &variants), Some((2, 0)));
 /// assert_eq!(closest(&p("R UW1"), &variants[..2]), Some((0, 2)));

@@ -143,8 +143,8 @@ impl LetterToSoundRules {
     /// True when `id` names a shipped rule set.
     ///
     /// ```
-    /// use orthoepy::g2p::lts::RuleSet;
-    /// assert!(RuleSet::is_shipped("en") && !RuleSet::is_shipped("rules/mine.toml"));
+    /// use orthoepy::g2p::lts::LetterToSoundRules;
+    /// assert!(LetterToSoundRules::is_shipped("en") && !LetterToSoundRules::is_shipped("rules/mine.toml"));
     /// ```
     pub fn is_shipped(id: &str) -> bool {
         shipped_text(id).is_some()
