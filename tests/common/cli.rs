@@ -22,3 +22,14 @@ pub fn in_project(dir: &Path, args: &[&str]) -> Command {
     cmd.args(args).arg("--project").arg(dir);
     cmd
 }
+
+/// A small project in `dir`: orthoepy.toml (en-arpa, `queue.jsonl`, `journal.jsonl`) and a
+/// lexicon store holding the header and `rows` (CSV lines, each ending in a newline).
+pub fn write_project(dir: &Path, rows: &str) {
+    std::fs::write(
+        dir.join("orthoepy.toml"),
+        "lexicon = \"lexicon.csv\"\nphoneset = \"en-arpa\"\nqueue = \"queue.jsonl\"\njournal = \"journal.jsonl\"\n",
+    )
+    .unwrap();
+    std::fs::write(dir.join("lexicon.csv"), format!("word,pronunciation,status,source,score,note\n{rows}")).unwrap();
+}
