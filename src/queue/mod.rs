@@ -28,7 +28,7 @@ pub use guessing::{candidates_for, fill_candidates, CandidateSource, WorkspaceGu
 pub use project_files::{
     apply_project, list_items, save_guessed, ApplyOptions, ApplyRun, ApplyStatus, ListedItem, ProjectQueueError, ReviewFiles,
 };
-pub use sources::{add_sources, add_to_queue, gather, AddSummary, Corpus, Gathered, IntakeError, Sources, PRONUNCIATION_CHECKS};
+pub use sources::{add_sources, gather, AddSummary, Corpus, Gathered, IntakeError, Sources, PRONUNCIATION_CHECKS};
 pub use state::ItemState;
 pub use fileio::{MAX_JOURNAL, MAX_QUEUE};
 pub use intake::{items_from_corpus, items_from_word_list, MAX_INTAKE_TEXT, MAX_WORD_CHARS};

@@ -3,9 +3,10 @@
 //! pronunciations; then adding the items to the project's queue file.
 //!
 //! [`gather`] reads the named files (size-capped, UTF-8 checked) and turns each source into
-//! [`Item`]s; [`add_to_queue`] merges them into the queue file and saves it atomically. Guessing
-//! candidates for new words is [`fill_candidates`](super::fill_candidates)'s. This file prints
-//! nothing; warnings come back in [`Gathered::warnings`].
+//! [`Item`]s; [`add_sources`] also guesses candidates (through
+//! [`fill_candidates`](super::fill_candidates)) for new words the queue lacks them for, merges
+//! everything into the queue file and saves it atomically. This file prints nothing; warnings
+//! come back in [`Gathered::warnings`].
 
 use std::path::{Path, PathBuf};
 
@@ -82,7 +83,7 @@ pub struct Gathered {
     pub warnings: Vec<String>,
 }
 
-/// What [`add_to_queue`] did.
+/// What [`add_sources`] did.
 #[derive(Debug, Default, Clone, PartialEq, Eq, serde::Serialize)]
 pub struct AddSummary {
     /// Items new to the queue.
@@ -141,12 +142,8 @@ pub fn add_sources(
     Ok((summary, gathered.warnings))
 }
 
-/// Adds items to the queue file at `path` (merging those already queued), keeps the queue in
-/// review order (most frequent first) and saves it atomically.
-pub fn add_to_queue(path: &Path, items: Vec<Item>) -> Result<AddSummary, QueueError> {
-    merge_and_save(&mut Queue::load(path)?, items)
-}
-
+/// Merges items into the queue (those already queued are merged), keeps it in review order
+/// (most frequent first) and saves it atomically.
 fn merge_and_save(queue: &mut Queue, items: Vec<Item>) -> Result<AddSummary, QueueError> {
     let mut summary = AddSummary::default();
     for item in items {
