@@ -152,6 +152,23 @@ pub struct Evaluation {
     pub by_length: Vec<LengthBreakdown>,
     /// Most frequent confusions against the closest reference, most frequent first.
     pub confusions: Vec<Confusion>,
+    /// Every word whose hypothesis matches none of its references (stress as written), in the
+    /// order the words were scored (left out of JSON when empty).
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub errors: Vec<WordError>,
+}
+
+/// One wrongly guessed word.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct WordError {
+    /// The word.
+    pub word: String,
+    /// What the model guessed, phones separated by spaces.
+    pub hypothesis: String,
+    /// Every reference pronunciation of the word.
+    pub references: Vec<String>,
+    /// Phone edits against the closest reference.
+    pub phone_errors: usize,
 }
 
 /// Scores words (see the module docs for the definitions).
@@ -167,6 +184,9 @@ pub struct Evaluation {
 /// assert_eq!(e.stressed.word_errors, 1);
 /// assert_eq!(e.unstressed.word_errors, 0);
 /// assert_eq!(e.stressed.phone_errors, 1);
+/// assert_eq!(e.errors.len(), 1);
+/// assert_eq!(e.errors[0].word, "tomato");
+/// assert_eq!(e.errors[0].references, ["T AH0 M EY1 T OW0"]);
 /// ```
 pub fn score(words: &[Scored]) -> Evaluation {
     let mut eval = Evaluation::default();
@@ -179,6 +199,14 @@ pub fn score(words: &[Scored]) -> Evaluation {
         eval.unstressed.add(&bare(&w.hypothesis), &bare_refs);
         let letters = w.word.nfc().count().min(LENGTH_BUCKETS);
         lengths.entry(letters).or_default().add(&w.hypothesis, &w.references);
+        if !w.references.iter().any(|r| *r == w.hypothesis) {
+            eval.errors.push(WordError {
+                word: w.word.clone(),
+                hypothesis: w.hypothesis.join(" "),
+                references: w.references.iter().map(|r| r.join(" ")).collect(),
+                phone_errors: closest(&w.hypothesis, &w.references).map_or(w.hypothesis.len(), |(_, d)| d),
+            });
+        }
         if let Some((i, _)) = closest(&w.hypothesis, &w.references) {
             for op in align(&w.hypothesis, &w.references[i]) {
                 let key = match op {

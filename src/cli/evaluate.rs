@@ -11,7 +11,9 @@ use std::process::ExitCode;
 /// Score a model on a test store: word and phone error rates with and without stress, a
 /// breakdown by word length, and the most frequent phone confusions.
 ///
-/// Example: orthoepy evaluate model.g2p test.csv --format json
+/// Examples:
+///   orthoepy evaluate model.g2p test.csv --format json
+///   orthoepy evaluate model.g2p test.csv --errors
 #[derive(Debug, clap::Args)]
 #[command(verbatim_doc_comment)]
 pub struct Args {
@@ -22,12 +24,15 @@ pub struct Args {
     /// Output format.
     #[arg(long, value_enum, default_value = "text")]
     format: DataFormat,
+    /// Also list every wrongly guessed word with its references and the guess.
+    #[arg(long)]
+    errors: bool,
     /// Worker threads (default: one per core).
     #[arg(long, value_name = "T", default_value_t = 0)]
     threads: usize,
 }
 
-fn print_text(e: &Evaluation) {
+fn print_text(e: &Evaluation, errors: bool) {
     for (label, r) in [("with stress", &e.stressed), ("without stress", &e.unstressed)] {
         println!("{label:<15} WER {:6.2}%  PER {:6.2}%  ({} words, {} reference phones)", 100.0 * r.wer, 100.0 * r.per, r.words, r.reference_phones);
     }
@@ -40,6 +45,12 @@ fn print_text(e: &Evaluation) {
         let side = |s: &Option<String>| s.clone().unwrap_or_else(|| "—".to_string());
         println!("  {:>6}  {} → {}", c.count, side(&c.reference), side(&c.hypothesis));
     }
+    if errors {
+        println!("\nwrong words ({}; word, phone edits, guess, then the references):", e.errors.len());
+        for w in &e.errors {
+            println!("  {}\t{}\tguess {}\treference {}", w.word, w.phone_errors, w.hypothesis, w.references.join(" | "));
+        }
+    }
 }
 
 /// Runs the command.
@@ -48,10 +59,13 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     let lexicon = Lexicon::load(&args.test, HeadwordPolicy::default()).context("cannot load the test store")?;
     let pairs = training_pairs(lexicon.entries());
     let pool = rayon::ThreadPoolBuilder::new().num_threads(args.threads).build().context("cannot start worker threads")?;
-    let evaluation = pool.install(|| evaluate_model(&model, &pairs));
+    let mut evaluation = pool.install(|| evaluate_model(&model, &pairs));
+    if !args.errors {
+        evaluation.errors.clear();
+    }
     match args.format {
         DataFormat::Json => super::print_json(&evaluation)?,
-        DataFormat::Text => print_text(&evaluation),
+        DataFormat::Text => print_text(&evaluation, args.errors),
     }
     Ok(ExitCode::SUCCESS)
 }

@@ -80,7 +80,7 @@ impl ApplyReport {
     }
 }
 
-/// Merge every decision in force that is not applied yet (set-aside ones stay out) into
+/// Merge every decision in force that is not applied yet (set-aside and removed items stay out) into
 /// `lexicon`. `reviewed` is the source prefix for entries made from accepted candidates.
 ///
 /// ```
@@ -110,7 +110,7 @@ pub fn apply_decisions(lexicon: &mut Lexicon, queue: &Queue, ledger: &Ledger) ->
         by_word.entry(normalize_key(e.word.trim(), &policy).into_owned()).or_default().push(i);
     }
     for (seq, decision) in ledger.unapplied() {
-        if decision.action == Action::SetAside {
+        if matches!(decision.action, Action::SetAside | Action::Remove) {
             continue;
         }
         report.outcomes.push(apply_one(lexicon, &mut by_word, queue, seq, decision));

@@ -43,9 +43,8 @@ pub fn items_from_word_list(text: &str, origin: &str, is_known: impl Fn(&str) ->
             continue;
         }
         let mut item = Item::new_word(word);
-        item.count = 1;
+        item.seen_in(origin, 1);
         item.context = context.to_string();
-        item.origin = origin.to_string();
         match position.get(&item.key()).and_then(|&i| out.get_mut(i)) {
             Some(have) => have.merge(item),
             None => {
@@ -71,9 +70,8 @@ pub fn items_from_corpus(
         .filter(|c| c.count >= min_count)
         .map(|c| {
             let mut item = Item::new_word(&c.word);
-            item.count = c.count;
+            item.seen_in(origin, c.count);
             item.context = c.context;
-            item.origin = origin.to_string();
             item
         })
         .collect()

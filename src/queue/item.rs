@@ -5,6 +5,8 @@
 //! example line) and the [`Candidate`] pronunciations on offer. This file owns only the data model
 //! and the rule for merging two items about the same thing; it does not read files or guess.
 
+use std::collections::BTreeMap;
+
 use serde::{Deserialize, Serialize};
 
 /// Where an item came from, and what accepting one of its candidates means.
@@ -101,9 +103,15 @@ pub struct Item {
     /// What kind of question this is.
     #[serde(flatten)]
     pub kind: ItemKind,
-    /// How often the word was seen in the corpora it came from (0 when it came from a word list).
+    /// How often the word was seen in the corpora it came from (0 when it came from a word list):
+    /// the sum of [`counts`](Item::counts).
     #[serde(default)]
     pub count: u64,
+    /// The count from each origin, so that reading the same file again replaces its count
+    /// instead of adding to it (empty in files written before counts were kept per origin: then
+    /// `count` belongs to `origin`).
+    #[serde(default, skip_serializing_if = "BTreeMap::is_empty")]
+    pub counts: BTreeMap<String, u64>,
     /// One line of running text showing the word in use (may be empty).
     #[serde(default)]
     pub context: String,
@@ -129,10 +137,38 @@ impl Item {
             word: word.to_string(),
             kind: ItemKind::NewWord,
             count: 0,
+            counts: BTreeMap::new(),
             context: String::new(),
             candidates: Vec::new(),
             origin: String::new(),
         }
+    }
+
+    /// Sets the count this item was seen with in `origin` (and makes it the item's origin).
+    ///
+    /// ```
+    /// use orthoepy::queue::Item;
+    /// let mut item = Item::new_word("Kelport");
+    /// item.seen_in("corpus:queries.txt", 4);
+    /// assert_eq!((item.count, item.origin.as_str()), (4, "corpus:queries.txt"));
+    /// ```
+    pub fn seen_in(&mut self, origin: &str, count: u64) {
+        self.origin = origin.to_string();
+        self.counts = BTreeMap::from([(origin.to_string(), count)]);
+        self.count = count;
+    }
+
+    /// The count from each origin (for items of older files: `count` under `origin`).
+    pub fn origin_counts(&self) -> BTreeMap<String, u64> {
+        if self.counts.is_empty() && (self.count > 0 || !self.origin.is_empty()) {
+            return BTreeMap::from([(self.origin.clone(), self.count)]);
+        }
+        self.counts.clone()
+    }
+
+    fn set_origin_counts(&mut self, counts: BTreeMap<String, u64>) {
+        self.count = counts.values().fold(0u64, |sum, c| sum.saturating_add(*c));
+        self.counts = counts;
     }
 
     /// Identity used for merging and for journal decisions: kind, lower-cased word and, for
@@ -146,24 +182,68 @@ impl Item {
         }
     }
 
-    /// Fold `other` (an item with the same [`key`](Item::key)) into this one: counts add up,
-    /// the first non-empty context is kept, and candidates are united by pronunciation (keeping
-    /// the higher score and the source that gave it). Candidates stay sorted best first.
+    /// Fold `other` (an item with the same [`key`](Item::key), from the same reading of the
+    /// sources) into this one: counts add up per origin, the first non-empty context is kept,
+    /// and candidates are united by pronunciation (keeping the higher score and the source that
+    /// gave it). Candidates stay sorted best first.
     ///
     /// ```
     /// use orthoepy::queue::{Candidate, Item};
     /// let mut a = Item::new_word("quay");
-    /// a.count = 3;
+    /// a.seen_in("corpus:a.txt", 3);
     /// a.candidates.push(Candidate::new("K IY1", "g2p"));
-    /// let mut b = Item::new_word("quay");
-    /// b.count = 2;
+    /// let mut b = Item::new_word("Quay");
+    /// b.seen_in("corpus:a.txt", 2);
     /// b.candidates.push(Candidate::new("K W EY1", "rules:en"));
     /// a.merge(b);
     /// assert_eq!(a.count, 5);
     /// assert_eq!(a.candidates.len(), 2);
     /// ```
     pub fn merge(&mut self, other: Item) {
-        self.count = self.count.saturating_add(other.count);
+        let mut counts = self.origin_counts();
+        for (origin, count) in other.origin_counts() {
+            let sum = counts.entry(origin).or_insert(0);
+            *sum = sum.saturating_add(count);
+        }
+        self.take_evidence(other, counts);
+    }
+
+    /// Fold `other` (an item with the same [`key`](Item::key), from a later reading of its
+    /// sources) into this queued one: the counts of the origins `other` was read from are
+    /// replaced, not added, so reading the same file twice changes nothing and reading a
+    /// changed file updates its counts. Context and candidates as in [`merge`](Item::merge).
+    /// Returns whether the item changed.
+    ///
+    /// ```
+    /// use orthoepy::queue::Item;
+    /// let mut queued = Item::new_word("Kelport");
+    /// queued.seen_in("corpus:queries.txt", 4);
+    /// let mut again = Item::new_word("Kelport");
+    /// again.seen_in("corpus:queries.txt", 4);
+    /// assert!(!queued.refresh(again.clone()));
+    /// assert_eq!(queued.count, 4);
+    /// again.seen_in("corpus:queries.txt", 6);
+    /// assert!(queued.refresh(again));
+    /// assert_eq!(queued.count, 6);
+    /// ```
+    pub fn refresh(&mut self, other: Item) -> bool {
+        let before = self.clone();
+        let mut counts = self.origin_counts();
+        counts.extend(other.origin_counts());
+        self.take_evidence(other, counts);
+        *self != before
+    }
+
+    /// Drops the count an origin gave this item (its source no longer lists the word).
+    pub fn forget_origin(&mut self, origin: &str) {
+        let mut counts = self.origin_counts();
+        if counts.remove(origin).is_some() {
+            self.set_origin_counts(counts);
+        }
+    }
+
+    fn take_evidence(&mut self, other: Item, counts: BTreeMap<String, u64>) {
+        self.set_origin_counts(counts);
         if self.context.is_empty() {
             self.context = other.context;
         }

@@ -57,6 +57,9 @@ pub enum Action {
     Reject,
     /// Decide later; the item leaves the pending list until the set-aside filter shows it.
     SetAside,
+    /// Not to be reviewed: the item leaves the queue's lists and the review screen (it stays in
+    /// the queue file, so revoking the removal brings it back); `apply` ignores it.
+    Remove,
 }
 
 /// A decision about one queued item.
@@ -517,25 +520,40 @@ impl Journal {
         &self.path
     }
 
+    /// Appends records in one write and one fsync (a batch of decisions); returns the sequence
+    /// numbers given, first to last (an empty range for no records). A crash during the write
+    /// leaves a prefix of whole records and at most one torn line, which the next open keeps
+    /// aside, as for [`append`](Journal::append).
+    pub fn append_all(&mut self, records: Vec<Record>) -> Result<std::ops::RangeInclusive<u64>, JournalError> {
+        let first = match self.records.last() {
+            None => 1,
+            Some(last) => last.seq.checked_add(1).ok_or(JournalError::SequenceExhausted { path: self.path.clone(), last: last.seq })?,
+        };
+        let count = records.len() as u64;
+        if count == 0 {
+            return Ok(first..=first - 1);
+        }
+        let last = first.checked_add(count - 1).ok_or(JournalError::SequenceExhausted { path: self.path.clone(), last: first - 1 })?;
+        let mut text = String::new();
+        let mut lines = Vec::with_capacity(records.len());
+        for (seq, record) in (first..=last).zip(records) {
+            let crc = checksum(seq, &record).map_err(|e| JournalError::io(&self.path, e.into()))?;
+            let line = Line { seq, record, crc };
+            text.push_str(&serde_json::to_string(&line).map_err(|e| JournalError::io(&self.path, e.into()))?);
+            text.push('\n');
+            lines.push(line);
+        }
+        self.len = safe_io::append_synced(&self.path, self.len, text.as_bytes()).map_err(|e| JournalError::write(&self.path, e))?;
+        self.records.extend(lines.into_iter().map(|line| Logged { seq: line.seq, record: line.record }));
+        Ok(first..=last)
+    }
+
     /// Appends a record and fsyncs it; returns its sequence number.
     ///
     /// Refuses when the file was written by someone else since it was opened, and when the
     /// sequence numbers are exhausted; nothing is written then.
     pub fn append(&mut self, record: Record) -> Result<u64, JournalError> {
-        let seq = match self.records.last() {
-            None => 1,
-            Some(last) => last
-                .seq
-                .checked_add(1)
-                .ok_or(JournalError::SequenceExhausted { path: self.path.clone(), last: last.seq })?,
-        };
-        let crc = checksum(seq, &record).map_err(|e| JournalError::io(&self.path, e.into()))?;
-        let line = Line { seq, record, crc };
-        let mut text = serde_json::to_string(&line).map_err(|e| JournalError::io(&self.path, e.into()))?;
-        text.push('\n');
-        self.len = safe_io::append_synced(&self.path, self.len, text.as_bytes()).map_err(|e| JournalError::write(&self.path, e))?;
-        self.records.push(Logged { seq, record: line.record });
-        Ok(seq)
+        Ok(*self.append_all(vec![record])?.start())
     }
 }
 

@@ -1,13 +1,15 @@
 //! The review queue: items waiting for a person, the candidates on offer for each, the
 //! decisions people make, the append-only journal those decisions go to, intake from every
 //! source (word lists, running text, variant proposals, audit findings), and merging decided
-//! items into the lexicon in a crash-safe order; checking and repairing a damaged journal.
+//! items into the lexicon in a crash-safe order; decisions on many items at once; checking and
+//! repairing a damaged journal.
 //!
 //! This module draws nothing. It gets candidates only from the project's one guesser
 //! ([`Workspace`](crate::workspace::Workspace)) and from the variant generator, and the review
 //! screen hands it [`Decision`]s.
 
 mod apply;
+mod batch;
 mod error;
 mod fileio;
 mod guessing;
@@ -23,10 +25,14 @@ mod store;
 mod tokenise;
 
 pub use apply::{apply_decisions, ApplyReport, Outcome};
+pub use batch::{
+    plan_batch, plan_removal, plan_restore, plan_undo, removed_keys, run_batch, BatchError, BatchPlan, BatchRequest, BatchRun,
+    Selection, Threshold,
+};
 pub use error::QueueError;
 pub use guessing::{candidates_for, fill_candidates, CandidateSource, WorkspaceGuesser};
 pub use project_files::{
-    apply_project, list_items, save_guessed, ApplyOptions, ApplyRun, ApplyStatus, ListedItem, ProjectQueueError, ReviewFiles,
+    apply_project, list_items, save_guessed, ApplyOptions, ApplyRun, ApplyStatus, ListedDecision, ListedItem, ProjectQueueError, ReviewFiles,
 };
 pub use sources::{add_sources, gather, AddSummary, Corpus, Gathered, IntakeError, Sources, PRONUNCIATION_CHECKS};
 pub use state::ItemState;

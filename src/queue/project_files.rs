@@ -49,10 +49,12 @@ pub struct ReviewFiles {
 
 impl ReviewFiles {
     /// Opens the project's queue and journal for writing (the caller holds the project lock).
+    /// Items removed from review (`queue remove`) are left out of [`queue`](Self::queue).
     pub fn open(project: &Project) -> Result<ReviewFiles, QueueError> {
-        let queue = Queue::load(&project.queue)?;
+        let mut queue = Queue::load(&project.queue)?;
         let (journal, warnings) = Journal::open(&project.journal)?;
         let ledger = Ledger::replay(journal.records());
+        queue.remove_keys(&super::batch::removed_keys(&queue, &ledger));
         Ok(ReviewFiles { queue, journal, ledger, warnings })
     }
 }
@@ -65,6 +67,22 @@ pub struct ListedItem {
     pub item: Item,
     /// Its state under the journal's decisions.
     pub state: ItemState,
+    /// The decision in force, if any, with its journal sequence number.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub decision: Option<ListedDecision>,
+}
+
+/// A decision as `queue list` shows it.
+#[derive(Debug, serde::Serialize)]
+pub struct ListedDecision {
+    /// Journal sequence number of the decision.
+    pub seq: u64,
+    /// What was decided.
+    #[serde(flatten)]
+    pub action: super::journal::Action,
+    /// The reviewer's note.
+    #[serde(skip_serializing_if = "String::is_empty")]
+    pub note: String,
 }
 
 /// Every queued item with its review state (the journal is only read), and the journal's
@@ -78,8 +96,11 @@ pub fn list_items(project: &Project) -> Result<(Vec<ListedItem>, Vec<JournalWarn
         .iter()
         .map(|item| {
             let key = item.key();
-            let state = ItemState::of(ledger.current(&key).map(|(_, d)| &d.action), ledger.is_applied(&key));
-            ListedItem { item: item.clone(), state }
+            let current = ledger.current(&key);
+            let state = ItemState::of(current.map(|(_, d)| &d.action), ledger.is_applied(&key));
+            let decision =
+                current.map(|(seq, d)| ListedDecision { seq, action: d.action.clone(), note: d.note.clone() });
+            ListedItem { item: item.clone(), state, decision }
         })
         .collect();
     Ok((listed, warnings))

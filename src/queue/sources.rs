@@ -8,12 +8,15 @@
 //! everything into the queue file and saves it atomically. This file prints nothing; warnings
 //! come back in [`Gathered::warnings`].
 
+use std::collections::HashSet;
 use std::path::{Path, PathBuf};
 
 use super::error::QueueError;
 use super::guessing::fill_candidates;
 use super::intake::{items_from_corpus, items_from_word_list};
 use super::item::{Candidate, Item, ItemKind};
+use super::journal::{Action, Journal, JournalError};
+use super::ledger::Ledger;
 use super::store::{Added, Queue};
 use super::tokenise::TokenRule;
 use crate::audit::{AuditError, Severity};
@@ -48,6 +51,9 @@ pub enum IntakeError {
     /// The queue file could not be read or saved.
     #[error(transparent)]
     Queue(#[from] QueueError),
+    /// The journal could not be read (to see which items were removed from review).
+    #[error(transparent)]
+    Journal(#[from] JournalError),
 }
 
 /// What to queue, as `orthoepy queue add` names it.
@@ -81,6 +87,9 @@ pub struct Gathered {
     pub items: Vec<Item>,
     /// Warnings (entries a profile could not use), one line each.
     pub warnings: Vec<String>,
+    /// Every origin read (`words:FILE`, `corpus:FILE`, `variants:PROFILE`, `audit:CHECK`), even
+    /// those that gave no item: what they said before is replaced by what they say now.
+    pub origins: Vec<String>,
 }
 
 /// What [`add_sources`] did.
@@ -88,8 +97,12 @@ pub struct Gathered {
 pub struct AddSummary {
     /// Items new to the queue.
     pub new: usize,
-    /// Items merged into queued ones.
-    pub merged: usize,
+    /// Queued items that changed (new counts or candidates).
+    pub updated: usize,
+    /// Queued items the sources said nothing new about (reading the same input again).
+    pub unchanged: usize,
+    /// Items whose removal from review (`queue remove`) stands; they were not brought back.
+    pub still_removed: usize,
     /// Items in the queue now.
     pub total: usize,
 }
@@ -101,25 +114,31 @@ pub fn gather(workspace: &Workspace, sources: &Sources) -> Result<Gathered, Inta
     let index = workspace.index();
     let known = |w: &str| index.contains(w);
     if let Some(path) = &sources.words {
-        gathered.items.extend(items_from_word_list(&read_text(path)?, &file_label("words", path), known));
+        let origin = file_label("words", path);
+        gathered.items.extend(items_from_word_list(&read_text(path)?, &origin, known));
+        gathered.origins.push(origin);
     }
     if let Some(corpus) = &sources.corpus {
         let text = read_text(&corpus.path)?;
         let origin = file_label("corpus", &corpus.path);
         gathered.items.extend(items_from_corpus(&text, &corpus.rule, &origin, corpus.min_count, known));
+        gathered.origins.push(origin);
     }
     for name in &sources.profiles {
         variant_items(workspace, name, &mut gathered)?;
     }
     if sources.audit {
         gathered.items.extend(audit_items(workspace)?);
+        gathered.origins.extend(PRONUNCIATION_CHECKS.iter().map(|check| format!("audit:{check}")));
     }
     Ok(gathered)
 }
 
 /// Gathers the sources, guesses candidates for the new words the queue does not already hold
 /// with candidates (`progress(done, total)` as guessing goes), and adds everything to the
-/// project's queue file. Returns the summary and the warnings of [`gather`].
+/// project's queue file. Reading the same input again changes nothing; a changed input
+/// replaces the counts it gave before (see [`Queue::refresh`]). Returns the summary and the
+/// warnings of [`gather`]. The caller holds the project lock.
 pub fn add_sources(
     workspace: &Workspace,
     sources: &Sources,
@@ -128,6 +147,7 @@ pub fn add_sources(
 ) -> Result<(AddSummary, Vec<String>), IntakeError> {
     let path = &workspace.project().queue;
     let mut gathered = gather(workspace, sources)?;
+    let warnings = std::mem::take(&mut gathered.warnings);
     let mut queue = Queue::load(path)?;
     if guess {
         let (mut todo, mut rest): (Vec<Item>, Vec<Item>) = gathered
@@ -138,22 +158,43 @@ pub fn add_sources(
         rest.append(&mut todo);
         gathered.items = rest;
     }
-    let summary = merge_and_save(&mut queue, gathered.items)?;
-    Ok((summary, gathered.warnings))
+    let (records, _) = Journal::read(&workspace.project().journal)?;
+    let ledger = Ledger::replay(&records);
+    let summary = merge_and_save(&mut queue, gathered, &ledger)?;
+    Ok((summary, warnings))
 }
 
-/// Merges items into the queue (those already queued are merged), keeps it in review order
-/// (most frequent first) and saves it atomically.
-fn merge_and_save(queue: &mut Queue, items: Vec<Item>) -> Result<AddSummary, QueueError> {
+/// Refreshes the queue with what the sources say now (items already queued get the counts of
+/// this reading, origins read again forget the words they no longer list), keeps it in review
+/// order (most frequent first) and saves it atomically if anything changed.
+fn merge_and_save(queue: &mut Queue, gathered: Gathered, ledger: &Ledger) -> Result<AddSummary, QueueError> {
+    // One reading's items about the same thing add up (two spellings of one word in a corpus);
+    // only then are they set against the queue.
+    let mut reading = Queue::new();
+    for item in gathered.items {
+        reading.add(item);
+    }
     let mut summary = AddSummary::default();
-    for item in items {
-        match queue.add(item) {
+    let mut forgotten = 0;
+    for origin in &gathered.origins {
+        let keep: HashSet<String> =
+            reading.items().iter().filter(|i| i.origin_counts().contains_key(origin)).map(|i| i.key()).collect();
+        forgotten += queue.forget_origin_except(origin, &keep);
+    }
+    for item in reading.items() {
+        if matches!(ledger.current(&item.key()), Some((_, d)) if d.action == Action::Remove) {
+            summary.still_removed += 1;
+        }
+        match queue.refresh(item.clone()) {
             Added::New => summary.new += 1,
-            Added::Merged => summary.merged += 1,
+            Added::Merged => summary.updated += 1,
+            Added::Unchanged => summary.unchanged += 1,
         }
     }
-    queue.sort_by_count();
-    queue.save()?;
+    if summary.new + summary.updated + forgotten > 0 {
+        queue.sort_by_count();
+        queue.save()?;
+    }
     summary.total = queue.items().len();
     Ok(summary)
 }
@@ -190,7 +231,7 @@ fn audit_items(workspace: &Workspace) -> Result<Vec<Item>, IntakeError> {
             message,
             line: finding.line,
         };
-        item.origin = format!("audit:{}", finding.check);
+        item.seen_in(&format!("audit:{}", finding.check), 0);
         queue.add(item);
     }
     Ok(queue.items().to_vec())
@@ -200,6 +241,7 @@ fn audit_items(workspace: &Workspace) -> Result<Vec<Item>, IntakeError> {
 /// pronunciation, its variants as candidates (probability as score, fired rules listed).
 fn variant_items(workspace: &Workspace, name: &str, gathered: &mut Gathered) -> Result<(), IntakeError> {
     let profile = workspace.profile(name)?;
+    gathered.origins.push(format!("variants:{}", profile.id));
     let generation = Generator::new(workspace.phoneset(), &profile, VariantOptions::default()).run(workspace.lexicon(), None);
     for s in &generation.skipped {
         gathered.warnings.push(format!("{}: line {}: {}", s.word, s.line, s.message));
@@ -208,7 +250,7 @@ fn variant_items(workspace: &Workspace, name: &str, gathered: &mut Gathered) -> 
     for v in generation.variants {
         let mut item = Item::new_word(&v.word);
         item.kind = ItemKind::Variant { canonical: v.canonical.clone(), profile: profile.id.clone() };
-        item.origin = format!("variants:{}", profile.id);
+        item.seen_in(&format!("variants:{}", profile.id), 0);
         let mut sets: Vec<&str> = v.fired.iter().map(|f| f.rule_set.as_str()).collect();
         sets.dedup();
         let mut candidate = Candidate::new(&v.pronunciation, &format!("variant:{}", sets.join("+")));

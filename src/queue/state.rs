@@ -1,4 +1,4 @@
-//! The review state of a queue item — pending, decided, set aside or applied — derived from
+//! The review state of a queue item — pending, decided, set aside, applied or removed — derived from
 //! the decision the journal holds for it. Shared by `queue list`, the review screen's filter and
 //! progress counts, and batch decisions; it owns no data of its own.
 
@@ -16,6 +16,8 @@ pub enum ItemState {
     Aside,
     /// Decided and merged into the lexicon.
     Applied,
+    /// Removed from review (`orthoepy queue remove`); hidden until the removal is revoked.
+    Removed,
 }
 
 impl ItemState {
@@ -26,6 +28,7 @@ impl ItemState {
             ItemState::Decided => "decided",
             ItemState::Aside => "aside",
             ItemState::Applied => "applied",
+            ItemState::Removed => "removed",
         }
     }
 
@@ -36,10 +39,12 @@ impl ItemState {
     /// assert_eq!(ItemState::of(None, false), ItemState::Pending);
     /// assert_eq!(ItemState::of(Some(&Action::SetAside), false).name(), "aside");
     /// assert_eq!(ItemState::of(Some(&Action::Reject), true), ItemState::Applied);
+    /// assert_eq!(ItemState::of(Some(&Action::Remove), true), ItemState::Removed);
     /// ```
     pub fn of(action: Option<&Action>, applied: bool) -> ItemState {
         match (action, applied) {
             (None, _) => ItemState::Pending,
+            (Some(Action::Remove), _) => ItemState::Removed,
             (Some(_), true) => ItemState::Applied,
             (Some(Action::SetAside), false) => ItemState::Aside,
             (Some(_), false) => ItemState::Decided,

@@ -31,13 +31,15 @@ pub struct Queue {
     path: Option<PathBuf>,
 }
 
-/// What [`Queue::add`] did with an item.
+/// What [`Queue::add`] or [`Queue::refresh`] did with an item.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum Added {
     /// The item was new and appended.
     New,
-    /// An item with the same key was queued; the two were merged.
+    /// An item with the same key was queued; the two were merged and the queued one changed.
     Merged,
+    /// An item with the same key was queued and already said everything this one says.
+    Unchanged,
 }
 
 impl Queue {
@@ -122,6 +124,51 @@ impl Queue {
                 Added::New
             }
         }
+    }
+
+    /// Add an item from a later reading of its sources: a queued item with the same key is
+    /// refreshed ([`Item::refresh`]: the counts of the item's origins are replaced, not added).
+    ///
+    /// ```
+    /// use orthoepy::queue::{Added, Item, Queue};
+    /// let mut q = Queue::new();
+    /// let mut item = Item::new_word("Kelport");
+    /// item.seen_in("corpus:queries.txt", 4);
+    /// assert_eq!(q.refresh(item.clone()), Added::New);
+    /// assert_eq!(q.refresh(item), Added::Unchanged);
+    /// assert_eq!(q.items()[0].count, 4);
+    /// ```
+    pub fn refresh(&mut self, item: Item) -> Added {
+        match self.by_key.get(&item.key()).and_then(|&i| self.items.get_mut(i)) {
+            Some(have) => {
+                if have.refresh(item) {
+                    Added::Merged
+                } else {
+                    Added::Unchanged
+                }
+            }
+            None => self.add(item),
+        }
+    }
+
+    /// Drops the count `origin` gave to every queued item except those in `keep` (keys): the
+    /// origin was read again and no longer lists them. Returns how many items changed.
+    pub fn forget_origin_except(&mut self, origin: &str, keep: &std::collections::HashSet<String>) -> usize {
+        let mut changed = 0;
+        for item in self.items.iter_mut().filter(|i| !keep.contains(&i.key())) {
+            let before = item.count;
+            item.forget_origin(origin);
+            changed += usize::from(item.count != before);
+        }
+        changed
+    }
+
+    /// Drops the items whose keys are in `keys`; returns how many were dropped.
+    pub fn remove_keys(&mut self, keys: &std::collections::HashSet<String>) -> usize {
+        let before = self.items.len();
+        self.items.retain(|i| !keys.contains(&i.key()));
+        self.reindex();
+        before - self.items.len()
     }
 
     /// The items in review order.

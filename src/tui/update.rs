@@ -379,6 +379,7 @@ fn describe(action: &Action) -> String {
         Action::Accept { pronunciation, .. } => format!("accepted /{pronunciation}/"),
         Action::Reject => "rejected".into(),
         Action::SetAside => "set aside".into(),
+        Action::Remove => "removed from review".into(),
     }
 }
 
