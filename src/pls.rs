@@ -8,9 +8,12 @@
 //! generalizations in English phonology, 1976) with the legal onsets taken from the consonant
 //! clusters that begin words in the lexicon itself. Reading accepts both alphabets, maps IPA back
 //! to phone symbols by longest match, and refuses oversized or malformed documents with the line
-//! and column of the problem. Lexemes with several graphemes give one entry per grapheme.
+//! and column of the problem: one `<lexicon>` root in the PLS namespace, closed; no DTD (so no
+//! entity expansion and no external entity is ever read); no control characters in graphemes.
+//! Lexemes with several graphemes give one entry per grapheme and phoneme, bounded per lexeme
+//! ([`MAX_LEXEME_ENTRIES`]) and per document ([`MAX_PLS_ENTRIES`]).
 
-use crate::lexicon::{normalize_key, Entry, HeadwordPolicy, Status};
+use crate::lexicon::{find_control, normalize_key, Entry, HeadwordPolicy, Status};
 use crate::phoneset::{Phoneset, StressLevel};
 use quick_xml::events::Event;
 use crate::support::located::{origin_of, Located};
@@ -26,6 +29,13 @@ pub const MAX_PLS: Limit = Limit { bytes: 256 * MIB, what: "PLS document" };
 
 /// Deepest element nesting accepted (a PLS document needs three levels).
 const MAX_DEPTH: usize = 16;
+
+/// The most entries one `<lexeme>` may give (graphemes × phonemes); real lexemes have a few of
+/// each, so a larger product is a mistake or an attack (3,000 × 3,000 would be 9,000,000 entries).
+pub const MAX_LEXEME_ENTRIES: usize = 256;
+
+/// The most entries one document may give: about fifteen times CMUdict (135k entries).
+pub const MAX_PLS_ENTRIES: usize = 2_000_000;
 
 /// How phonemes are written.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -275,8 +285,10 @@ pub fn read_pls(bytes: &[u8], origin: &str, set: &Phoneset, source: &str) -> Res
     let at = |offset: usize, message: String| PlsError::Syntax(Located::at_offset(origin, bytes, offset, message));
     let mut import = PlsImport::default();
     let mut alphabet: Option<Alphabet> = None;
+    let mut root_closed = false;
+    let mut lexeme_at = 0usize;
     let mut stack: Vec<String> = Vec::new();
-    let (mut graphemes, mut phonemes): (Vec<String>, Vec<(String, usize)>) = (Vec::new(), Vec::new());
+    let (mut graphemes, mut phonemes): (Vec<(String, usize)>, Vec<(String, usize)>) = (Vec::new(), Vec::new());
     let mut buf = Vec::new();
     // Line numbers are counted incrementally: (offset, line) of the last position asked for.
     let mut counted = (0usize, 1usize);
@@ -289,40 +301,77 @@ pub fn read_pls(bytes: &[u8], origin: &str, set: &Phoneset, source: &str) -> Res
     loop {
         let offset = reader.buffer_position() as usize;
         let event = reader.read_event_into(&mut buf).map_err(|e| at(offset, format!("malformed XML: {e}")))?;
+        // Whitespace before a tag is read with it (text is trimmed); place errors at the `<`.
+        let offset = offset + bytes.get(offset..).unwrap_or_default().iter().take_while(|b| b.is_ascii_whitespace()).count();
         match event {
-            Event::Start(e) => {
+            Event::Start(ref e) | Event::Empty(ref e) => {
                 let name = String::from_utf8_lossy(e.local_name().as_ref()).into_owned();
                 if stack.len() >= MAX_DEPTH {
                     return Err(at(offset, "elements nested too deeply for a PLS document".into()));
                 }
+                if root_closed && stack.is_empty() {
+                    return Err(at(offset, format!("a second root element <{name}> after </lexicon>; a PLS document has one <lexicon> root: remove it or merge it into the first")));
+                }
                 if name == "lexicon" && stack.is_empty() {
-                    alphabet = Some(read_alphabet(&e, set).map_err(|m| at(offset, m))?);
+                    check_namespace(e).map_err(|m| at(offset, m))?;
+                    alphabet = Some(read_alphabet(e, set).map_err(|m| at(offset, m))?);
                 } else if stack.is_empty() {
                     return Err(at(offset, format!("root element is <{name}>; a PLS document starts with <lexicon>")));
                 }
-                if name == "lexeme" {
-                    graphemes.clear();
-                    phonemes.clear();
+                if matches!(event, Event::Empty(_)) {
+                    root_closed |= stack.is_empty();
+                } else {
+                    if name == "lexeme" {
+                        graphemes.clear();
+                        phonemes.clear();
+                        lexeme_at = offset;
+                    }
+                    stack.push(name);
                 }
-                stack.push(name);
+            }
+            Event::DocType(_) => {
+                return Err(at(offset, "the document has a DOCTYPE; PLS needs no DTD and none is read (no entities, no external files): remove the <!DOCTYPE ...> declaration".into()));
             }
             Event::Text(t) => {
                 let text = t.unescape().map_err(|e| at(offset, format!("bad text: {e}")))?.into_owned();
                 let line = line_at(offset);
                 match stack.last().map(String::as_str) {
-                    Some("grapheme") => graphemes.push(text),
+                    Some("grapheme") => graphemes.push((text, line)),
                     Some("phoneme") => phonemes.push((text, line)),
                     _ => {}
+                }
+                if graphemes.len().saturating_mul(phonemes.len()) > MAX_LEXEME_ENTRIES {
+                    let message = format!(
+                        "this <lexeme> has {} graphemes and {} phonemes so far, over the {MAX_LEXEME_ENTRIES} entries (graphemes × phonemes) accepted from one lexeme; split it into several lexemes",
+                        graphemes.len(),
+                        phonemes.len()
+                    );
+                    return Err(at(lexeme_at, message));
                 }
             }
             // The guard pops the closing element whatever it is; only a lexeme ends an entry.
             Event::End(_) if stack.pop().as_deref() == Some("lexeme") => {
                 let alphabet = alphabet.unwrap_or(Alphabet::Ipa);
+                if import.entries.len() + graphemes.len() * phonemes.len() > MAX_PLS_ENTRIES {
+                    let message = format!("the document gives more than {MAX_PLS_ENTRIES} entries, the most read from one PLS document; split it into several documents");
+                    return Err(at(lexeme_at, message));
+                }
+                let mut usable = Vec::with_capacity(graphemes.len());
+                for (g, line) in &graphemes {
+                    match find_control(g.trim()) {
+                        Some((_, c)) => import.rejected.push(Located::at_line(
+                            origin,
+                            *line,
+                            format!("grapheme {:?} holds the control character U+{:04X} (a character reference such as &#10; counts); remove it", g.trim(), c as u32),
+                        )),
+                        None => usable.push(g.trim()),
+                    }
+                }
                 for (phoneme, line) in &phonemes {
                     match read_phoneme(phoneme, alphabet, set) {
                         Ok(pron) => {
-                            for g in &graphemes {
-                                let mut entry = Entry::new(g.trim(), &pron);
+                            for g in &usable {
+                                let mut entry = Entry::new(g, &pron);
                                 entry.status = Status::Imported;
                                 entry.source = source.to_string();
                                 entry.line = *line;
@@ -333,15 +382,39 @@ pub fn read_pls(bytes: &[u8], origin: &str, set: &Phoneset, source: &str) -> Res
                     }
                 }
             }
+            Event::End(_) => root_closed |= stack.is_empty(),
             Event::Eof => break,
             _ => {}
         }
         buf.clear();
     }
+    if let Some(open) = stack.last() {
+        return Err(at(bytes.len(), format!("the document ends inside <{open}>; add the missing </{open}> (and any closing tags after it)")));
+    }
     if alphabet.is_none() {
         return Err(at(0, "no <lexicon> element; this is not a PLS document".into()));
     }
     Ok(import)
+}
+
+/// The root must declare the PLS namespace for its own prefix (`xmlns="…"` for `<lexicon>`,
+/// `xmlns:p="…"` for `<p:lexicon>`), as W3C PLS 1.0 section 4.1 requires.
+fn check_namespace(e: &quick_xml::events::BytesStart) -> Result<(), String> {
+    let name = e.name();
+    let declaration = match name.prefix() {
+        Some(prefix) => format!("xmlns:{}", String::from_utf8_lossy(prefix.as_ref())),
+        None => "xmlns".to_string(),
+    };
+    let declared = e
+        .attributes()
+        .flatten()
+        .find(|a| a.key.as_ref() == declaration.as_bytes())
+        .map(|a| String::from_utf8_lossy(&a.value).into_owned());
+    match declared {
+        Some(ns) if ns == PLS_NAMESPACE => Ok(()),
+        Some(other) => Err(format!("<lexicon> is in namespace {other:?}, not the PLS namespace; write {declaration}=\"{PLS_NAMESPACE}\"")),
+        None => Err(format!("<lexicon> declares no namespace; PLS requires {declaration}=\"{PLS_NAMESPACE}\"")),
+    }
 }
 
 fn read_alphabet(e: &quick_xml::events::BytesStart, set: &Phoneset) -> Result<Alphabet, String> {
@@ -412,8 +485,73 @@ fn segment_ipa(text: &str, set: &Phoneset) -> Result<String, String> {
 mod tests {
     use super::*;
 
+    const NS: &str = "xmlns=\"http://www.w3.org/2005/01/pronunciation-lexicon\"";
+
     fn arpa() -> Phoneset {
         Phoneset::shipped("en-arpa").unwrap()
+    }
+
+    /// The message of a document refused at a place, with its line.
+    fn refusal(xml: &str) -> (Option<usize>, String) {
+        match read_pls(xml.as_bytes(), "t.pls", &arpa(), "t") {
+            Err(PlsError::Syntax(at)) => (at.line(), at.message),
+            other => panic!("expected a refusal, got {other:?}"),
+        }
+    }
+
+    #[test]
+    fn structure_namespace_and_dtd_are_checked() {
+        // W3C PLS 1.0 section 4.1: one <lexicon> root in the namespace
+        // http://www.w3.org/2005/01/pronunciation-lexicon.
+        let lexeme = "<lexeme><grapheme>quay</grapheme><phoneme>ki</phoneme></lexeme>";
+        let (line, message) = refusal(&format!("<lexicon {NS} alphabet=\"ipa\">\n{lexeme}\n"));
+        assert!(message.contains("missing </lexicon>"), "{message}");
+        assert_eq!(line, Some(3));
+        let (line, message) = refusal(&format!("<lexicon {NS} alphabet=\"ipa\"></lexicon>\n<lexicon {NS} alphabet=\"ipa\"></lexicon>"));
+        assert!(message.contains("second root"), "{message}");
+        assert_eq!(line, Some(2));
+        assert!(refusal(&format!("<lexicon alphabet=\"ipa\">{lexeme}</lexicon>")).1.contains("declares no namespace"));
+        assert!(refusal(&format!("<lexicon xmlns=\"urn:x\" alphabet=\"ipa\">{lexeme}</lexicon>")).1.contains("\"urn:x\""));
+        let prefixed = format!("<p:lexicon xmlns:p=\"{PLS_NAMESPACE}\" alphabet=\"ipa\"><p:lexeme><p:grapheme>quay</p:grapheme><p:phoneme>ki</p:phoneme></p:lexeme></p:lexicon>");
+        assert_eq!(read_pls(prefixed.as_bytes(), "t.pls", &arpa(), "t").unwrap().entries.len(), 1);
+        // The "billion laughs" entity expansion and an external entity: refused before any use.
+        let bomb = format!("<?xml version=\"1.0\"?>\n<!DOCTYPE lexicon [<!ENTITY a \"aaaaaaaa\"><!ENTITY b \"&a;&a;&a;&a;\">]>\n<lexicon {NS} alphabet=\"ipa\"><lexeme><grapheme>&b;</grapheme><phoneme>ki</phoneme></lexeme></lexicon>");
+        let (line, message) = refusal(&bomb);
+        assert!(message.contains("DOCTYPE"), "{message}");
+        assert_eq!(line, Some(2));
+        assert!(refusal("<!DOCTYPE lexicon SYSTEM \"file:///etc/passwd\"><lexicon/>").1.contains("DOCTYPE"));
+    }
+
+    #[test]
+    fn control_characters_in_graphemes_are_rejected() {
+        let xml = format!("<lexicon {NS} alphabet=\"ipa\">\n<lexeme><grapheme>new&#10;york</grapheme><grapheme>quay</grapheme><phoneme>ki</phoneme></lexeme>\n</lexicon>");
+        let import = read_pls(xml.as_bytes(), "t.pls", &arpa(), "t").unwrap();
+        assert_eq!(import.entries.len(), 1);
+        assert_eq!(import.entries[0].word, "quay");
+        assert_eq!(import.rejected.len(), 1);
+        assert!(import.rejected[0].message.contains("U+000A"), "{}", import.rejected[0]);
+    }
+
+    #[test]
+    fn one_lexeme_cannot_multiply_into_millions_of_entries() {
+        // The 3,000 graphemes × 3,000 phonemes document would give 9,000,000 entries.
+        let mut xml = format!("<lexicon {NS} alphabet=\"ipa\">\n<lexeme>");
+        for i in 0..3_000 {
+            xml.push_str(&format!("<grapheme>w{i}</grapheme>"));
+        }
+        for _ in 0..3_000 {
+            xml.push_str("<phoneme>ki</phoneme>");
+        }
+        xml.push_str("</lexeme></lexicon>");
+        let (line, message) = refusal(&xml);
+        assert_eq!(line, Some(2));
+        assert!(message.contains("split it into several lexemes"), "{message}");
+        let mut fine = format!("<lexicon {NS} alphabet=\"ipa\"><lexeme>");
+        for i in 0..16 {
+            fine.push_str(&format!("<grapheme>w{i}</grapheme><phoneme>ki</phoneme>"));
+        }
+        fine.push_str("</lexeme></lexicon>");
+        assert_eq!(read_pls(fine.as_bytes(), "t.pls", &arpa(), "t").unwrap().entries.len(), MAX_LEXEME_ENTRIES);
     }
 
     #[test]
@@ -452,22 +590,22 @@ mod tests {
     #[test]
     fn malformed_documents_are_located() {
         let set = arpa();
-        let bad = "<lexicon version=\"1.0\" alphabet=\"ipa\">\n  <lexeme><grapheme>a</grapheme></lexem>\n</lexicon>";
+        let bad = format!("<lexicon version=\"1.0\" {NS} alphabet=\"ipa\">\n  <lexeme><grapheme>a</grapheme></lexem>\n</lexicon>");
         match read_pls(bad.as_bytes(), "t.pls", &set, "t") {
             Err(PlsError::Syntax(at)) => assert_eq!((at.origin.as_str(), at.line()), ("t.pls", Some(2))),
             other => panic!("{other:?}"),
         }
         assert!(matches!(read_pls(b"<words/>", "t.pls", &set, "t"), Err(PlsError::Syntax(_))));
-        let deep = format!("<lexicon alphabet=\"ipa\">{}", "<a>".repeat(100));
+        let deep = format!("<lexicon {NS} alphabet=\"ipa\">{}", "<a>".repeat(100));
         assert!(matches!(read_pls(deep.as_bytes(), "t.pls", &set, "t"), Err(PlsError::Syntax(_))));
-        let foreign = "<lexicon version=\"1.0\" alphabet=\"x-other\"></lexicon>";
+        let foreign = format!("<lexicon version=\"1.0\" {NS} alphabet=\"x-other\"></lexicon>");
         assert!(matches!(read_pls(foreign.as_bytes(), "t.pls", &set, "t"), Err(PlsError::Syntax(_))));
     }
 
     #[test]
     fn unreadable_phonemes_are_reported_not_fatal() {
         let set = arpa();
-        let xml = "<lexicon version=\"1.0\" alphabet=\"ipa\">\n<lexeme><grapheme>x</grapheme><phoneme>ʘ</phoneme></lexeme>\n</lexicon>";
+        let xml = format!("<lexicon version=\"1.0\" {NS} alphabet=\"ipa\">\n<lexeme><grapheme>x</grapheme><phoneme>ʘ</phoneme></lexeme>\n</lexicon>");
         let import = read_pls(xml.as_bytes(), "t.pls", &set, "t").unwrap();
         assert!(import.entries.is_empty());
         assert_eq!(import.rejected.len(), 1);

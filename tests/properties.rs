@@ -397,3 +397,99 @@ proptest! {
         prop_assert_eq!(ledger_state(&once, &logged), ledger_state(&twice, &logged));
     }
 }
+
+/// One raw CSV field as a hand-written (or hand-broken) file holds it: unquoted text that may
+/// hold stray quotes (`fo"o`), a quoted field with commas, doubled quotes and line breaks, or a
+/// quoted part followed by more text (`"ab"cd`, which an RFC 4180 reader such as the `csv`
+/// crate reads as `abcd`). `multiline` allows line breaks inside quotes (not in headwords, which
+/// the loader refuses with control characters).
+fn raw_field(multiline: bool) -> impl Strategy<Value = String> {
+    let letters = proptest::collection::vec(proptest::char::range('a', 'e'), 1..6).prop_map(String::from_iter);
+    let inner = proptest::collection::vec(
+        prop_oneof![
+            4 => proptest::char::range('a', 'e').prop_map(|c| c.to_string()),
+            1 => Just(",".to_string()),
+            1 => Just("\"\"".to_string()),
+            1 => Just(if multiline { "\n" } else { "x" }.to_string()),
+            1 => Just(if multiline { "\r\n" } else { "y" }.to_string()),
+        ],
+        1..8,
+    )
+    .prop_map(|parts| parts.concat());
+    prop_oneof![
+        3 => letters.clone(),
+        2 => (letters.clone(), letters.clone()).prop_map(|(a, b)| format!("{a}\"{b}")),
+        2 => inner.clone().prop_map(|t| format!("\"{t}\"")),
+        1 => (inner, letters).prop_map(|(t, rest)| format!("\"{t}\"{rest}")),
+    ]
+}
+
+/// A raw store: header, rows of six fields (valid status, empty score), LF or CRLF line ends,
+/// and sometimes a last row whose note opens a quote that is never closed.
+fn raw_store() -> impl Strategy<Value = (Vec<u8>, bool)> {
+    let row = (raw_field(false), raw_field(false), raw_field(true), raw_field(true), any::<bool>());
+    (proptest::collection::vec(row, 0..40), any::<bool>(), proptest::bool::weighted(0.15)).prop_map(|(rows, crlf, open)| {
+        let mut text = String::from("word,pronunciation,status,source,score,note\n");
+        for (word, pronunciation, source, note, row_crlf) in rows {
+            text.push_str(&format!("{word},{pronunciation},imported,{source},,{note}"));
+            text.push_str(if crlf && row_crlf { "\r\n" } else { "\n" });
+        }
+        if open {
+            text.push_str("last,K IY1,imported,,,\"open note\nnever closed\n");
+        }
+        (text.into_bytes(), open)
+    })
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(96))]
+
+    /// The store loader reads exactly what the `csv` crate's serial reader (RFC 4180) reads, at
+    /// every chunk size around the file's length (1 byte, a few records, just under, at and over
+    /// the whole body), and refuses a quote still open at the end wherever the cuts fall.
+    #[test]
+    fn chunked_store_loading_reads_what_a_serial_rfc4180_reader_reads((bytes, open) in raw_store()) {
+        let mut reader = csv::ReaderBuilder::new().has_headers(true).flexible(true).from_reader(&bytes[..]);
+        let serial: Vec<Vec<String>> = reader
+            .records()
+            .map(|r| r.map(|r| r.iter().map(str::to_string).collect()))
+            .collect::<Result<_, _>>()
+            .map_err(|e| TestCaseError::fail(format!("csv crate: {e}")))?;
+        let len = bytes.len();
+        for chunk in [1, 2, 16, len / 3, len / 2, len.saturating_sub(1), len, len + 1] {
+            let parsed = Lexicon::parse_in_chunks(&bytes, Path::new("g.csv"), HeadwordPolicy::default(), LoadMode::Strict, chunk.max(1));
+            if open {
+                let refused = matches!(&parsed, Err(orthoepy::lexicon::LexiconError::Parse(at))
+                    if at.message == orthoepy::lexicon::ParseProblem::UnterminatedQuote);
+                prop_assert!(refused, "chunk {}: {:?}", chunk, parsed.map(|l| l.entries().len()));
+                continue;
+            }
+            let lexicon = parsed.map_err(|e| TestCaseError::fail(format!("chunk {chunk}: {e}")))?;
+            let got: Vec<Vec<String>> = lexicon
+                .entries()
+                .iter()
+                .map(|e| vec![e.word.clone(), e.pronunciation.clone(), e.status.as_str().to_string(), e.source.clone(), String::new(), e.note.clone()])
+                .collect();
+            prop_assert_eq!(&got, &serial, "chunk {}", chunk);
+        }
+    }
+}
+
+/// The reproduction of the phantom rows: a stray quote in an unquoted headword, 36,154 plain rows
+/// (over the 1 MiB at which loading goes parallel), then a note that is a quoted field spanning
+/// ten lines. The `csv` crate's serial reader is the reference for the count.
+#[test]
+fn stray_quote_before_a_multi_line_note_makes_no_phantom_rows() {
+    let mut text = String::from("word,pronunciation,status,source,score,note\nfo\"o,F UW1,imported,x,,\n");
+    for i in 0..36_154 {
+        text.push_str(&format!("word{i:06},W ER1 D,imported,cmudict,,\n"));
+    }
+    text.push_str("last,L AE1 S T,imported,x,,\"line 1\nline 2\nline 3\nline 4\nline 5\nline 6\nline 7\nline 8\nline 9\nline 10\"\n");
+    assert!(text.len() > 1 << 20, "the file must be over the parallel threshold");
+    let serial = csv::Reader::from_reader(text.as_bytes()).records().count();
+    let lexicon = Lexicon::parse(text.as_bytes(), Path::new("big.csv"), HeadwordPolicy::default(), LoadMode::Strict).unwrap();
+    assert_eq!(serial, 36_156);
+    assert_eq!(lexicon.entries().len(), serial);
+    assert_eq!(lexicon.entries()[0].word, "fo\"o");
+    assert_eq!(lexicon.entries()[36_155].note.lines().count(), 10);
+}

@@ -14,7 +14,7 @@ mod store;
 
 pub use entry::{join_phones, Entry, Status, UnknownStatus};
 pub use index::{EntryId, IndexError, IndexOptions, LexiconIndex};
-pub use normalize::{check_headword, normalize_headword, normalize_key, HeadwordError, HeadwordPolicy};
+pub use normalize::{check_controls, check_headword, find_control, normalize_headword, normalize_key, HeadwordError, HeadwordPolicy};
 pub use query::{find, Query};
 pub use stats::LexiconStats;
 pub use store::{LexiconError, LoadMode, Lexicon, ParseProblem, COLUMNS, MAX_LEXICON};

@@ -36,6 +36,33 @@ pub enum HeadwordError {
     /// The headword starts or ends with whitespace.
     #[error("headword {0:?} has surrounding whitespace; remove it (`orthoepy audit --fix` trims it)")]
     SurroundingWhitespace(String),
+    /// The headword holds a control character (NUL, tab, newline, ...), which no export or
+    /// build lexicon can carry.
+    #[error("headword {word:?} holds the control character {}; remove it (control characters cannot be exported)", code_point(*character))]
+    ControlCharacter {
+        /// The headword as written.
+        word: String,
+        /// The first control character in it.
+        character: char,
+    },
+}
+
+/// `U+0009`-style name of a character, for messages.
+fn code_point(c: char) -> String {
+    format!("U+{:04X}", c as u32)
+}
+
+/// The first control character (Unicode general category Cc: U+0000–U+001F, U+007F–U+009F) in
+/// `text`, with its 0-based character index. Headwords and pronunciations must have none: a tab,
+/// newline or NUL would split or corrupt a line of every exported lexicon.
+///
+/// ```
+/// use orthoepy::lexicon::find_control;
+/// assert_eq!(find_control("quay"), None);
+/// assert_eq!(find_control("qu\u{0}ay"), Some((2, '\u{0}')));
+/// ```
+pub fn find_control(text: &str) -> Option<(usize, char)> {
+    text.chars().enumerate().find(|(_, c)| c.is_control())
 }
 
 /// The index key of a headword: NFC, lower-cased when the policy folds case.
@@ -54,7 +81,7 @@ pub fn normalize_headword(word: &str, policy: &HeadwordPolicy) -> Result<String,
 }
 
 /// The checks of [`normalize_headword`] without computing the key: not empty, no surrounding
-/// whitespace.
+/// whitespace, no control character.
 ///
 /// ```
 /// use orthoepy::lexicon::{check_headword, HeadwordError};
@@ -68,7 +95,16 @@ pub fn check_headword(word: &str) -> Result<(), HeadwordError> {
     if word.trim() != word {
         return Err(HeadwordError::SurroundingWhitespace(word.to_string()));
     }
-    Ok(())
+    check_controls(word)
+}
+
+/// Refuses a headword holding a control character (see [`find_control`]); the only check the
+/// store's repair mode keeps besides emptiness.
+pub fn check_controls(word: &str) -> Result<(), HeadwordError> {
+    match find_control(word) {
+        Some((_, character)) => Err(HeadwordError::ControlCharacter { word: word.to_string(), character }),
+        None => Ok(()),
+    }
 }
 
 /// The key without the whitespace checks, for callers that already validated the headword or that
@@ -123,6 +159,15 @@ mod tests {
         assert!(matches!(normalize_headword("quay ", &FOLD), Err(HeadwordError::SurroundingWhitespace(_))));
         assert!(matches!(normalize_headword("\u{a0}quay", &FOLD), Err(HeadwordError::SurroundingWhitespace(_))));
         assert_eq!(normalize_headword("new york", &FOLD).unwrap(), "new york");
+    }
+
+    #[test]
+    fn control_characters_are_refused() {
+        // Unicode general category Cc (The Unicode Standard, ch. 4.5): C0, DEL and C1 controls.
+        for word in ["qu\u{0}ay", "new\nyork", "a\tb", "x\u{7f}", "x\u{85}y"] {
+            assert!(matches!(check_headword(word), Err(HeadwordError::ControlCharacter { .. })), "{word:?}");
+        }
+        assert!(check_headword("caf\u{e9}").is_ok());
     }
 
     #[test]

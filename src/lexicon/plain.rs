@@ -9,7 +9,7 @@
 
 use super::entry::{join_phones, Entry, Status};
 use super::index::IndexOptions;
-use super::normalize::{normalize_key, HeadwordPolicy};
+use super::normalize::{find_control, normalize_key, HeadwordPolicy};
 use super::store::MAX_LEXICON;
 use crate::support::located::{origin_of, Located};
 use crate::support::read::{read_capped, Limit, ReadError};
@@ -109,6 +109,15 @@ fn parse_line(content: &str) -> Result<(&str, &str), (usize, String)> {
     if phones.trim().is_empty() {
         let at = column + head.chars().count();
         return Err((at, format!("{word:?} has no pronunciation; add phones after the word or delete the line")));
+    }
+    // Whitespace (tabs included) separates the fields; any other control character would reach
+    // the store and every export.
+    let rest_column = column + head.chars().count();
+    for (offset, text) in [(column, head), (rest_column, phones)] {
+        if let Some((at, control)) = find_control(text).filter(|(_, c)| !c.is_whitespace()) {
+            let what = if offset == column { "headword" } else { "pronunciation" };
+            return Err((offset + at, format!("{what} holds the control character U+{:04X}; remove it", control as u32)));
+        }
     }
     Ok((word, phones.trim()))
 }
@@ -227,6 +236,14 @@ mod tests {
         assert_eq!(import.entries.len(), 1);
         let found: Vec<(usize, usize)> = import.rejected.iter().map(|r| (r.line().unwrap_or(0), r.column().unwrap_or(0))).collect();
         assert_eq!(found, [(2, 7), (3, 1), (4, 4)]);
+    }
+
+    #[test]
+    fn control_characters_are_rejected_with_their_column() {
+        let import = read_plain(b"qu\0ay K IY1\nferry F EH1\x01 R IY0\nok\tOW1 K EY1\n", "t.dict", "t");
+        let found: Vec<(usize, usize)> = import.rejected.iter().map(|r| (r.line().unwrap_or(0), r.column().unwrap_or(0))).collect();
+        assert_eq!(found, [(1, 3), (2, 12)]);
+        assert_eq!(import.entries.len(), 1, "a tab only separates");
     }
 
     #[test]

@@ -9,7 +9,7 @@
 //! writes nothing. The module must not interpret phone symbols: that is the phoneset's job.
 
 use super::entry::{Entry, Status};
-use super::normalize::{check_headword, normalize_key, HeadwordError, HeadwordPolicy};
+use super::normalize::{check_controls, check_headword, find_control, normalize_key, HeadwordError, HeadwordPolicy};
 use crate::safe_io::{self, Fingerprint};
 use crate::support::located::{line_column, origin_of, Located, Position};
 use crate::support::read::{read_capped, Limit, ReadError, MIB};
@@ -56,6 +56,12 @@ pub enum ParseProblem {
         /// Fields in this row.
         found: usize,
     },
+    /// A quoted field is still open at the end of the file.
+    #[error("the quoted field that starts here is never closed; add the closing `\"` (a quote inside a quoted field is written `\"\"`)")]
+    UnterminatedQuote,
+    /// A pronunciation holds a control character (tab, newline, NUL, ...).
+    #[error("pronunciation holds the control character U+{:04X}; phones are separated by single spaces, remove it", *.0 as u32)]
+    ControlInPronunciation(char),
     /// Any other CSV syntax problem.
     #[error("{0}")]
     Csv(String),
@@ -151,6 +157,30 @@ impl Lexicon {
 
     /// Parses store bytes; `path` is used only in error messages.
     pub fn parse(bytes: &[u8], path: &Path, policy: HeadwordPolicy, mode: LoadMode) -> Result<Lexicon, LexiconError> {
+        Lexicon::parse_in_chunks(bytes, path, policy, mode, PARALLEL_CHUNK_BYTES)
+    }
+
+    /// [`parse`](Self::parse) with the bodies of stores larger than `chunk_bytes` cut into pieces
+    /// of about that size, parsed in parallel. The result is the same for every chunk size (the
+    /// cuts are made exactly where an RFC 4180 reader ends a record); `parse` uses 1 MiB. Tests
+    /// pass small sizes to check that.
+    ///
+    /// ```
+    /// use orthoepy::lexicon::{HeadwordPolicy, LoadMode, Lexicon};
+    /// let text = "word,pronunciation,status,source,score,note\nfo\"o,F UW1,imported,,,\"a\nb\"\nquay,K IY1,imported,,,\n";
+    /// let path = std::path::Path::new("l.csv");
+    /// let whole = Lexicon::parse_in_chunks(text.as_bytes(), path, HeadwordPolicy::default(), LoadMode::Strict, 1 << 20).unwrap();
+    /// let cut = Lexicon::parse_in_chunks(text.as_bytes(), path, HeadwordPolicy::default(), LoadMode::Strict, 1).unwrap();
+    /// assert_eq!(whole.entries(), cut.entries());
+    /// assert_eq!(cut.entries()[0].note, "a\nb");
+    /// ```
+    pub fn parse_in_chunks(
+        bytes: &[u8],
+        path: &Path,
+        policy: HeadwordPolicy,
+        mode: LoadMode,
+        chunk_bytes: usize,
+    ) -> Result<Lexicon, LexiconError> {
         let body = bytes.strip_prefix(BOM).unwrap_or(bytes);
         let text = std::str::from_utf8(body).map_err(|err| {
             let (line, column) = line_column(body, err.valid_up_to());
@@ -169,7 +199,10 @@ impl Lexicon {
         let rows = RowParser { text, path, mode, layout: &layout, fields: header.len() };
         // Large stores are cut at record boundaries and parsed on all cores; the first error in
         // file order is the one reported.
-        let chunks = split_records(body, first_line, PARALLEL_CHUNK_BYTES);
+        let chunks = split_records(body, first_line, chunk_bytes.max(1)).map_err(|quote| {
+            let (line, column) = line_column(text.as_bytes(), body_start + quote);
+            fail(line, column, ParseProblem::UnterminatedQuote)
+        })?;
         let parsed: Vec<Result<Vec<Entry>, LexiconError>> =
             chunks.par_iter().map(|&(chunk, line)| rows.parse(chunk, line)).collect();
         let mut entries = Vec::with_capacity(parsed.iter().map(|p| p.as_ref().map_or(0, Vec::len)).sum());
@@ -293,32 +326,61 @@ const BOM: &[u8] = b"\xEF\xBB\xBF";
 /// Stores larger than this are parsed in chunks of about this size in parallel.
 const PARALLEL_CHUNK_BYTES: usize = 1 << 20;
 
+/// Where a record scan stands. The states are those of the `csv` crate's reader with its
+/// defaults (comma, `"` quotes doubled inside quoted fields, CR, LF or CRLF ending a record), which
+/// read RFC 4180 (Y. Shafranovich, *Common Format and MIME Type for CSV Files*, 2005) and take a
+/// quote that does not open a field as an ordinary character: `fo"o` is the four letters.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum Scan {
+    /// At the start of a field (or of a record).
+    FieldStart,
+    /// Inside a field that did not start with a quote: quotes are ordinary characters.
+    Unquoted,
+    /// Inside a quoted field: commas and line ends are part of the field.
+    Quoted,
+    /// Just after a quote inside a quoted field: a second quote is an escaped quote, anything
+    /// else closes the quoted part.
+    QuoteInQuoted,
+}
+
 /// Cuts `body` (which starts on line `first_line`) into pieces of at least `chunk` bytes that end
-/// at record boundaries: newlines outside quoted fields, found by quote parity (RFC 4180 quotes
-/// escape themselves by doubling, so parity is exact). Returns each piece with its first line.
-fn split_records(body: &str, first_line: usize, chunk: usize) -> Vec<(&str, usize)> {
+/// at record boundaries: line feeds that end a record for an RFC 4180 reader (see [`Scan`]), so
+/// each piece reads exactly as it would in the whole file. Returns each piece with its first line,
+/// or the byte offset of the quote that opens a field still open at the end of `body`.
+fn split_records(body: &str, first_line: usize, chunk: usize) -> Result<Vec<(&str, usize)>, usize> {
     let bytes = body.as_bytes();
     let mut pieces = Vec::new();
-    let (mut start, mut line, mut quoted, mut newlines) = (0, first_line, false, 0);
+    let (mut start, mut line, mut newlines, mut opened) = (0, first_line, 0, 0);
+    let mut state = Scan::FieldStart;
     for (i, &b) in bytes.iter().enumerate() {
-        match b {
-            b'"' => quoted = !quoted,
-            b'\n' => {
-                newlines += 1;
-                if !quoted && i + 1 - start >= chunk {
-                    pieces.push((&body[start..=i], line));
-                    line += newlines;
-                    newlines = 0;
-                    start = i + 1;
-                }
+        state = match (state, b) {
+            (Scan::Quoted, b'"') => Scan::QuoteInQuoted,
+            (Scan::Quoted, _) => Scan::Quoted,
+            (Scan::FieldStart, b'"') => {
+                opened = i;
+                Scan::Quoted
             }
-            _ => {}
+            (Scan::QuoteInQuoted, b'"') => Scan::Quoted,
+            (_, b',' | b'\r' | b'\n') => Scan::FieldStart,
+            _ => Scan::Unquoted,
+        };
+        if b == b'\n' {
+            newlines += 1;
+            if state == Scan::FieldStart && i + 1 - start >= chunk {
+                pieces.push((&body[start..=i], line));
+                line += newlines;
+                newlines = 0;
+                start = i + 1;
+            }
         }
+    }
+    if state == Scan::Quoted {
+        return Err(opened);
     }
     if start < bytes.len() || pieces.is_empty() {
         pieces.push((&body[start..], line));
     }
-    pieces
+    Ok(pieces)
 }
 
 /// Turns data rows into entries; shared by all chunks of one file.
@@ -359,9 +421,13 @@ impl RowParser<'_> {
             let headword_check = match self.mode {
                 LoadMode::Strict => check_headword(word),
                 LoadMode::Repair if word.is_empty() => Err(HeadwordError::Empty),
-                LoadMode::Repair => Ok(()),
+                LoadMode::Repair => check_controls(word),
             };
             headword_check.map_err(|e| self.fail(line, layout.word, ParseProblem::Headword(e)))?;
+            let pronunciation = field(layout.pronunciation);
+            if let Some((_, control)) = find_control(pronunciation) {
+                return Err(self.fail(line, layout.pronunciation, ParseProblem::ControlInPronunciation(control)));
+            }
             let status_text = field(layout.status);
             let status = status_text
                 .parse::<Status>()
@@ -377,7 +443,7 @@ impl RowParser<'_> {
             };
             entries.push(Entry {
                 word: word.to_string(),
-                pronunciation: field(layout.pronunciation).to_string(),
+                pronunciation: pronunciation.to_string(),
                 status,
                 source: field(layout.source).to_string(),
                 score,
@@ -618,9 +684,33 @@ mod tests {
     #[test]
     fn records_split_only_outside_quotes() {
         let body = "a,\"x\ny\",1\nb,2\nc,3\n";
-        let pieces = split_records(body, 2, 1);
+        let pieces = split_records(body, 2, 1).unwrap();
         assert_eq!(pieces, [("a,\"x\ny\",1\n", 2), ("b,2\n", 4), ("c,3\n", 5)]);
-        assert_eq!(split_records("", 2, 1), [("", 2)]);
+        assert_eq!(split_records("", 2, 1).unwrap(), [("", 2)]);
+        // A quote inside an unquoted field is an ordinary character (as the csv crate reads it);
+        // one after a closing quote continues the field unquoted.
+        let stray = "fo\"o,1\nb,\"x\ny\"z\"\nc,3\n";
+        assert_eq!(split_records(stray, 2, 1).unwrap(), [("fo\"o,1\n", 2), ("b,\"x\ny\"z\"\n", 3), ("c,3\n", 5)]);
+        assert_eq!(split_records("a,\"open\nb,2\n", 2, 1), Err(2));
+    }
+
+    #[test]
+    fn unterminated_quote_at_the_end_is_refused_at_its_start() {
+        let (line, column, problem) = problem_at(&format!("{HEADER}ok,K,accepted,,,\nquay,K IY1,accepted,,,\"never closed\n"));
+        assert_eq!((line, column, problem), (3, 23, ParseProblem::UnterminatedQuote));
+    }
+
+    #[test]
+    fn control_characters_in_words_and_pronunciations_are_refused() {
+        let (line, column, problem) = problem_at(&format!("{HEADER}ok,K,accepted,,,\nqu\u{0}ay,K IY1,accepted,,,\n"));
+        assert_eq!((line, column), (3, 1));
+        assert!(matches!(problem, ParseProblem::Headword(HeadwordError::ControlCharacter { character: '\u{0}', .. })));
+        let (_, _, problem) = problem_at(&format!("{HEADER}\"new\nyork\",N UW1,accepted,,,\n"));
+        assert!(matches!(problem, ParseProblem::Headword(HeadwordError::ControlCharacter { character: '\n', .. })));
+        let (line, column, problem) = problem_at(&format!("{HEADER}quay,\"K\tIY1\",accepted,,,\n"));
+        assert_eq!((line, column, problem), (2, 6, ParseProblem::ControlInPronunciation('\t')));
+        let repair = Lexicon::parse(format!("{HEADER}\"a\tb\",K,accepted,,,\n").as_bytes(), Path::new("l.csv"), HeadwordPolicy::default(), LoadMode::Repair);
+        assert!(repair.is_err());
     }
 
     #[test]
