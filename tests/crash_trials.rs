@@ -502,6 +502,12 @@ fn review_trial(start: &Path, dir: &Path, name: &str, delay: Duration, tally: &m
     unsafe {
         libc::kill(pid, libc::SIGKILL);
     }
+    // SIGKILL is delivered asynchronously: until the process is gone (or a zombie), its lock
+    // rightly counts as held.
+    let gone_by = Instant::now() + Duration::from_secs(10);
+    while orthoepy::lock::process_running(pid as u32) && Instant::now() < gone_by {
+        std::thread::sleep(Duration::from_millis(5));
+    }
     drop(session);
     let shown = shown_saved(&screen);
     let decided = journal_decisions(&dir.join("p/journal.jsonl"));
@@ -603,6 +609,44 @@ fn print_table(fixture: &Fixture, tallies: &BTreeMap<(Operation, Ending), Tally>
         total += review.trials;
     }
     println!("{total} trials in {:.0} s (seed {:#x})", took.as_secs_f64(), seed());
+}
+
+#[test]
+fn signal_to_a_command_holding_the_lock_releases_it_and_exits_128_plus_the_signal() {
+    // `queue add --words /dev/stdin` takes the project lock, then waits for the word list on a
+    // pipe this test keeps open: a writer stopped while it holds the lock, at a known moment.
+    for (signal, name) in [(libc::SIGTERM, "SIGTERM"), (libc::SIGHUP, "SIGHUP"), (libc::SIGINT, "SIGINT")] {
+        let tmp = tempfile::tempdir().unwrap();
+        common::cli::write_project(tmp.path(), "cat,K AE1 T,accepted,cmu,,\n");
+        let lock = tmp.path().join(orthoepy::lock::LOCK_FILE);
+        let mut child = Command::new(bin())
+            .args(["queue", "add", "--words", "/dev/stdin", "--project"])
+            .arg(tmp.path())
+            .stdin(Stdio::piped())
+            .stdout(Stdio::null())
+            .stderr(Stdio::piped())
+            .spawn()
+            .unwrap();
+        let waited = Instant::now();
+        while !lock.exists() {
+            assert!(waited.elapsed() < Duration::from_secs(20), "{name}: the lock was never taken");
+            std::thread::sleep(Duration::from_millis(5));
+        }
+        // SAFETY: kill(2) with the pid of our own running child.
+        unsafe {
+            libc::kill(child.id() as libc::pid_t, signal);
+        }
+        // The pipe stays open until the child has ended, so only the signal can end it.
+        let open_pipe = child.stdin.take();
+        let out = child.wait_with_output().unwrap();
+        drop(open_pipe);
+        // 128 + the signal's number is what a POSIX shell reports for a process a signal ended
+        // (POSIX.1-2017, Shell Command Language, 2.8.2 Exit Status for Commands).
+        assert_eq!(out.status.code(), Some(128 + signal), "{name}: {}", String::from_utf8_lossy(&out.stderr));
+        assert!(!lock.exists(), "{name}: the lock is left");
+        assert!(leftovers(tmp.path()).is_empty(), "{name}: left {:?}", leftovers(tmp.path()));
+        assert!(!tmp.path().join("queue.jsonl").exists(), "{name}: a queue was written");
+    }
 }
 
 #[test]

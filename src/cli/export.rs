@@ -32,6 +32,8 @@ pub enum PlsAlphabet {
 /// Write the deterministic build lexicon (plain or W3C PLS) and its phone list.
 ///
 /// One line per pronunciation, sorted by headword then variant order, deprecated entries left out.
+/// OUT.sha256, written last, lists the files written (check it with `sha256sum -c` in OUT's
+/// folder before a build uses them: an export that was killed halfway leaves no list).
 ///
 /// Examples:
 ///   orthoepy export lexicon.csv --format plain -o build/lexicon.txt --phones build/phones.txt
