@@ -14,10 +14,14 @@
 //! (Linux boot id), or no process has its PID, or that process has exited and waits to be
 //! collected by its parent (a zombie), or the process with its PID started at another moment
 //! than the holder did (PID reuse; states and start times from `/proc/PID/stat`).
+//!
+//! The locks this process holds are also kept in a list, so a handler for a termination signal
+//! can release them before exiting ([`release_held_locks`]).
 
 use std::fs;
 use std::io::{self, Read};
 use std::path::{Path, PathBuf};
+use std::sync::{Mutex, PoisonError};
 use std::time::{SystemTime, UNIX_EPOCH};
 
 use serde::{Deserialize, Serialize};
@@ -33,6 +37,28 @@ const LOCK_FORMAT: u32 = 1;
 
 /// Lock files larger than this are not ours (bytes).
 const MAX_LOCK_BYTES: u64 = 64 * 1024;
+
+/// The locks this process holds: each lock file with the bytes we wrote into it.
+static HELD: Mutex<Vec<(PathBuf, Vec<u8>)>> = Mutex::new(Vec::new());
+
+/// Removes every lock this process holds (each only if it still holds our own bytes), for a
+/// process about to exit without running its destructors. Call it while holding
+/// [`safe_io::hold_writes`], so no write of the lock's holder runs after the lock is gone.
+///
+/// ```
+/// let dir = tempfile::tempdir().unwrap();
+/// let lock = orthoepy::lock::ProjectLock::acquire(dir.path(), "apply").unwrap();
+/// let held = orthoepy::safe_io::hold_writes();
+/// orthoepy::lock::release_held_locks();
+/// assert!(!lock.path().exists());
+/// # drop(held);
+/// ```
+pub fn release_held_locks() {
+    let held = HELD.lock().unwrap_or_else(PoisonError::into_inner);
+    for (path, contents) in held.iter() {
+        let _ = remove_if_holding(path, contents);
+    }
+}
 
 /// Who holds (or held) a project lock.
 #[derive(Debug, Clone, PartialEq, Eq, Serialize, Deserialize)]
@@ -232,6 +258,7 @@ impl ProjectLock {
     /// when the lock file cannot be read; takes over a lock whose process has gone (see
     /// [`notes`](Self::notes)).
     pub fn acquire(root: &Path, command: &str) -> Result<ProjectLock, LockError> {
+        let step = safe_io::hold_writes();
         let path = root.join(LOCK_FILE);
         let io_err = |source| LockError::Io { path: path.clone(), source };
         let holder = LockHolder::current(command);
@@ -241,6 +268,9 @@ impl ProjectLock {
         // rounds are only needed when other processes race for the same lock.
         for _ in 0..4 {
             if create_exclusive(&path, &contents).map_err(io_err)? {
+                HELD.lock().unwrap_or_else(PoisonError::into_inner).push((path.clone(), contents.clone()));
+                // Dropping the lock below (when cleaning fails) takes the step itself.
+                drop(step);
                 let mut lock = ProjectLock { path, contents, holder, notes, released: false };
                 // Our own lock's temporary file, left by a process killed while taking it.
                 let own = lock.path.clone();
@@ -292,7 +322,7 @@ impl ProjectLock {
     pub fn clean_leftovers(&mut self, targets: &[&Path]) -> Result<Vec<PathBuf>, LockError> {
         let mut removed = Vec::new();
         for target in targets {
-            let gone = safe_io::remove_leftover_temps(target, |pid| !process_gone(pid) && !process_exited(pid))
+            let gone = safe_io::remove_leftover_temps(target, process_running)
                 .map_err(|source| LockError::Io { path: target.to_path_buf(), source })?;
             removed.extend(gone);
         }
@@ -323,13 +353,9 @@ impl ProjectLock {
     }
 
     fn remove_if_ours(&self) -> io::Result<()> {
-        if read_capped(&self.path)?.as_deref() == Some(self.contents.as_slice()) {
-            match fs::remove_file(&self.path) {
-                Err(err) if err.kind() != io::ErrorKind::NotFound => return Err(err),
-                _ => {}
-            }
-        }
-        Ok(())
+        let _step = safe_io::hold_writes();
+        HELD.lock().unwrap_or_else(PoisonError::into_inner).retain(|(path, _)| *path != self.path);
+        remove_if_holding(&self.path, &self.contents)
     }
 }
 
@@ -339,6 +365,28 @@ impl Drop for ProjectLock {
             let _ = self.remove_if_ours();
         }
     }
+}
+
+/// Removes the lock file at `path` if it holds `contents`.
+fn remove_if_holding(path: &Path, contents: &[u8]) -> io::Result<()> {
+    if read_capped(path)?.as_deref() == Some(contents) {
+        match fs::remove_file(path) {
+            Err(err) if err.kind() != io::ErrorKind::NotFound => return Err(err),
+            _ => {}
+        }
+    }
+    Ok(())
+}
+
+/// Whether a process with this id runs on this host: it exists and has not exited (a zombie
+/// waiting to be collected does not count). Temporary files named after a running process are
+/// never removed as leftovers.
+///
+/// ```
+/// assert!(orthoepy::lock::process_running(std::process::id()));
+/// ```
+pub fn process_running(pid: u32) -> bool {
+    !process_gone(pid) && !process_exited(pid)
 }
 
 /// Creates `path` holding `contents` only if it does not exist. Returns whether it was created.
@@ -425,7 +473,7 @@ fn standing(holder: &LockHolder) -> Standing {
             return Standing::Gone;
         }
     }
-    if process_gone(holder.pid) || process_exited(holder.pid) {
+    if !process_running(holder.pid) {
         return Standing::Gone;
     }
     match (holder.process_start, process_start(holder.pid)) {

@@ -45,9 +45,36 @@ fn restore_default_sigpipe() {
     }
 }
 
+/// SIGTERM, SIGHUP and SIGINT end a command between two write steps, never inside one: a
+/// thread waits for the signal, waits for the write step in progress to end
+/// (`safe_io::hold_writes`, which also keeps the next from starting), releases the project lock
+/// and exits with status 128 + the signal's number, as a shell reports a process the signal ended.
+/// Every file is then old or new, and no temporary file is left. The review screen (and the demo,
+/// which opens it) keeps the default actions: it restores the terminal itself.
+fn end_between_writes_on_termination() {
+    #[cfg(unix)]
+    {
+        use signal_hook::consts::{SIGHUP, SIGINT, SIGTERM};
+        let Ok(mut signals) = signal_hook::iterator::Signals::new([SIGTERM, SIGHUP, SIGINT]) else {
+            eprintln!("warning: cannot watch for termination signals; a signal now ends the command at once");
+            return;
+        };
+        std::thread::spawn(move || {
+            if let Some(signal) = signals.forever().next() {
+                let _no_more_writes = orthoepy::safe_io::hold_writes();
+                orthoepy::lock::release_held_locks();
+                std::process::exit(128 + signal);
+            }
+        });
+    }
+}
+
 fn main() -> ExitCode {
     restore_default_sigpipe();
     let cli = Cli::parse();
+    if !matches!(cli.command, Command::Review(_) | Command::Demo(_)) {
+        end_between_writes_on_termination();
+    }
     let result = match cli.command {
         Command::Import(args) => cli::import::run(args),
         Command::Export(args) => cli::export::run(args),

@@ -8,11 +8,40 @@
 //! compares it again after the new content is on disk, just before the backup and the rename, so
 //! an edit made by someone else meanwhile is refused rather than lost. Temporary files left by a
 //! killed save are recognised by their exact name pattern and removed by
-//! [`remove_leftover_temps`]. It must not know what the bytes mean.
+//! [`remove_leftover_temps`]. Files that belong together (a build lexicon and its phone list) are
+//! replaced by [`replace_together`], which vouches for the set with a checksum list written last.
+//! Every write step of this process is one critical section ([`hold_writes`]), so a signal handler
+//! can wait for the step in progress and then stop the process between steps. It must not know
+//! what the bytes mean.
 
 use std::fs::{self, File, OpenOptions};
 use std::io::{self, Write};
 use std::path::{Path, PathBuf};
+use std::sync::{Mutex, MutexGuard, PoisonError};
+
+/// Held by every write step of this process: a replace, an append, taking or releasing the
+/// project lock.
+static WRITING: Mutex<()> = Mutex::new(());
+
+/// Waits until the write step in progress in this process (if any) has ended, and keeps every
+/// later one from starting while the returned guard lives.
+///
+/// A step is one call of [`atomic_write`], [`replace_if_unchanged`], [`replace_together`],
+/// [`append_synced`], or taking or releasing the project lock; when it ends, its temporary files
+/// are renamed into place or removed. The binary's handler for SIGTERM, SIGHUP and SIGINT takes
+/// this guard, releases the project lock
+/// ([`release_held_locks`](crate::lock::release_held_locks)) and exits, so a signal leaves every
+/// file old or new and no temporary file behind. Never call it from a thread that is inside a
+/// step (it would wait for itself).
+///
+/// ```
+/// let held = orthoepy::safe_io::hold_writes();
+/// // ... no write of this process can start here ...
+/// drop(held);
+/// ```
+pub fn hold_writes() -> MutexGuard<'static, ()> {
+    WRITING.lock().unwrap_or_else(PoisonError::into_inner)
+}
 
 /// What a file held when it was read: its length and a CRC-32 of its bytes.
 ///
@@ -85,6 +114,7 @@ pub enum WriteError {
 /// assert_eq!(std::fs::read(dir.path().join("a.txt.bak")).unwrap(), b"one\n");
 /// ```
 pub fn atomic_write(path: &Path, bytes: &[u8], keep_backup: bool) -> io::Result<()> {
+    let _step = hold_writes();
     match replace(path, bytes, None, keep_backup) {
         Ok(()) => Ok(()),
         Err(WriteError::Io(err)) => Err(err),
@@ -114,6 +144,7 @@ pub fn atomic_write(path: &Path, bytes: &[u8], keep_backup: bool) -> io::Result<
 /// assert_eq!(std::fs::read(&path).unwrap(), b"someone else's edit\n");
 /// ```
 pub fn replace_if_unchanged(path: &Path, bytes: &[u8], expected: Fingerprint, keep_backup: bool) -> Result<(), WriteError> {
+    let _step = hold_writes();
     replace(path, bytes, Some(expected), keep_backup)
 }
 
@@ -146,6 +177,89 @@ fn replace(path: &Path, bytes: &[u8], expected: Option<Fingerprint>, keep_backup
         let _ = fs::remove_file(&temp);
     }
     result
+}
+
+/// Replaces several files that belong together (a build lexicon and its phone list) and writes
+/// `manifest` last: a checksum list in the format of GNU coreutils `sha256sum` (one line per file,
+/// `HEX  NAME`; SHA-256 of FIPS 180-4) that `sha256sum -c` checks.
+///
+/// Each file alone is replaced atomically. The set is vouched for by the list: the old list is
+/// removed before the first file changes and the new one is put in place (atomically) after the
+/// last, so whenever a list exists it matches every file in it. A process killed between the
+/// renames leaves no list, and a reader that checks it (`cd FOLDER && sha256sum -c MANIFEST`)
+/// refuses the mixed set. A file in the manifest's folder is listed by its name, any other by its
+/// absolute path. Names with a newline or a backslash are refused (`sha256sum` would escape them).
+///
+/// ```
+/// let dir = tempfile::tempdir().unwrap();
+/// let (words, phones) = (dir.path().join("words.txt"), dir.path().join("phones.txt"));
+/// let manifest = dir.path().join("words.txt.sha256");
+/// orthoepy::safe_io::replace_together(&[(&words, b"abc"), (&phones, b"")], &manifest).unwrap();
+/// // FIPS 180-2, Appendix B.1 ("abc"); the empty message's digest is the one every
+/// // implementation prints for an empty file (common practice, `sha256sum /dev/null`).
+/// assert_eq!(std::fs::read_to_string(&manifest).unwrap(),
+///     "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad  words.txt\n\
+///      e3b0c44298fc1c149afbf4c8996fb92427ae41e4649b934ca495991b7852b855  phones.txt\n");
+/// ```
+pub fn replace_together(files: &[(&Path, &[u8])], manifest: &Path) -> io::Result<()> {
+    let _step = hold_writes();
+    let listing = checksum_list(files, &folder_of(manifest))?;
+    let pid = std::process::id();
+    let temps: Vec<PathBuf> = files.iter().map(|(path, _)| temp_path(path, pid)).collect();
+    let result = (|| {
+        for ((_, bytes), temp) in files.iter().zip(&temps) {
+            write_synced(temp, bytes)?;
+        }
+        // From here until the new list is in place, no list vouches for the set.
+        match fs::remove_file(manifest) {
+            Ok(()) => sync_folder(&folder_of(manifest))?,
+            Err(err) if err.kind() == io::ErrorKind::NotFound => {}
+            Err(err) => return Err(err),
+        }
+        for ((path, _), temp) in files.iter().zip(&temps) {
+            fs::rename(temp, path)?;
+            sync_folder(&folder_of(path))?;
+            hook::run(hook::Stage::MemberRenamed);
+        }
+        Ok(())
+    })();
+    if result.is_err() {
+        for temp in &temps {
+            let _ = fs::remove_file(temp);
+        }
+    }
+    result?;
+    match replace(manifest, listing.as_bytes(), None, false) {
+        Ok(()) => Ok(()),
+        Err(WriteError::Io(err)) => Err(err),
+        Err(WriteError::Changed) => Err(io::Error::other("changed on disk while saving")),
+    }
+}
+
+/// The `sha256sum` lines for `files` as seen from `folder`.
+fn checksum_list(files: &[(&Path, &[u8])], folder: &Path) -> io::Result<String> {
+    use sha2::Digest;
+    let here = fs::canonicalize(folder)?;
+    let mut listing = String::new();
+    for (path, bytes) in files {
+        let name = path.file_name().ok_or_else(|| io::Error::new(io::ErrorKind::InvalidInput, "no file name"))?;
+        let own_folder = fs::canonicalize(folder_of(path))?;
+        let shown = if own_folder == here { PathBuf::from(name) } else { own_folder.join(name) };
+        let shown = shown.to_str().filter(|s| !s.contains(['\n', '\r', '\\'])).ok_or_else(|| {
+            io::Error::new(
+                io::ErrorKind::InvalidInput,
+                format!("{}: a file listed in a checksum list needs a UTF-8 name without line breaks or backslashes", path.display()),
+            )
+        })?;
+        let digest = sha2::Sha256::digest(bytes);
+        for byte in digest {
+            listing.push_str(&format!("{byte:02x}"));
+        }
+        listing.push_str("  ");
+        listing.push_str(shown);
+        listing.push('\n');
+    }
+    Ok(listing)
 }
 
 /// What identifies a file's current version cheaply: which inode, how long, when last written.
@@ -322,6 +436,8 @@ mod hook {
         BackupStaged,
         /// The backup is in place (one file with the target until the next rename).
         BackupKept,
+        /// One file of a [`replace_together`](super::replace_together) set was renamed into place.
+        MemberRenamed,
     }
 
     /// What a test runs at each stage.
@@ -376,6 +492,7 @@ pub(crate) use hook::{with as with_hook, Stage as HookStage};
 /// assert!(orthoepy::safe_io::append_synced(&path, len, b"stale\n").is_err());
 /// ```
 pub fn append_synced(path: &Path, expected_len: u64, line: &[u8]) -> Result<u64, WriteError> {
+    let _step = hold_writes();
     let mut file = OpenOptions::new().create(true).append(true).open(path)?;
     if file.metadata()?.len() != expected_len {
         return Err(WriteError::Changed);
@@ -559,6 +676,51 @@ mod tests {
         replace_if_unchanged(&path, b"newer\n", Fingerprint::of(b"new\n"), false).unwrap();
         assert_eq!(fs::read(&path).unwrap(), b"newer\n");
         assert_eq!(fs::read(backup_path(&path)).unwrap(), b"old\n");
+    }
+
+    #[test]
+    fn between_the_renames_of_a_set_no_checksum_list_vouches_for_it() {
+        let dir = tempfile::tempdir().unwrap();
+        let (words, phones) = (dir.path().join("w.txt"), dir.path().join("p.txt"));
+        let manifest = dir.path().join("w.txt.sha256");
+        replace_together(&[(&words, b"old words\n"), (&phones, b"old phones\n")], &manifest).unwrap();
+        let seen = std::rc::Rc::new(std::cell::RefCell::new(Vec::new()));
+        let log = seen.clone();
+        let (w, p, m) = (words.clone(), phones.clone(), manifest.clone());
+        with_hook(
+            move |stage| {
+                if stage == HookStage::MemberRenamed {
+                    log.borrow_mut().push((fs::read(&w).unwrap(), fs::read(&p).unwrap(), m.exists()));
+                }
+            },
+            || replace_together(&[(&words, b"new words\n"), (&phones, b"new phones\n")], &manifest).unwrap(),
+        );
+        // What a kill after the first rename leaves: a new lexicon, an old phone list, and no list.
+        let first = (b"new words\n".to_vec(), b"old phones\n".to_vec(), false);
+        let second = (b"new words\n".to_vec(), b"new phones\n".to_vec(), false);
+        assert_eq!(*seen.borrow(), vec![first, second]);
+        let listing = fs::read_to_string(&manifest).unwrap();
+        let want = checksum_list(&[(&words, b"new words\n"), (&phones, b"new phones\n")], dir.path()).unwrap();
+        assert_eq!(listing, want);
+        assert!(listing.ends_with("  p.txt\n"), "{listing}");
+        assert_eq!(names(dir.path()), ["p.txt", "w.txt", "w.txt.sha256"]);
+    }
+
+    #[test]
+    fn set_that_cannot_be_written_changes_nothing() {
+        let dir = tempfile::tempdir().unwrap();
+        let (words, elsewhere) = (dir.path().join("w.txt"), dir.path().join("sub").join("p.txt"));
+        let manifest = dir.path().join("w.txt.sha256");
+        fs::create_dir(dir.path().join("sub")).unwrap();
+        replace_together(&[(&words, b"old\n"), (&elsewhere, b"old\n")], &manifest).unwrap();
+        let listing = fs::read_to_string(&manifest).unwrap();
+        let absolute = fs::canonicalize(dir.path().join("sub")).unwrap().join("p.txt");
+        assert!(listing.ends_with(&format!("  {}\n", absolute.display())), "{listing}");
+        fs::remove_dir_all(dir.path().join("sub")).unwrap();
+        assert!(replace_together(&[(&words, b"new\n"), (&elsewhere, b"new\n")], &manifest).is_err());
+        assert_eq!(fs::read(&words).unwrap(), b"old\n");
+        assert_eq!(fs::read_to_string(&manifest).unwrap(), listing);
+        assert_eq!(names(dir.path()), ["w.txt", "w.txt.sha256"]);
     }
 
     #[test]

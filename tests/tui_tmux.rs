@@ -3,70 +3,11 @@
 //! reopen, and find all three decisions kept; then merge them with `apply`.
 //! Skips (with a message) when tmux is not installed.
 
+mod common;
+
+use common::tmux::{have_tmux, Session};
 use std::path::Path;
 use std::process::Command;
-use std::time::{Duration, Instant};
-
-fn have_tmux() -> bool {
-    Command::new("tmux").arg("-V").output().is_ok_and(|o| o.status.success())
-}
-
-struct Session(String);
-
-impl Session {
-    fn start(name: &str, command: &str) -> Session {
-        let ok = Command::new("tmux")
-            .args(["new-session", "-d", "-s", name, "-x", "100", "-y", "30", command])
-            .env("NO_COLOR", "1")
-            .status()
-            .unwrap()
-            .success();
-        assert!(ok, "tmux new-session failed");
-        Session(name.to_string())
-    }
-
-    fn screen(&self) -> String {
-        let out = Command::new("tmux").args(["capture-pane", "-p", "-t", &self.0]).output().unwrap();
-        String::from_utf8_lossy(&out.stdout).into_owned()
-    }
-
-    fn wait_for(&self, needle: &str) -> String {
-        let start = Instant::now();
-        loop {
-            let s = self.screen();
-            if s.contains(needle) {
-                return s;
-            }
-            assert!(start.elapsed() < Duration::from_secs(20), "timed out waiting for {needle:?}; screen:\n{s}");
-            std::thread::sleep(Duration::from_millis(100));
-        }
-    }
-
-    fn keys(&self, keys: &[&str]) {
-        for k in keys {
-            let ok = Command::new("tmux").args(["send-keys", "-t", &self.0, k]).status().unwrap().success();
-            assert!(ok);
-            std::thread::sleep(Duration::from_millis(60));
-        }
-    }
-
-    fn literal(&self, text: &str) {
-        let ok = Command::new("tmux").args(["send-keys", "-l", "-t", &self.0, text]).status().unwrap().success();
-        assert!(ok);
-        std::thread::sleep(Duration::from_millis(60));
-    }
-
-    fn pid(&self) -> String {
-        let out = Command::new("tmux").args(["display-message", "-p", "-t", &self.0, "#{pane_pid}"]).output().unwrap();
-        String::from_utf8_lossy(&out.stdout).trim().to_string()
-    }
-}
-
-impl Drop for Session {
-    fn drop(&mut self) {
-        let _ = Command::new("tmux").args(["kill-session", "-t", &self.0]).status();
-    }
-}
 
 fn bin() -> &'static str {
     env!("CARGO_BIN_EXE_orthoepy")

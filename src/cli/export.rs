@@ -1,10 +1,14 @@
 //! `orthoepy export`: write the deterministic build lexicon and phone list.
+//!
+//! The files written are vouched for by `OUT.sha256`, a `sha256sum` checksum list written last
+//! (see `safe_io::replace_together`): a build that runs `sha256sum -c` on it in OUT's folder
+//! never takes a new lexicon with an old phone list from an export that was killed halfway.
 
 use super::ProjectArgs;
 use anyhow::Context;
 use orthoepy::lexicon::plain::{write_plain, PlainExport};
-use orthoepy::safe_io::atomic_write;
-use std::path::PathBuf;
+use orthoepy::safe_io::{atomic_write, remove_leftover_temps, replace_together};
+use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
 /// Layouts `export` writes.
@@ -28,6 +32,8 @@ pub enum PlsAlphabet {
 /// Write the deterministic build lexicon (plain or W3C PLS) and its phone list.
 ///
 /// One line per pronunciation, sorted by headword then variant order, deprecated entries left out.
+/// OUT.sha256, written last, lists the files written (check it with `sha256sum -c` in OUT's
+/// folder before a build uses them: an export that was killed halfway leaves no list).
 ///
 /// Examples:
 ///   orthoepy export lexicon.csv --format plain -o build/lexicon.txt --phones build/phones.txt
@@ -43,7 +49,7 @@ pub struct Args {
     /// The build lexicon file to write ("-" for stdout).
     #[arg(short, long, value_name = "OUT")]
     output: PathBuf,
-    /// Also write the phone inventory, one symbol per line.
+    /// Also write the phone inventory, one symbol per line (OUT.sha256 then lists both files).
     #[arg(long, value_name = "OUT")]
     phones: Option<PathBuf>,
     /// Remove stress marks (lines that become identical are written once).
@@ -65,10 +71,30 @@ pub struct Args {
     project: ProjectArgs,
 }
 
+/// The checksum list written beside OUT: `OUT.sha256`.
+fn checksum_list_path(output: &Path) -> PathBuf {
+    let mut name = output.file_name().map(|n| n.to_os_string()).unwrap_or_default();
+    name.push(".sha256");
+    output.with_file_name(name)
+}
+
 pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     super::refuse_overwrite(&args.output, args.force)?;
+    let to_stdout = args.output.as_os_str() == "-";
+    let manifest = (!to_stdout).then(|| checksum_list_path(&args.output));
     if let Some(phones) = &args.phones {
         super::refuse_overwrite(phones, args.force)?;
+        if *phones == args.output || Some(phones) == manifest.as_ref() {
+            anyhow::bail!("--phones {} names a file export writes anyway; give the phone list its own name", phones.display());
+        }
+    }
+    // Temporary files of an export killed before it finished: only a finished process's.
+    for target in [Some(&args.output), args.phones.as_ref(), manifest.as_ref()].into_iter().flatten().filter(|p| p.as_os_str() != "-") {
+        let removed = remove_leftover_temps(target, orthoepy::lock::process_running)
+            .with_context(|| format!("cannot look for leftovers beside {}", target.display()))?;
+        for path in removed {
+            eprintln!("note: removed {}, left behind by an export that was interrupted", path.display());
+        }
     }
     let (lexicon, project) = args.project.load_lexicon(args.lexicon.as_deref())?;
     let options = PlainExport { strip_stress: args.strip_stress, variant_suffix: args.variant_suffix, ..Default::default() };
@@ -84,19 +110,19 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
             orthoepy::pls::write_pls(lexicon.entries(), lexicon.policy(), &set, alphabet, &args.lang)?
         }
     };
-    if args.output.as_os_str() == "-" {
-        print!("{text}");
-    } else {
-        atomic_write(&args.output, text.as_bytes(), false)
-            .with_context(|| format!("cannot write {}", args.output.display()))?;
-    }
-    if let Some(path) = &args.phones {
-        let mut text = String::new();
-        for phone in &build.phones {
-            text.push_str(phone);
-            text.push('\n');
+    let phone_list: Option<(&Path, String)> =
+        args.phones.as_deref().map(|path| (path, build.phones.iter().map(|phone| format!("{phone}\n")).collect()));
+    match (&manifest, &phone_list) {
+        (None, None) => print!("{text}"),
+        (None, Some((path, phones))) => {
+            print!("{text}");
+            atomic_write(path, phones.as_bytes(), false).with_context(|| format!("cannot write {}", path.display()))?;
         }
-        atomic_write(path, text.as_bytes(), false).with_context(|| format!("cannot write {}", path.display()))?;
+        (Some(manifest), _) => {
+            let mut files: Vec<(&Path, &[u8])> = vec![(&args.output, text.as_bytes())];
+            files.extend(phone_list.as_ref().map(|(path, phones)| (*path, phones.as_bytes())));
+            replace_together(&files, manifest).with_context(|| format!("cannot write {}", args.output.display()))?;
+        }
     }
     eprintln!("wrote {} lines, {} phones", build.lines, build.phones.len());
     Ok(ExitCode::SUCCESS)

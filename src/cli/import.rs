@@ -3,7 +3,8 @@
 use anyhow::Context;
 use orthoepy::lexicon::plain::read_plain_file;
 use orthoepy::lexicon::Lexicon;
-use std::path::PathBuf;
+use orthoepy::project::Project;
+use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
 /// Layouts `import` reads.
@@ -50,7 +51,19 @@ pub struct Args {
     strict: bool,
 }
 
+/// The project whose lexicon `output` is, if any: an import into it holds the project lock.
+fn project_of(output: &Path) -> Option<Project> {
+    let absolute = |path: &Path| -> Option<PathBuf> {
+        let folder = path.parent().filter(|p| !p.as_os_str().is_empty()).unwrap_or(Path::new("."));
+        Some(std::fs::canonicalize(folder).ok()?.join(path.file_name()?))
+    };
+    let target = absolute(output)?;
+    let project = Project::discover(target.parent()?).ok()?;
+    (absolute(&project.lexicon)? == target).then_some(project)
+}
+
 pub fn run(args: Args) -> anyhow::Result<ExitCode> {
+    let _lock = project_of(&args.output).map(|project| super::lock_project(&project, "import")).transpose()?;
     super::refuse_overwrite(&args.output, args.force)?;
     let source = args.source.clone().unwrap_or_else(|| {
         args.file.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_default()

@@ -4,6 +4,7 @@
 #![allow(dead_code)]
 
 pub mod cli;
+pub mod tmux;
 
 use orthoepy::lexicon::{Entry, HeadwordPolicy, Lexicon};
 use orthoepy::phoneset::Phoneset;
