@@ -1,7 +1,8 @@
 //! An opened project: everything an `orthoepy.toml` names, read once and checked, and the one
 //! place where the project's guesser is assembled.
 //!
-//! [`Workspace::open`] loads the lexicon and builds its index, resolves the phoneset, the
+//! [`Workspace::open`] loads the lexicon and opens its index (from the cache beside the store when
+//! it is fresh, see [`crate::lexicon::IndexedStore`]), resolves the phoneset, the
 //! language configuration, the letter-to-sound rules and the trained model; a file that is
 //! named but fails to load is an error, never a silent fallback. Every caller that needs
 //! candidates for a word — `orthoepy guess` inside a project, queue intake, the review screen —
@@ -9,14 +10,16 @@
 //! scores everywhere. Accent profiles are resolved through [`Workspace::profile`] (the project's
 //! own profiles by file stem first, then shipped ids and paths).
 //!
-//! This module reads files and runs no user interface; it never writes anything.
+//! This module reads files and runs no user interface; the only thing it writes is the index
+//! cache beside the lexicon (never the project's own files).
 
 use std::path::Path;
+use std::sync::Arc;
 
 use crate::g2p::hybrid::{ConfigError, HybridGuesser, LanguageConfig, Proposal};
 use crate::g2p::lts::{LetterToSoundRules, LtsError};
 use crate::g2p::{Model, ModelFileError};
-use crate::lexicon::{Lexicon, LexiconError, LexiconIndex};
+use crate::lexicon::{CacheState, IndexedStore, Lexicon, LexiconError, LexiconIndex};
 use crate::phoneset::{Phoneset, PhonesetError};
 use crate::project::Project;
 use crate::variants::{Profile, VariantsError};
@@ -88,8 +91,9 @@ pub enum WorkspaceError {
 /// ```
 pub struct Workspace {
     project: Project,
-    lexicon: Lexicon,
-    index: LexiconIndex,
+    lexicon: Arc<Lexicon>,
+    index: Arc<LexiconIndex>,
+    cache: CacheState,
     phoneset: Phoneset,
     language: LanguageConfig,
     rules: Option<LetterToSoundRules>,
@@ -105,7 +109,8 @@ impl Workspace {
 
     /// Opens the project with another model file (or none) instead of the one it names.
     pub fn open_with_model(project: Project, model: Option<&Path>) -> Result<Workspace, WorkspaceError> {
-        let lexicon = Lexicon::load(&project.lexicon, project.headword_policy())?;
+        let store = IndexedStore::open(&project.lexicon, project.headword_policy())?;
+        let cache = store.state().clone();
         let phoneset = Phoneset::resolve(&project.phoneset, &project.root)?;
         let language_id = match project.letter_to_sound.as_deref() {
             Some(id) if LetterToSoundRules::is_shipped(id) => id.to_string(),
@@ -127,8 +132,9 @@ impl Workspace {
             Some(path) => Some(Model::load(path)?),
             None => None,
         };
-        let index = lexicon.index();
-        Ok(Workspace { project, lexicon, index, phoneset, language, rules, model })
+        let (lexicon, index) = store.into_parts()?;
+        let (lexicon, index) = (Arc::new(lexicon), Arc::new(index));
+        Ok(Workspace { project, lexicon, index, cache, phoneset, language, rules, model })
     }
 
     /// The project file's contents.
@@ -146,6 +152,17 @@ impl Workspace {
         &self.index
     }
 
+    /// The lexicon and its index, shared (the review screen's look-ups hold them beside the
+    /// workspace's guesser without a copy).
+    pub fn shared_lexicon(&self) -> (Arc<Lexicon>, Arc<LexiconIndex>) {
+        (Arc::clone(&self.lexicon), Arc::clone(&self.index))
+    }
+
+    /// What was done with the index cache when the lexicon was opened.
+    pub fn cache_state(&self) -> &CacheState {
+        &self.cache
+    }
+
     /// The project's phoneset.
     pub fn phoneset(&self) -> &Phoneset {
         &self.phoneset
@@ -158,7 +175,7 @@ impl Workspace {
 
     /// Gives up the loaded lexicon (e.g. to change and save it).
     pub fn into_lexicon(self) -> Lexicon {
-        self.lexicon
+        Arc::try_unwrap(self.lexicon).unwrap_or_else(|shared| (*shared).clone())
     }
 
     /// The project's guesser: initialisms, compounds and derivations over the lexicon, then the

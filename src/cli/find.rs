@@ -1,7 +1,8 @@
 //! `orthoepy find`: look words up in the lexicon index.
 
 use super::{DataFormat, ProjectArgs};
-use orthoepy::lexicon::{find, Entry, Query};
+use anyhow::Context;
+use orthoepy::lexicon::{find, CacheState, Entry, IndexedStore, Query};
 use std::path::PathBuf;
 use std::process::ExitCode;
 
@@ -52,16 +53,19 @@ pub struct Args {
 #[derive(serde::Serialize)]
 struct Found<'a> {
     query: &'a str,
-    entries: Vec<&'a Entry>,
+    entries: Vec<Entry>,
 }
 
 pub fn run(args: Args) -> anyhow::Result<ExitCode> {
-    let (lexicon, _) = args.project.load_lexicon(args.lexicon.as_deref())?;
-    let index = lexicon.index();
+    let (path, policy, _) = args.project.lexicon_path(args.lexicon.as_deref())?;
+    let store = IndexedStore::open(&path, policy).context("cannot load the lexicon")?;
+    if let CacheState::Unsaved { reason, .. } = store.state() {
+        eprintln!("note: the index of {} is not kept for next time ({reason})", path.display());
+    }
     let mut results = Vec::new();
     for query in &args.queries {
-        let ids = find(&lexicon, &index, query, query_of(&args))?;
-        results.push(Found { query, entries: ids.into_iter().filter_map(|i| lexicon.entries().get(i)).collect() });
+        let ids = find(store.index(), &store, query, query_of(&args))?;
+        results.push(Found { query, entries: store.entries(&ids)? });
     }
     let any = results.iter().any(|r| !r.entries.is_empty());
     match args.format {

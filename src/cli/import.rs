@@ -88,7 +88,7 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     let policy = orthoepy::lexicon::HeadwordPolicy { fold_case: args.fold_case };
     let mut lexicon = Lexicon::from_entries(entries, policy);
     let outside = lexicon.entries().iter().filter(|e| phoneset.parse(&e.pronunciation).is_err()).count();
-    let words = lexicon.index().word_count();
+    let words = lexicon.headword_count();
     lexicon.save_as(&args.output).context("cannot write the lexicon")?;
     eprintln!(
         "imported {} pronunciations of {} words into {}; {} line(s) rejected; {} pronunciation(s) do not parse in {} (run `orthoepy audit`)",

@@ -60,7 +60,8 @@ pub fn open_review(project: Project, reviewer: Option<String>) -> anyhow::Result
         (None, n) => format!("{n} decision(s) from the journal not yet applied — press ? for keys"),
     };
     let color = std::env::var_os("NO_COLOR").map_or(true, |v| v.is_empty());
-    let lookups = Lookups::new(workspace.lexicon().clone(), Some(workspace.phoneset().clone()));
+    let (lexicon, index) = workspace.shared_lexicon();
+    let lookups = Lookups::shared(lexicon, index, Some(workspace.phoneset().clone()));
     let guesser = Box::new(WorkspaceGuesser(Arc::clone(&workspace)));
     let services = Services { lookups, journal: files.journal, guesser: Some(guesser), color };
     let app = tui::run(app, services).context("the review screen failed")?;

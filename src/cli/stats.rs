@@ -23,7 +23,7 @@ pub struct Args {
 /// The figures `stats` reports.
 pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     let (lexicon, _) = args.project.load_lexicon(args.lexicon.as_deref())?;
-    let stats = LexiconStats::of(&lexicon, &lexicon.index());
+    let stats = LexiconStats::of(&lexicon);
     match args.format {
         DataFormat::Json => super::print_json(&stats)?,
         DataFormat::Text => {

@@ -7,12 +7,17 @@
 //! rather than by scanning. Two reverse maps go from pronunciation to entries (homophones), with and
 //! without stress marks; they need exact lookup only, so they are spans over one text buffer, sorted by hash and
 //! found by binary search. The index is a snapshot: rebuild it after editing the lexicon.
+//!
+//! Every part is a flat byte [`Section`] (little-endian numbers), either just built or a range of
+//! the memory-mapped cache file (see `cache.rs`), so a built index and a cached one are read by
+//! the same code; posting lists are decoded into memory on first use only.
 
 use super::normalize::normalize_key;
 use super::store::Lexicon;
 use crate::support::hash::fnv1a_64;
 use fst::automaton::{Levenshtein, Str};
 use fst::{Automaton, IntoStreamer, Map, MapBuilder, Streamer};
+use std::sync::{Arc, OnceLock};
 
 /// The position of an entry in [`Lexicon::entries`].
 pub type EntryId = usize;
@@ -82,15 +87,85 @@ impl IndexOptions {
     }
 }
 
+/// Bytes of one part of an index: just built (owned) or a range of the memory-mapped cache file.
+///
+/// Cloning shares the bytes. Every multi-byte number in a section is little-endian, so a built
+/// index and one opened from a cache file are read by the same code.
+#[derive(Debug, Clone)]
+pub(crate) struct Section {
+    backing: Backing,
+    start: usize,
+    end: usize,
+}
+
+#[derive(Debug, Clone)]
+enum Backing {
+    Owned(Arc<Vec<u8>>),
+    Mapped(Arc<memmap2::Mmap>),
+}
+
+impl Section {
+    /// A section holding `bytes`.
+    pub(crate) fn owned(bytes: Vec<u8>) -> Section {
+        let end = bytes.len();
+        Section { backing: Backing::Owned(Arc::new(bytes)), start: 0, end }
+    }
+
+    /// The bytes `range` of a mapped file; `None` when the range lies outside it.
+    pub(crate) fn mapped(map: &Arc<memmap2::Mmap>, start: usize, len: usize) -> Option<Section> {
+        let end = start.checked_add(len).filter(|&end| end <= map.len())?;
+        Some(Section { backing: Backing::Mapped(Arc::clone(map)), start, end })
+    }
+}
+
+impl AsRef<[u8]> for Section {
+    fn as_ref(&self) -> &[u8] {
+        let all: &[u8] = match &self.backing {
+            Backing::Owned(bytes) => bytes,
+            Backing::Mapped(map) => map,
+        };
+        all.get(self.start..self.end).unwrap_or(&[])
+    }
+}
+
+/// The little-endian `u32` at byte `at` of `bytes` (0 when it does not fit).
+pub(crate) fn read_u32(bytes: &[u8], at: usize) -> u32 {
+    match bytes.get(at..at + 4) {
+        Some(&[a, b, c, d]) => u32::from_le_bytes([a, b, c, d]),
+        _ => 0,
+    }
+}
+
+/// A flat list of entry ids (little-endian `u32`s), decoded into memory on first use.
+#[derive(Debug, Clone)]
+struct Postings {
+    bytes: Section,
+    decoded: OnceLock<Vec<EntryId>>,
+}
+
+impl Postings {
+    fn built(ids: Vec<EntryId>) -> Postings {
+        let bytes = ids.iter().flat_map(|&id| (id as u32).to_le_bytes()).collect();
+        Postings { bytes: Section::owned(bytes), decoded: OnceLock::from(ids) }
+    }
+
+    fn opened(bytes: Section) -> Postings {
+        Postings { bytes, decoded: OnceLock::new() }
+    }
+
+    fn all(&self) -> &[EntryId] {
+        self.decoded.get_or_init(|| self.bytes.as_ref().chunks_exact(4).map(|c| read_u32(c, 0) as EntryId).collect())
+    }
+}
+
 /// A posting map: FST from key to a packed (start, length) range of `ids`.
 ///
 /// Postings are stored flat: the ids of one key are contiguous in `ids`, in ascending order, so a
 /// lookup is one FST walk and one slice.
 #[derive(Debug, Clone)]
 struct PostingMap {
-    map: Map<Vec<u8>>,
-    ids: Vec<EntryId>,
-    keys: usize,
+    map: Map<Section>,
+    ids: Postings,
 }
 
 impl PostingMap {
@@ -102,7 +177,6 @@ impl PostingMap {
         }
         let mut builder = MapBuilder::memory();
         let mut ids = Vec::with_capacity(pairs.len());
-        let mut keys = 0;
         let mut i = 0;
         while i < pairs.len() {
             let key = pairs[i].0.as_ref();
@@ -113,16 +187,15 @@ impl PostingMap {
             }
             // Keys arrive sorted and deduplicated, the only conditions insert checks.
             let _ = builder.insert(key, pack(start, ids.len() - start));
-            keys += 1;
         }
         let bytes = builder.into_inner().unwrap_or_default();
-        let map = Map::new(bytes).unwrap_or_default();
-        PostingMap { map, ids, keys }
+        let map = Map::new(Section::owned(bytes)).unwrap_or_else(|_| empty_map());
+        PostingMap { map, ids: Postings::built(ids) }
     }
 
     fn range(&self, packed: u64) -> &[EntryId] {
         let (start, len) = unpack(packed);
-        self.ids.get(start..start + len).unwrap_or(&[])
+        self.ids.all().get(start..start + len).unwrap_or(&[])
     }
 
     fn get(&self, key: &str) -> &[EntryId] {
@@ -142,6 +215,16 @@ impl PostingMap {
     }
 }
 
+/// An FST map with no keys.
+fn empty_map() -> Map<Section> {
+    let bytes = MapBuilder::memory().into_inner().unwrap_or_default();
+    // The builder's own empty output is a valid map; `Map::new` cannot refuse it.
+    match Map::new(Section::owned(bytes)) {
+        Ok(map) => map,
+        Err(_) => unreachable!("an empty fst built by the fst crate is valid"),
+    }
+}
+
 fn pack(start: usize, len: usize) -> u64 {
     ((start as u64) << 32) | len as u64
 }
@@ -150,6 +233,9 @@ fn unpack(packed: u64) -> (usize, usize) {
     ((packed >> 32) as usize, (packed & 0xffff_ffff) as usize)
 }
 
+/// Bytes per span of a [`SoundMap`]: hash (`u64`), start and length (`u32` each).
+const SPAN_BYTES: usize = 16;
+
 /// An exact-match map from pronunciation to entries.
 ///
 /// Pronunciations need exact lookup only (prefix and fuzzy search are for spellings), so they are
@@ -157,11 +243,11 @@ fn unpack(packed: u64) -> (usize, usize) {
 /// the text and one sort instead of an automaton build.
 #[derive(Debug, Clone)]
 struct SoundMap {
-    text: String,
+    text: Section,
     /// (hash, start, length) of each key, sorted by hash, then key text, then entry.
-    spans: Vec<(u64, u32, u32)>,
+    spans: Section,
     /// The entry of each span, so the entries of one key form a slice.
-    ids: Vec<EntryId>,
+    ids: Postings,
 }
 
 impl SoundMap {
@@ -191,22 +277,44 @@ impl SoundMap {
             }
             run = end;
         }
-        let spans = order.iter().map(|&(h, id)| (h, span_of[id].0, span_of[id].1)).collect();
+        let mut spans = Vec::with_capacity(order.len() * SPAN_BYTES);
+        for &(hash, id) in &order {
+            spans.extend_from_slice(&hash.to_le_bytes());
+            spans.extend_from_slice(&span_of[id].0.to_le_bytes());
+            spans.extend_from_slice(&span_of[id].1.to_le_bytes());
+        }
         let ids = order.iter().map(|o| o.1).collect();
-        SoundMap { text, spans, ids }
+        SoundMap { text: Section::owned(text.into_bytes()), spans: Section::owned(spans), ids: Postings::built(ids) }
     }
 
-    fn key(&self, start: u32, len: u32) -> &str {
-        self.text.get(start as usize..(start + len) as usize).unwrap_or("")
+    /// The hash and key text of span `i`.
+    fn span(&self, i: usize) -> (u64, &[u8]) {
+        let spans = self.spans.as_ref();
+        let at = i * SPAN_BYTES;
+        let hash = u64::from(read_u32(spans, at)) | (u64::from(read_u32(spans, at + 4)) << 32);
+        let (start, len) = (read_u32(spans, at + 8) as usize, read_u32(spans, at + 12) as usize);
+        (hash, self.text.as_ref().get(start..start + len).unwrap_or(&[]))
     }
 
     fn get(&self, key: &str) -> &[EntryId] {
-        let hash = fnv1a_64(key.as_bytes());
-        let first = self.spans.partition_point(|&(h, s, l)| (h, self.key(s, l)) < (hash, key));
-        let count = self.spans[first..].iter().take_while(|&&(h, s, l)| h == hash && self.key(s, l) == key).count();
-        &self.ids[first..first + count]
+        let wanted = (fnv1a_64(key.as_bytes()), key.as_bytes());
+        let count = self.spans.as_ref().len() / SPAN_BYTES;
+        let (mut low, mut high) = (0, count);
+        while low < high {
+            let middle = low + (high - low) / 2;
+            if self.span(middle) < wanted {
+                low = middle + 1;
+            } else {
+                high = middle;
+            }
+        }
+        let found = (low..count).take_while(|&i| self.span(i) == wanted).count();
+        self.ids.all().get(low..low + found).unwrap_or(&[])
     }
 }
+
+/// How many byte parts an index has (see [`LexiconIndex::parts`]).
+pub(crate) const INDEX_PARTS: usize = 8;
 
 /// The index of one lexicon snapshot.
 ///
@@ -252,6 +360,52 @@ impl LexiconIndex {
         LexiconIndex { words, pronunciations, unstressed, policy, options }
     }
 
+    /// The bytes of each part, in the order [`from_parts`](Self::from_parts) takes them: the
+    /// headword FST, its postings, then text, spans and postings of each sound map.
+    pub(crate) fn parts(&self) -> [&[u8]; INDEX_PARTS] {
+        let (p, u) = (&self.pronunciations, &self.unstressed);
+        [
+            self.words.map.as_fst().as_bytes(),
+            self.words.ids.bytes.as_ref(),
+            p.text.as_ref(),
+            p.spans.as_ref(),
+            p.ids.bytes.as_ref(),
+            u.text.as_ref(),
+            u.spans.as_ref(),
+            u.ids.bytes.as_ref(),
+        ]
+    }
+
+    /// An index over parts written by [`parts`](Self::parts), checking their shapes (the FST's
+    /// header, whole numbers of ids and spans, one id per span); `None` when they do not fit.
+    pub(crate) fn from_parts(
+        parts: [Section; INDEX_PARTS],
+        policy: super::HeadwordPolicy,
+        options: IndexOptions,
+    ) -> Option<LexiconIndex> {
+        let [words, word_ids, text, spans, ids, bare_text, bare_spans, bare_ids] = parts;
+        let sound_map = |text: Section, spans: Section, ids: Section| {
+            let fits = spans.as_ref().len() % SPAN_BYTES == 0 && ids.as_ref().len() * 4 == spans.as_ref().len();
+            fits.then(|| SoundMap { text, spans, ids: Postings::opened(ids) })
+        };
+        if word_ids.as_ref().len() % 4 != 0 {
+            return None;
+        }
+        let words = PostingMap { map: Map::new(words).ok()?, ids: Postings::opened(word_ids) };
+        Some(LexiconIndex {
+            words,
+            pronunciations: sound_map(text, spans, ids)?,
+            unstressed: sound_map(bare_text, bare_spans, bare_ids)?,
+            policy,
+            options,
+        })
+    }
+
+    /// The options the sounds-like maps were built with.
+    pub fn options(&self) -> &IndexOptions {
+        &self.options
+    }
+
     fn key<'a>(&self, word: &'a str) -> std::borrow::Cow<'a, str> {
         normalize_key(word.trim(), &self.policy)
     }
@@ -268,7 +422,7 @@ impl LexiconIndex {
 
     /// Number of distinct normalised headwords.
     pub fn word_count(&self) -> usize {
-        self.words.keys
+        self.words.map.len()
     }
 
     /// Headwords starting with `prefix`, in key order, at most `limit` of them.
@@ -303,7 +457,7 @@ impl LexiconIndex {
     /// Every normalised headword, in key order.
     pub fn keys(&self) -> impl Iterator<Item = String> + '_ {
         let mut stream = self.words.map.keys();
-        let mut all = Vec::with_capacity(self.words.keys);
+        let mut all = Vec::with_capacity(self.words.map.len());
         while let Some(k) = stream.next() {
             all.push(String::from_utf8_lossy(k).into_owned());
         }

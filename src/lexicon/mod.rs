@@ -1,9 +1,10 @@
-//! The lexicon: entries, the CSV store, headword normalisation, the FST index and plain-text
-//! interchange.
+//! The lexicon: entries, the CSV store, headword normalisation, the FST index (and its cache
+//! beside the store) and plain-text interchange.
 //!
 //! This module owns everything about headwords and rows; it treats a pronunciation as phone tokens
 //! separated by spaces and leaves their meaning to [`crate::phoneset`].
 
+mod cache;
 mod entry;
 mod index;
 mod normalize;
@@ -12,9 +13,10 @@ mod query;
 mod stats;
 mod store;
 
+pub use cache::{cache_path, CacheState, IndexedStore, Stale, CACHE_FOLDER};
 pub use entry::{join_phones, Entry, Status, UnknownStatus};
 pub use index::{EntryId, IndexError, IndexOptions, LexiconIndex};
 pub use normalize::{check_controls, check_headword, find_control, normalize_headword, normalize_key, HeadwordError, HeadwordPolicy};
-pub use query::{find, Query};
+pub use query::{find, EntrySource, FindError, Query};
 pub use stats::LexiconStats;
 pub use store::{LexiconError, LoadMode, Lexicon, ParseProblem, COLUMNS, MAX_LEXICON};

@@ -4,7 +4,32 @@
 //!
 //! It reads the index and the entries and changes nothing.
 
-use super::{EntryId, IndexError, Lexicon, LexiconIndex};
+use super::{Entry, EntryId, IndexError, Lexicon, LexiconError, LexiconIndex};
+
+/// Where the entries an index points at come from: a loaded [`Lexicon`], or a store opened
+/// through its index cache that parses only the rows asked for
+/// ([`IndexedStore`](super::IndexedStore)).
+pub trait EntrySource {
+    /// The entries `ids`, in that order (ids outside the lexicon are skipped).
+    fn entries_of(&self, ids: &[EntryId]) -> Result<Vec<Entry>, LexiconError>;
+}
+
+impl EntrySource for Lexicon {
+    fn entries_of(&self, ids: &[EntryId]) -> Result<Vec<Entry>, LexiconError> {
+        Ok(ids.iter().filter_map(|&id| self.entries().get(id).cloned()).collect())
+    }
+}
+
+/// Why a look-up failed.
+#[derive(Debug, thiserror::Error)]
+pub enum FindError {
+    /// The query cannot be run on the index.
+    #[error(transparent)]
+    Index(#[from] IndexError),
+    /// The rows of the store could not be read.
+    #[error(transparent)]
+    Store(#[from] LexiconError),
+}
 
 /// What kind of look-up to run.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -35,7 +60,8 @@ pub enum Query {
     },
 }
 
-/// The entries `query` finds for `text`, as entry ids of `lexicon`.
+/// The entries `query` finds for `text`, as entry ids of the index (`rows` gives the query
+/// word's own pronunciations for [`Query::SoundsLike`]).
 ///
 /// ```
 /// use orthoepy::lexicon::{find, Entry, HeadwordPolicy, Lexicon, Query};
@@ -45,10 +71,10 @@ pub enum Query {
 /// );
 /// let index = lexicon.index();
 /// let words = |ids: Vec<usize>| ids.iter().map(|&i| lexicon.entries()[i].word.clone()).collect::<Vec<_>>();
-/// assert_eq!(words(find(&lexicon, &index, "quay", Query::SoundsLike { exact_stress: false }).unwrap()), ["key"]);
-/// assert_eq!(words(find(&lexicon, &index, "qua", Query::Prefix { limit: 10 }).unwrap()), ["quay", "quays"]);
+/// assert_eq!(words(find(&index, &lexicon, "quay", Query::SoundsLike { exact_stress: false }).unwrap()), ["key"]);
+/// assert_eq!(words(find(&index, &lexicon, "qua", Query::Prefix { limit: 10 }).unwrap()), ["quay", "quays"]);
 /// ```
-pub fn find(lexicon: &Lexicon, index: &LexiconIndex, text: &str, query: Query) -> Result<Vec<EntryId>, IndexError> {
+pub fn find(index: &LexiconIndex, rows: &dyn EntrySource, text: &str, query: Query) -> Result<Vec<EntryId>, FindError> {
     let flatten = |hits: Vec<(String, Vec<EntryId>)>| hits.into_iter().flat_map(|(_, ids)| ids).collect();
     let by_sound = |pronunciation: &str, exact_stress: bool| -> Vec<EntryId> {
         if exact_stress {
@@ -64,9 +90,9 @@ pub fn find(lexicon: &Lexicon, index: &LexiconIndex, text: &str, query: Query) -
         Query::Phones { exact_stress } => by_sound(text, exact_stress),
         Query::SoundsLike { exact_stress } => {
             let own = index.lookup(text);
-            let mut ids: Vec<EntryId> = own
+            let mut ids: Vec<EntryId> = rows
+                .entries_of(own)?
                 .iter()
-                .filter_map(|&i| lexicon.entries().get(i))
                 .flat_map(|e| by_sound(&e.pronunciation, exact_stress))
                 .filter(|i| !own.contains(i))
                 .collect();

@@ -1,12 +1,17 @@
 //! Counts that describe a lexicon: entries, distinct headwords, variants per word, statuses,
 //! sources, phones per entry and phone frequencies, as `orthoepy stats` prints them.
 //!
-//! Counting borrows the entries' strings (no string is allocated per phone); it reads the
-//! lexicon and its index and changes nothing.
+//! One pass over the entries builds nothing else: no index (headwords are counted as runs of
+//! equal keys, which a saved store already has in order), no string per phone or per status
+//! (counting borrows the entries' strings; a string is made once per distinct phone and source
+//! at the end). It reads the lexicon and changes nothing.
 
-use std::collections::{BTreeMap, HashMap};
+use std::borrow::Cow;
+use std::collections::BTreeMap;
 
-use super::{Lexicon, LexiconIndex};
+use super::normalize::normalize_key;
+use super::{Lexicon, Status};
+use crate::support::hash::FastMap;
 
 /// The counts of one lexicon.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
@@ -28,7 +33,7 @@ pub struct LexiconStats {
 }
 
 impl LexiconStats {
-    /// Counts `lexicon`, with `index` (built from it) for the headword counts.
+    /// Counts `lexicon`.
     ///
     /// ```
     /// use orthoepy::lexicon::{Entry, HeadwordPolicy, Lexicon, LexiconStats};
@@ -36,22 +41,19 @@ impl LexiconStats {
     ///     vec![Entry::new("quay", "K IY1"), Entry::new("quay", "K EY1"), Entry::new("key", "K IY1")],
     ///     HeadwordPolicy::default(),
     /// );
-    /// let stats = LexiconStats::of(&lexicon, &lexicon.index());
+    /// let stats = LexiconStats::of(&lexicon);
     /// assert_eq!((stats.entries, stats.words), (3, 2));
     /// assert_eq!(stats.variants_per_word[&2], 1);
     /// assert_eq!(stats.phone_frequencies["K"], 3);
     /// ```
-    pub fn of(lexicon: &Lexicon, index: &LexiconIndex) -> LexiconStats {
-        let mut variants_per_word = BTreeMap::new();
-        for key in index.keys() {
-            *variants_per_word.entry(index.lookup(&key).len()).or_insert(0) += 1;
-        }
-        let mut statuses: HashMap<String, usize> = HashMap::new();
-        let mut sources: HashMap<&str, usize> = HashMap::new();
-        let mut phone_counts: HashMap<&str, usize> = HashMap::new();
+    pub fn of(lexicon: &Lexicon) -> LexiconStats {
+        let (words, variants_per_word) = count_headwords(lexicon);
+        let mut statuses = [0usize; Status::ALL.len()];
+        let mut sources: FastMap<&str, usize> = FastMap::default();
+        let mut phone_counts: FastMap<&str, usize> = FastMap::default();
         let mut phones = 0usize;
         for entry in lexicon.entries() {
-            *statuses.entry(entry.status.to_string()).or_insert(0) += 1;
+            statuses[entry.status as usize] += 1; // `Status::ALL` is in declaration order
             *sources.entry(entry.source.as_str()).or_insert(0) += 1;
             for phone in entry.phones() {
                 phones += 1;
@@ -61,9 +63,14 @@ impl LexiconStats {
         let entries = lexicon.entries().len();
         LexiconStats {
             entries,
-            words: index.word_count(),
+            words,
             variants_per_word,
-            statuses: statuses.into_iter().collect(),
+            statuses: Status::ALL
+                .iter()
+                .zip(statuses)
+                .filter(|&(_, n)| n > 0)
+                .map(|(status, n)| (status.as_str().to_string(), n))
+                .collect(),
             sources: sources.into_iter().map(|(s, n)| (s.to_string(), n)).collect(),
             mean_phones_per_entry: if entries == 0 { 0.0 } else { phones as f64 / entries as f64 },
             phone_frequencies: phone_counts.into_iter().map(|(p, n)| (p.to_string(), n)).collect(),
@@ -75,5 +82,53 @@ impl LexiconStats {
         let mut phones: Vec<(&str, usize)> = self.phone_frequencies.iter().map(|(p, &n)| (p.as_str(), n)).collect();
         phones.sort_by(|a, b| b.1.cmp(&a.1).then(a.0.cmp(b.0)));
         phones
+    }
+}
+
+impl Lexicon {
+    /// Distinct normalised headwords, counted without building an index.
+    pub fn headword_count(&self) -> usize {
+        count_headwords(self).0
+    }
+}
+
+/// Distinct normalised headwords, and how many of them have N entries, by N.
+fn count_headwords(lexicon: &Lexicon) -> (usize, BTreeMap<usize, usize>) {
+    let policy = lexicon.policy();
+    let mut keys: Vec<Cow<str>> = lexicon.entries().iter().map(|e| normalize_key(e.word.trim(), policy)).collect();
+    // A saved store is in key order already; checking first keeps that case linear.
+    if !keys.windows(2).all(|w| w[0] <= w[1]) {
+        keys.sort_unstable();
+    }
+    let mut variants_per_word = BTreeMap::new();
+    let mut words = 0;
+    for run in keys.chunk_by(|a, b| a == b) {
+        words += 1;
+        *variants_per_word.entry(run.len()).or_insert(0) += 1;
+    }
+    (words, variants_per_word)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::lexicon::{Entry, HeadwordPolicy};
+
+    #[test]
+    fn counts_agree_with_the_index_on_an_unsorted_lexicon() {
+        let words = ["Ferry", "quay", "ferry", "café", "CAFE\u{301}", "quay", "ferry"];
+        let entries = words.iter().map(|w| Entry::new(w, "K AE0 F EY1")).collect();
+        let lexicon = Lexicon::from_entries(entries, HeadwordPolicy { fold_case: true });
+        let stats = LexiconStats::of(&lexicon);
+        let index = lexicon.index();
+        assert_eq!(stats.words, index.word_count());
+        let mut expected = BTreeMap::new();
+        for key in index.keys() {
+            *expected.entry(index.lookup(&key).len()).or_insert(0) += 1;
+        }
+        assert_eq!(stats.variants_per_word, expected);
+        assert_eq!(stats.variants_per_word, BTreeMap::from([(2, 2), (3, 1)]));
+        assert_eq!(stats.statuses, BTreeMap::from([("accepted".to_string(), 7)]));
+        assert_eq!(stats.phone_frequencies["EY1"], 7);
     }
 }

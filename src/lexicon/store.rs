@@ -146,10 +146,16 @@ impl Lexicon {
     /// Loads a store with the given strictness.
     pub fn load_with(path: &Path, policy: HeadwordPolicy, mode: LoadMode) -> Result<Lexicon, LexiconError> {
         let bytes = read_capped(path, MAX_LEXICON)?;
-        let mut lexicon = Lexicon::parse(&bytes, path, policy, mode)?;
+        Lexicon::from_file_bytes(&bytes, path, policy, mode)
+    }
+
+    /// Parses `bytes`, which were just read from `path`, and remembers them as what the file
+    /// holds, so that [`save`](Self::save) refuses if the file changes afterwards.
+    pub fn from_file_bytes(bytes: &[u8], path: &Path, policy: HeadwordPolicy, mode: LoadMode) -> Result<Lexicon, LexiconError> {
+        let mut lexicon = Lexicon::parse(bytes, path, policy, mode)?;
         lexicon.origin = Some(Origin {
             path: path.to_path_buf(),
-            fingerprint: Fingerprint::of(&bytes),
+            fingerprint: Fingerprint::of(bytes),
             had_bom: bytes.starts_with(BOM),
         });
         Ok(lexicon)

@@ -6,6 +6,7 @@
 
 use crate::lexicon::{normalize_key, EntryId, Lexicon, LexiconIndex};
 use crate::phoneset::Phoneset;
+use std::sync::Arc;
 use crate::support::align::align as align_positions;
 use crate::variants::{feature_view, Column, Edit, FeatureView};
 
@@ -16,8 +17,8 @@ pub const NEIGHBOUR_LIMIT: usize = 6;
 
 /// A lexicon with its indexes, ready to answer the screen.
 pub struct Lookups {
-    lexicon: Lexicon,
-    index: LexiconIndex,
+    lexicon: Arc<Lexicon>,
+    index: Arc<LexiconIndex>,
     reversed: Vec<(String, EntryId)>,
     phoneset: Option<Phoneset>,
 }
@@ -26,7 +27,13 @@ impl Lookups {
     /// Index `lexicon`; with a phoneset the feature view shows feature tracks, without one
     /// only the aligned phones.
     pub fn new(lexicon: Lexicon, phoneset: Option<Phoneset>) -> Lookups {
-        let index = lexicon.index();
+        let index = Arc::new(lexicon.index());
+        Lookups::shared(Arc::new(lexicon), index, phoneset)
+    }
+
+    /// Like [`new`](Self::new) over a lexicon and its index that others hold too (no copy, no
+    /// second index build).
+    pub fn shared(lexicon: Arc<Lexicon>, index: Arc<LexiconIndex>, phoneset: Option<Phoneset>) -> Lookups {
         let policy = *lexicon.policy();
         let mut reversed: Vec<(String, EntryId)> = lexicon
             .entries()

@@ -1,0 +1,624 @@
+//! The persisted index: the FST index of a store saved in a hidden folder beside it, so that a
+//! command that looks a few words up opens it by memory map instead of parsing the whole store.
+//!
+//! [`IndexedStore::open`] reads the store, takes its key (length and CRC-32 of every byte, the
+//! headword policy, the stress marks) and opens `.orthoepy-index/NAME.idx` beside it. The cache is
+//! never trusted blindly: its magic, version, length, a CRC-32 over all its bytes and the key must
+//! all match, and its parts must have the shapes the index expects; otherwise it is rebuilt from
+//! a full parse and replaced atomically (`safe_io::atomic_write`). A folder that cannot be written
+//! (read-only media, another user's project) only means no cache is saved: the command works from
+//! the index it just built, and [`CacheState::Unsaved`] says why.
+//!
+//! Each headword's value in the FST leads to its entry ids, and a row table gives each entry's
+//! byte offset and line in the store, so [`IndexedStore::entries`] parses only the rows asked for
+//! (the store's header and those rows, through the store's own parser).
+//!
+//! The key hashes the whole store on every open instead of trusting its size and modification
+//! time: a CRC-32 runs at several GB/s (≈ 1 ms for CMUdict's 3.5 MiB, ≈ 15 ms for 55 MiB), which
+//! is cheap next to the parse it saves, and it cannot be fooled by an edit that keeps the size
+//! and the time stamp (a copy with `cp -p`, a clock set back, a coarse file system clock). Two
+//! stores of the same length share a CRC-32 by accident with odds of 1 in 2³²; the same key
+//! decides whether `Lexicon::save` sees an edit made meanwhile.
+//!
+//! The cache is replaced only by rename, never written in place; a process that truncates it in
+//! place while another has it mapped can make that reader fail, which is why the store itself is
+//! read, not mapped. This module writes nothing but the cache file and its folder.
+
+use super::entry::Entry;
+use super::index::{read_u32, Section, INDEX_PARTS};
+use super::store::{LoadMode, MAX_LEXICON};
+use super::{EntryId, HeadwordPolicy, IndexOptions, Lexicon, LexiconError, LexiconIndex};
+use crate::support::read::read_capped;
+use std::fmt;
+use std::path::{Path, PathBuf};
+use std::sync::{Arc, OnceLock};
+
+/// The hidden folder beside a store that holds its index cache.
+pub const CACHE_FOLDER: &str = ".orthoepy-index";
+
+/// The first bytes of every index cache file.
+const MAGIC: &[u8; 8] = b"OEPYIDX\x1a";
+
+/// The cache format written and read; a file of another version is rebuilt.
+const VERSION: u32 = 1;
+
+/// Parts after the index's own: the row table and the stress marks.
+const PARTS: usize = INDEX_PARTS + 2;
+
+/// Fixed header: magic, version, flags, store length, store CRC, entries, header length, padding.
+const FIXED: usize = 40;
+
+/// Header with the part table (offset and length, `u64` each, per part).
+const HEADER: usize = FIXED + PARTS * 16;
+
+/// Bytes per row of the row table: byte offset and line of the entry's record (`u32` each).
+const ROW_BYTES: usize = 8;
+
+const FOLD_CASE: u32 = 1;
+const HAS_ROWS: u32 = 2;
+
+/// The path of the index cache of the store at `store`: `.orthoepy-index/NAME.idx` beside it.
+///
+/// ```
+/// use std::path::Path;
+/// assert_eq!(orthoepy::lexicon::cache_path(Path::new("demo/lexicon.csv")),
+///            Path::new("demo/.orthoepy-index/lexicon.csv.idx"));
+/// ```
+pub fn cache_path(store: &Path) -> PathBuf {
+    let mut name = store.file_name().map(|n| n.to_os_string()).unwrap_or_default();
+    name.push(".idx");
+    let folder = store.parent().unwrap_or(Path::new(""));
+    folder.join(CACHE_FOLDER).join(name)
+}
+
+/// Why a cache file was not used.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum Stale {
+    /// There was no cache file.
+    Missing,
+    /// The file is not a usable cache: what was wrong with it.
+    Damaged(&'static str),
+    /// The cache was written by another version of the format.
+    OtherVersion(u32),
+    /// The cache belongs to another content of the store (it changed since).
+    StoreChanged,
+    /// The cache was built with another headword policy or other stress marks.
+    OtherSettings,
+}
+
+impl fmt::Display for Stale {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match self {
+            Stale::Missing => write!(f, "there was none"),
+            Stale::Damaged(what) => write!(f, "the old one was damaged ({what})"),
+            Stale::OtherVersion(v) => write!(f, "the old one has format version {v}, this program writes {VERSION}"),
+            Stale::StoreChanged => write!(f, "the store changed"),
+            Stale::OtherSettings => write!(f, "the old one was built with another headword policy"),
+        }
+    }
+}
+
+/// What [`IndexedStore::open`] did with the cache.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum CacheState {
+    /// The cache matched the store and was used.
+    Reused,
+    /// The cache was rebuilt and saved.
+    Rebuilt(Stale),
+    /// The index was built, but the cache could not be saved: why not (the store works anyway).
+    Unsaved {
+        /// Why the old cache was not used.
+        stale: Stale,
+        /// What the system said when writing.
+        reason: String,
+    },
+}
+
+/// The key a cache must carry to be used for a store.
+#[derive(Debug, Clone, PartialEq, Eq)]
+struct StoreKey {
+    length: u64,
+    crc: u32,
+    fold_case: bool,
+    marks: Vec<u8>,
+}
+
+impl StoreKey {
+    fn of(bytes: &[u8], policy: HeadwordPolicy, options: &IndexOptions) -> StoreKey {
+        let marks = options.stress_suffixes.join("\n").into_bytes();
+        StoreKey { length: bytes.len() as u64, crc: crc32fast::hash(bytes), fold_case: policy.fold_case, marks }
+    }
+}
+
+/// A store with its index, opened from the cache where it is fresh.
+///
+/// ```
+/// use orthoepy::lexicon::{CacheState, HeadwordPolicy, IndexedStore};
+/// let dir = tempfile::tempdir().unwrap();
+/// let path = dir.path().join("lexicon.csv");
+/// std::fs::write(&path, "word,pronunciation,status,source,score,note\nquay,K IY1,imported,,,\nquay,K EY1,imported,,,\n").unwrap();
+/// let first = IndexedStore::open(&path, HeadwordPolicy::default()).unwrap();
+/// assert!(matches!(first.state(), CacheState::Rebuilt(_)));
+/// let again = IndexedStore::open(&path, HeadwordPolicy::default()).unwrap();
+/// assert_eq!(again.state(), &CacheState::Reused);
+/// let rows = again.entries(again.index().lookup("quay")).unwrap();
+/// assert_eq!(rows.iter().map(|e| (e.pronunciation.as_str(), e.line)).collect::<Vec<_>>(), [("K IY1", 2), ("K EY1", 3)]);
+/// ```
+pub struct IndexedStore {
+    path: PathBuf,
+    bytes: Vec<u8>,
+    policy: HeadwordPolicy,
+    index: LexiconIndex,
+    rows: Option<Section>,
+    header_len: usize,
+    entry_count: usize,
+    parsed: OnceLock<Lexicon>,
+    state: CacheState,
+}
+
+impl IndexedStore {
+    /// Reads the store at `path` and opens its index: from the cache when it matches, else built
+    /// from a full (strict) parse and saved to the cache. Errors are the store's own (unreadable,
+    /// malformed); a cache that cannot be used or written is never an error.
+    pub fn open(path: &Path, policy: HeadwordPolicy) -> Result<IndexedStore, LexiconError> {
+        let bytes = read_capped(path, MAX_LEXICON)?;
+        let options = IndexOptions::default();
+        let key = StoreKey::of(&bytes, policy, &options);
+        let cache = cache_path(path);
+        let stale = match open_cache(&cache, &key, policy, &options) {
+            Ok(opened) => {
+                let store = IndexedStore {
+                    path: path.to_path_buf(),
+                    bytes,
+                    policy,
+                    index: opened.index,
+                    rows: opened.rows,
+                    header_len: opened.header_len,
+                    entry_count: opened.entries,
+                    parsed: OnceLock::new(),
+                    state: CacheState::Reused,
+                };
+                return Ok(store);
+            }
+            Err(stale) => stale,
+        };
+        let lexicon = Lexicon::from_file_bytes(&bytes, path, policy, LoadMode::Strict)?;
+        let index = LexiconIndex::build(&lexicon, options);
+        let (rows, header_len) = match row_table(&bytes, lexicon.entries(), path, policy) {
+            Some((rows, header_len)) => (Some(rows), header_len),
+            None => (None, 0),
+        };
+        let file = encode(&key, &index, rows.as_deref(), header_len, lexicon.entries().len());
+        let state = match write_cache(&cache, &file) {
+            Ok(()) => CacheState::Rebuilt(stale),
+            Err(reason) => CacheState::Unsaved { stale, reason: reason.to_string() },
+        };
+        Ok(IndexedStore {
+            path: path.to_path_buf(),
+            bytes,
+            policy,
+            entry_count: lexicon.entries().len(),
+            index,
+            rows: rows.map(Section::owned),
+            header_len,
+            parsed: OnceLock::from(lexicon),
+            state,
+        })
+    }
+
+    /// The index (headwords and sounds-like maps).
+    pub fn index(&self) -> &LexiconIndex {
+        &self.index
+    }
+
+    /// What was done with the cache.
+    pub fn state(&self) -> &CacheState {
+        &self.state
+    }
+
+    /// The store's file.
+    pub fn path(&self) -> &Path {
+        &self.path
+    }
+
+    /// Rows in the store.
+    pub fn entry_count(&self) -> usize {
+        self.entry_count
+    }
+
+    /// The entries `ids` (in that order; unknown ids are skipped), parsed from their rows only.
+    /// A store whose rows cannot be located (records that do not start lines of their own) is
+    /// parsed once in full instead.
+    pub fn entries(&self, ids: &[EntryId]) -> Result<Vec<Entry>, LexiconError> {
+        if let Some(rows) = &self.rows {
+            if let Some(found) = ids.iter().filter(|&&id| id < self.entry_count).map(|&id| self.row(rows, id)).collect() {
+                return Ok(found);
+            }
+        }
+        let lexicon = self.full()?;
+        Ok(ids.iter().filter_map(|&id| lexicon.entries().get(id).cloned()).collect())
+    }
+
+    /// The whole lexicon (parsed from the bytes already read) with its index.
+    pub fn into_parts(self) -> Result<(Lexicon, LexiconIndex), LexiconError> {
+        let lexicon = match self.parsed.into_inner() {
+            Some(lexicon) => lexicon,
+            None => Lexicon::from_file_bytes(&self.bytes, &self.path, self.policy, LoadMode::Strict)?,
+        };
+        Ok((lexicon, self.index))
+    }
+
+    fn full(&self) -> Result<&Lexicon, LexiconError> {
+        if let Some(lexicon) = self.parsed.get() {
+            return Ok(lexicon);
+        }
+        let lexicon = Lexicon::from_file_bytes(&self.bytes, &self.path, self.policy, LoadMode::Strict)?;
+        Ok(self.parsed.get_or_init(|| lexicon))
+    }
+
+    /// Entry `id` parsed from its row alone; `None` when the row does not give exactly one
+    /// entry whose headword leads back to `id` in the index.
+    fn row(&self, rows: &Section, id: EntryId) -> Option<Entry> {
+        let table = rows.as_ref();
+        let start = read_u32(table, id * ROW_BYTES) as usize;
+        let line = read_u32(table, id * ROW_BYTES + 4) as usize;
+        let end = if id + 1 < self.entry_count { read_u32(table, (id + 1) * ROW_BYTES) as usize } else { self.bytes.len() };
+        let mut entry = parse_row(&self.bytes, self.header_len, start, end, &self.path, self.policy)?;
+        entry.line = line;
+        self.index.lookup(&entry.word).contains(&id).then_some(entry)
+    }
+}
+
+impl super::EntrySource for IndexedStore {
+    fn entries_of(&self, ids: &[EntryId]) -> Result<Vec<Entry>, LexiconError> {
+        self.entries(ids)
+    }
+}
+
+/// The row table of a store and the length of its header: for each entry, the byte offset where
+/// its record starts and its line (as the store's parser numbered it). Records are found by quote
+/// parity (a newline outside quotes ends one; RFC 4180 quotes escape themselves by doubling),
+/// blank lines passed over as the parser does. `None` when that does not give one record per
+/// entry, or a lone carriage return could end records, or a sample of rows parsed alone differs
+/// from the full parse.
+fn row_table(bytes: &[u8], entries: &[Entry], path: &Path, policy: HeadwordPolicy) -> Option<(Vec<u8>, usize)> {
+    if bytes.iter().enumerate().any(|(i, &b)| b == b'\r' && bytes.get(i + 1) != Some(&b'\n')) {
+        return None;
+    }
+    let mut starts = Vec::with_capacity(entries.len());
+    let mut header_len = None;
+    let mut take = |start: usize, end: usize| {
+        let record = bytes[start..end].strip_suffix(b"\n").unwrap_or(&bytes[start..end]);
+        let record = record.strip_suffix(b"\r").unwrap_or(record);
+        if header_len.is_none() {
+            header_len = Some(end);
+        } else if !record.is_empty() && record != b"\"\"" {
+            starts.push(start);
+        }
+    };
+    let (mut quoted, mut start) = (false, 0);
+    for (i, &b) in bytes.iter().enumerate() {
+        match b {
+            b'"' => quoted = !quoted,
+            b'\n' if !quoted => {
+                take(start, i + 1);
+                start = i + 1;
+            }
+            _ => {}
+        }
+    }
+    if start < bytes.len() {
+        take(start, bytes.len());
+    }
+    let header_len = header_len?;
+    if starts.len() != entries.len() {
+        return None;
+    }
+    let end_of = |id: usize| starts.get(id + 1).copied().unwrap_or(bytes.len());
+    let sample = (0..entries.len()).step_by(entries.len() / 64 + 1).chain(entries.len().checked_sub(1));
+    for id in sample {
+        let mut alone = parse_row(bytes, header_len, starts[id], end_of(id), path, policy)?;
+        alone.line = entries[id].line;
+        if alone != entries[id] {
+            return None;
+        }
+    }
+    let mut table = Vec::with_capacity(entries.len() * ROW_BYTES);
+    for (start, entry) in starts.iter().zip(entries) {
+        table.extend_from_slice(&u32::try_from(*start).ok()?.to_le_bytes());
+        table.extend_from_slice(&u32::try_from(entry.line).ok()?.to_le_bytes());
+    }
+    Some((table, header_len))
+}
+
+/// The one entry of the record `start..end` of the store `bytes`, parsed after the store's
+/// header; `None` unless it gives exactly one entry.
+fn parse_row(bytes: &[u8], header_len: usize, start: usize, end: usize, path: &Path, policy: HeadwordPolicy) -> Option<Entry> {
+    let text = [bytes.get(..header_len)?, bytes.get(start..end)?].concat();
+    let mut parsed = Lexicon::parse(&text, path, policy, LoadMode::Strict).ok()?;
+    let mut one = std::mem::take(parsed.entries_mut());
+    one.pop().filter(|_| one.is_empty())
+}
+
+/// The bytes of a cache file.
+fn encode(key: &StoreKey, index: &LexiconIndex, rows: Option<&[u8]>, header_len: usize, entries: usize) -> Vec<u8> {
+    let index_parts = index.parts();
+    let mut parts: Vec<&[u8]> = index_parts.to_vec();
+    parts.push(rows.unwrap_or(&[]));
+    parts.push(&key.marks);
+    let flags = if key.fold_case { FOLD_CASE } else { 0 } | if rows.is_some() { HAS_ROWS } else { 0 };
+    let total = HEADER + parts.iter().map(|p| p.len()).sum::<usize>() + 4;
+    let mut out = Vec::with_capacity(total);
+    out.extend_from_slice(MAGIC);
+    out.extend_from_slice(&VERSION.to_le_bytes());
+    out.extend_from_slice(&flags.to_le_bytes());
+    out.extend_from_slice(&key.length.to_le_bytes());
+    out.extend_from_slice(&key.crc.to_le_bytes());
+    out.extend_from_slice(&(entries as u32).to_le_bytes());
+    out.extend_from_slice(&(header_len as u32).to_le_bytes());
+    out.resize(FIXED, 0);
+    let mut offset = HEADER as u64;
+    for part in &parts {
+        out.extend_from_slice(&offset.to_le_bytes());
+        out.extend_from_slice(&(part.len() as u64).to_le_bytes());
+        offset += part.len() as u64;
+    }
+    for part in &parts {
+        out.extend_from_slice(part);
+    }
+    let crc = crc32fast::hash(&out);
+    out.extend_from_slice(&crc.to_le_bytes());
+    out
+}
+
+/// A cache file opened and checked.
+struct Opened {
+    index: LexiconIndex,
+    rows: Option<Section>,
+    header_len: usize,
+    entries: usize,
+}
+
+fn u64_at(bytes: &[u8], at: usize) -> u64 {
+    u64::from(read_u32(bytes, at)) | (u64::from(read_u32(bytes, at + 4)) << 32)
+}
+
+/// Maps and checks the cache at `path` against `key`.
+fn open_cache(path: &Path, key: &StoreKey, policy: HeadwordPolicy, options: &IndexOptions) -> Result<Opened, Stale> {
+    let file = match std::fs::File::open(path) {
+        Ok(file) => file,
+        Err(err) if err.kind() == std::io::ErrorKind::NotFound => return Err(Stale::Missing),
+        Err(_) => return Err(Stale::Damaged("cannot be read")),
+    };
+    // SAFETY: the cache is only ever replaced by rename (a new file), never changed in place, so
+    // the mapped bytes stay as they are while mapped; they are checked before any use.
+    let map = match unsafe { memmap2::MmapOptions::new().populate().map(&file) } {
+        Ok(map) => Arc::new(map),
+        Err(_) => return Err(Stale::Damaged("cannot be mapped")),
+    };
+    let bytes: &[u8] = &map;
+    if bytes.len() < HEADER + 4 {
+        return Err(Stale::Damaged("truncated"));
+    }
+    if &bytes[..MAGIC.len()] != MAGIC {
+        return Err(Stale::Damaged("not an index cache"));
+    }
+    let version = read_u32(bytes, 8);
+    if version != VERSION {
+        return Err(Stale::OtherVersion(version));
+    }
+    let (body, stored) = bytes.split_at(bytes.len() - 4);
+    if crc32fast::hash(body) != read_u32(stored, 0) {
+        return Err(Stale::Damaged("checksum mismatch"));
+    }
+    let flags = read_u32(bytes, 12);
+    if u64_at(bytes, 16) != key.length || read_u32(bytes, 24) != key.crc {
+        return Err(Stale::StoreChanged);
+    }
+    let entries = read_u32(bytes, 28) as usize;
+    let header_len = read_u32(bytes, 32) as usize;
+    let mut sections = Vec::with_capacity(PARTS);
+    for i in 0..PARTS {
+        let (offset, len) = (u64_at(bytes, FIXED + i * 16), u64_at(bytes, FIXED + i * 16 + 8));
+        let section = usize::try_from(offset)
+            .ok()
+            .zip(usize::try_from(len).ok())
+            .filter(|&(offset, len)| offset.saturating_add(len) <= body.len())
+            .and_then(|(offset, len)| Section::mapped(&map, offset, len));
+        sections.push(section.ok_or(Stale::Damaged("a part lies outside the file"))?);
+    }
+    let marks = sections.pop().ok_or(Stale::Damaged("parts missing"))?;
+    if (flags & FOLD_CASE != 0) != key.fold_case || marks.as_ref() != key.marks.as_slice() {
+        return Err(Stale::OtherSettings);
+    }
+    let rows = sections.pop().ok_or(Stale::Damaged("parts missing"))?;
+    let rows = if flags & HAS_ROWS != 0 {
+        if rows.as_ref().len() != entries * ROW_BYTES {
+            return Err(Stale::Damaged("row table of the wrong length"));
+        }
+        Some(rows)
+    } else {
+        None
+    };
+    let parts: [Section; INDEX_PARTS] = sections.try_into().map_err(|_| Stale::Damaged("parts missing"))?;
+    let index = LexiconIndex::from_parts(parts, policy, options.clone()).ok_or(Stale::Damaged("index parts malformed"))?;
+    Ok(Opened { index, rows, header_len, entries })
+}
+
+/// Writes the cache file atomically, creating its folder.
+fn write_cache(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
+    if let Some(folder) = path.parent() {
+        std::fs::create_dir_all(folder)?;
+    }
+    crate::safe_io::atomic_write(path, bytes, false)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    const HEADER_LINE: &str = "word,pronunciation,status,source,score,note\n";
+
+    fn store(dir: &Path, body: &str) -> PathBuf {
+        let path = dir.join("lexicon.csv");
+        std::fs::write(&path, format!("{HEADER_LINE}{body}")).unwrap();
+        path
+    }
+
+    fn sample() -> String {
+        let mut body = String::new();
+        for i in 0..300 {
+            body.push_str(&format!("word{i:03},W ER1 D {i},imported,test,,\n"));
+            if i % 7 == 0 {
+                body.push_str(&format!("word{i:03},W ER1 D,accepted,review,0.5,\"a note, with\nnewline\"\n"));
+            }
+        }
+        body
+    }
+
+    /// Every entry through the cache equals the entry of a full load (the store's own parser).
+    fn assert_same_as_full_load(path: &Path, policy: HeadwordPolicy) {
+        let full = Lexicon::load(path, policy).unwrap();
+        let opened = IndexedStore::open(path, policy).unwrap();
+        let ids: Vec<EntryId> = (0..full.entries().len()).collect();
+        assert_eq!(opened.entries(&ids).unwrap(), full.entries());
+        for entry in full.entries() {
+            let found = opened.entries(opened.index().lookup(&entry.word)).unwrap();
+            assert!(found.contains(entry), "{entry:?}");
+        }
+    }
+
+    #[test]
+    fn rebuilt_when_missing_then_reused_and_rows_parse_alone() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = store(dir.path(), &sample());
+        let first = IndexedStore::open(&path, HeadwordPolicy::default()).unwrap();
+        assert_eq!(first.state(), &CacheState::Rebuilt(Stale::Missing));
+        assert!(cache_path(&path).exists());
+        let again = IndexedStore::open(&path, HeadwordPolicy::default()).unwrap();
+        assert_eq!(again.state(), &CacheState::Reused);
+        assert!(again.rows.is_some());
+        assert_same_as_full_load(&path, HeadwordPolicy::default());
+        let (lexicon, index) = again.into_parts().unwrap();
+        assert_eq!(index.lookup("word007"), &[8, 9]);
+        assert_eq!(lexicon.entries()[9].note, "a note, with\nnewline");
+        // Rows "W ER1 D" follow every seventh word: 0, 7, …, 294.
+        let homophones = index.sounds_like_unstressed("W ER D");
+        assert_eq!(homophones.len(), 43);
+        assert!(homophones.iter().all(|&id| lexicon.entries()[id].pronunciation == "W ER1 D"));
+    }
+
+    #[test]
+    fn every_flipped_byte_is_detected_and_rebuilt() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = store(dir.path(), &sample());
+        IndexedStore::open(&path, HeadwordPolicy::default()).unwrap();
+        let cache = cache_path(&path);
+        let good = std::fs::read(&cache).unwrap();
+        // Header, part table, each part's start, the middle, and the checksum itself.
+        let mut places = vec![0, 8, 12, 16, 24, 28, 32, FIXED, FIXED + 8, HEADER, good.len() / 2, good.len() - 1];
+        places.extend((0..PARTS).map(|i| read_u32(&good, FIXED + i * 16) as usize).filter(|&o| o < good.len()));
+        for at in places {
+            let mut bad = good.clone();
+            bad[at] ^= 0x20;
+            std::fs::write(&cache, &bad).unwrap();
+            let opened = IndexedStore::open(&path, HeadwordPolicy::default()).unwrap();
+            assert!(matches!(opened.state(), CacheState::Rebuilt(Stale::Damaged(_) | Stale::OtherVersion(_))), "byte {at}: {:?}", opened.state());
+            assert_eq!(std::fs::read(&cache).unwrap(), good, "byte {at}: rebuilt to the same bytes");
+        }
+        assert_same_as_full_load(&path, HeadwordPolicy::default());
+    }
+
+    #[test]
+    fn truncated_or_foreign_cache_is_rebuilt() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = store(dir.path(), &sample());
+        IndexedStore::open(&path, HeadwordPolicy::default()).unwrap();
+        let cache = cache_path(&path);
+        let good = std::fs::read(&cache).unwrap();
+        for cut in [0, 7, HEADER, good.len() - 1] {
+            std::fs::write(&cache, &good[..cut]).unwrap();
+            let opened = IndexedStore::open(&path, HeadwordPolicy::default()).unwrap();
+            assert!(matches!(opened.state(), CacheState::Rebuilt(Stale::Damaged(_))), "cut {cut}: {:?}", opened.state());
+        }
+        std::fs::write(&cache, HEADER_LINE.repeat(20)).unwrap();
+        let opened = IndexedStore::open(&path, HeadwordPolicy::default()).unwrap();
+        assert_eq!(opened.state(), &CacheState::Rebuilt(Stale::Damaged("not an index cache")));
+    }
+
+    #[test]
+    fn a_change_of_the_same_length_and_time_is_seen() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = store(dir.path(), "quay,K IY1,imported,,,\n");
+        IndexedStore::open(&path, HeadwordPolicy::default()).unwrap();
+        let modified = std::fs::metadata(&path).unwrap().modified().unwrap();
+        std::fs::write(&path, format!("{HEADER_LINE}quay,K EY1,imported,,,\n")).unwrap();
+        std::fs::File::options().write(true).open(&path).unwrap().set_modified(modified).unwrap();
+        let opened = IndexedStore::open(&path, HeadwordPolicy::default()).unwrap();
+        assert_eq!(opened.state(), &CacheState::Rebuilt(Stale::StoreChanged));
+        assert_eq!(opened.entries(&[0]).unwrap()[0].pronunciation, "K EY1");
+    }
+
+    #[test]
+    fn another_policy_rebuilds() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = store(dir.path(), "Quay,K IY1,imported,,,\n");
+        IndexedStore::open(&path, HeadwordPolicy { fold_case: false }).unwrap();
+        let folded = IndexedStore::open(&path, HeadwordPolicy { fold_case: true }).unwrap();
+        assert_eq!(folded.state(), &CacheState::Rebuilt(Stale::OtherSettings));
+        assert_eq!(folded.index().lookup("quay"), &[0]);
+    }
+
+    #[test]
+    fn unwritable_folder_still_answers() {
+        // Running as root ignores permission bits, so the cache folder's place is taken by a
+        // file: creating the folder fails as it does on a read-only folder.
+        let dir = tempfile::tempdir().unwrap();
+        let path = store(dir.path(), &sample());
+        std::fs::write(dir.path().join(CACHE_FOLDER), b"in the way").unwrap();
+        let opened = IndexedStore::open(&path, HeadwordPolicy::default()).unwrap();
+        assert!(matches!(opened.state(), CacheState::Unsaved { stale: Stale::Damaged(_), .. }), "{:?}", opened.state());
+        assert_eq!(opened.entries(opened.index().lookup("word010")).unwrap()[0].pronunciation, "W ER1 D 10");
+        assert_eq!(std::fs::read(dir.path().join(CACHE_FOLDER)).unwrap(), b"in the way");
+    }
+
+    #[test]
+    fn unsorted_crlf_bom_stores_locate_their_rows() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("lexicon.csv");
+        let text = "\u{feff}word,pronunciation,status,source,score,note\r\n\r\nzed,Z EH1 D,imported,,,\r\nAble,EY1 B AH0 L,imported,,,\"two\r\nlines\"\r\n\r\nzed,Z IY1,accepted,,,\r\nable,EY1 B L,imported,,,";
+        std::fs::write(&path, text).unwrap();
+        for policy in [HeadwordPolicy { fold_case: true }, HeadwordPolicy { fold_case: false }] {
+            IndexedStore::open(&path, policy).unwrap();
+            let opened = IndexedStore::open(&path, policy).unwrap();
+            assert_eq!(opened.state(), &CacheState::Reused);
+            assert!(opened.rows.is_some());
+            assert_same_as_full_load(&path, policy);
+        }
+    }
+
+    #[test]
+    fn records_not_on_their_own_lines_fall_back_to_a_full_parse() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("lexicon.csv");
+        std::fs::write(&path, "word,pronunciation,status,source,score,note\rquay,K IY1,imported,,,\rpier,P IH1 R,imported,,,\r").unwrap();
+        IndexedStore::open(&path, HeadwordPolicy::default()).unwrap();
+        let opened = IndexedStore::open(&path, HeadwordPolicy::default()).unwrap();
+        assert_eq!(opened.state(), &CacheState::Reused);
+        assert!(opened.rows.is_none());
+        assert_same_as_full_load(&path, HeadwordPolicy::default());
+        // A quote inside an unquoted field is a literal character to the parser, not a quote:
+        // counting quotes then misplaces records, which the checks catch.
+        std::fs::write(&path, format!("{HEADER_LINE}o\"neil,OW1 N IY1 L,imported,,,\nquay,K IY1,imported,,,\npier,P IH1 R,imported,,,\n")).unwrap();
+        IndexedStore::open(&path, HeadwordPolicy::default()).unwrap();
+        assert_same_as_full_load(&path, HeadwordPolicy::default());
+    }
+
+    #[test]
+    fn a_malformed_store_is_an_error_and_writes_no_cache() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = store(dir.path(), "quay,K IY1,approved,,,\n");
+        assert!(matches!(IndexedStore::open(&path, HeadwordPolicy::default()), Err(LexiconError::Parse(_))));
+        assert!(!dir.path().join(CACHE_FOLDER).exists());
+    }
+}
