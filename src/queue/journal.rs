@@ -57,6 +57,24 @@ pub enum Action {
     Reject,
     /// Decide later; the item leaves the pending list until the set-aside filter shows it.
     SetAside,
+    /// Replace the pronunciation `from` of an existing lexicon entry (made from the search
+    /// overlay; the decision's key is [`entry_key`](super::entry_key)).
+    ChangeEntry {
+        /// The entry's pronunciation now.
+        from: String,
+        /// What it becomes.
+        pronunciation: String,
+    },
+    /// Add a further pronunciation to an existing headword.
+    AddVariant {
+        /// The new pronunciation.
+        pronunciation: String,
+    },
+    /// Mark an existing entry deprecated (it stays in the store, out of the exports).
+    DeprecateEntry {
+        /// The entry's pronunciation.
+        pronunciation: String,
+    },
 }
 
 /// A decision about one queued item.

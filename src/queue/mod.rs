@@ -8,6 +8,7 @@
 //! screen hands it [`Decision`]s.
 
 mod apply;
+mod entry_edit;
 mod error;
 mod fileio;
 mod guessing;
@@ -23,6 +24,7 @@ mod store;
 mod tokenise;
 
 pub use apply::{apply_decisions, ApplyReport, Outcome};
+pub use entry_edit::entry_key;
 pub use error::QueueError;
 pub use guessing::{candidates_for, fill_candidates, CandidateSource, WorkspaceGuesser};
 pub use project_files::{
