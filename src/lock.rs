@@ -22,7 +22,6 @@ use std::fs;
 use std::io::{self, Read};
 use std::path::{Path, PathBuf};
 use std::sync::{Mutex, PoisonError};
-use std::time::{SystemTime, UNIX_EPOCH};
 
 use serde::{Deserialize, Serialize};
 
@@ -95,7 +94,7 @@ impl LockHolder {
             host: host_name(),
             boot_id: boot_id(),
             process_start: process_start(pid),
-            since: SystemTime::now().duration_since(UNIX_EPOCH).map_or(0, |d| d.as_secs()),
+            since: crate::support::clock::now_secs(),
             command: command.to_string(),
         }
     }
@@ -124,26 +123,8 @@ impl LockHolder {
 impl std::fmt::Display for LockHolder {
     /// `process 4242 on host "quay" (orthoepy review, since 2024-05-01 09:30:00 UTC)`
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
-        write!(f, "process {} on host {:?} (orthoepy {}, since {})", self.pid, self.host, self.command, utc(self.since))
+        write!(f, "process {} on host {:?} (orthoepy {}, since {})", self.pid, self.host, self.command, crate::support::clock::utc(self.since))
     }
-}
-
-/// Seconds since 1970 as `YYYY-MM-DD HH:MM:SS UTC`, by the days-to-civil algorithm of
-/// H. Hinnant, "chrono-Compatible Low-Level Date Algorithms" (2013).
-fn utc(secs: u64) -> String {
-    let days = secs / 86_400;
-    let rest = secs % 86_400;
-    // Shift the epoch to 0000-03-01 so leap days fall at the end of a year.
-    let z = days + 719_468;
-    let era = z / 146_097;
-    let doe = z - era * 146_097;
-    let yoe = (doe - doe / 1_460 + doe / 36_524 - doe / 146_096) / 365;
-    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
-    let mp = (5 * doy + 2) / 153;
-    let day = doy - (153 * mp + 2) / 5 + 1;
-    let month = if mp < 10 { mp + 3 } else { mp - 9 };
-    let year = yoe + era * 400 + u64::from(month <= 2);
-    format!("{year:04}-{month:02}-{day:02} {:02}:{:02}:{:02} UTC", rest / 3_600, rest % 3_600 / 60, rest % 60)
 }
 
 /// Why the lock could not be taken.
@@ -724,9 +705,9 @@ mod tests {
     fn utc_dates_match_known_instants() {
         // Unix time 0 is 1970-01-01 00:00:00 UTC (POSIX.1-2017, 4.16); 951_782_400 is the leap
         // day 2000-02-29 (common practice, e.g. `date -u -d @951782400`).
-        assert_eq!(utc(0), "1970-01-01 00:00:00 UTC");
-        assert_eq!(utc(951_782_400), "2000-02-29 00:00:00 UTC");
-        assert_eq!(utc(1_714_555_800), "2024-05-01 09:30:00 UTC");
+        assert_eq!(crate::support::clock::utc(0), "1970-01-01 00:00:00 UTC");
+        assert_eq!(crate::support::clock::utc(951_782_400), "2000-02-29 00:00:00 UTC");
+        assert_eq!(crate::support::clock::utc(1_714_555_800), "2024-05-01 09:30:00 UTC");
     }
 
     #[test]

@@ -135,6 +135,36 @@ pub fn write_pls(
     Ok(out)
 }
 
+/// IPA for single pronunciations exactly as [`write_pls`] writes them (stress marks before the
+/// maximal legal onset, onsets taken from the word-initial clusters of `entries`), for showing
+/// a pronunciation in IPA elsewhere (the review screen's IPA display).
+///
+/// ```
+/// use orthoepy::lexicon::Entry;
+/// use orthoepy::phoneset::Phoneset;
+/// use orthoepy::pls::IpaWriter;
+/// let set = Phoneset::shipped("en-arpa").unwrap();
+/// let ipa = IpaWriter::new(&[Entry::new("port", "P AO1 R T")], &set);
+/// assert_eq!(ipa.ipa(&set, "K IY1").unwrap(), "ˈki");
+/// assert_eq!(ipa.ipa(&set, "K EH1 L P AO2 R T").unwrap(), "ˈkɛlˌpɔɹt");
+/// ```
+#[derive(Debug, Clone, Default)]
+pub struct IpaWriter {
+    onsets: HashSet<Vec<String>>,
+}
+
+impl IpaWriter {
+    /// Collect the legal onsets from `entries`.
+    pub fn new(entries: &[Entry], set: &Phoneset) -> IpaWriter {
+        IpaWriter { onsets: word_initial_onsets(entries, set) }
+    }
+
+    /// `pronunciation` (phone symbols) in IPA; an unknown phone is an error.
+    pub fn ipa(&self, set: &Phoneset, pronunciation: &str) -> Result<String, PlsError> {
+        to_ipa(&Entry::new("", pronunciation), set, &self.onsets)
+    }
+}
+
 /// The consonant clusters that begin words in `entries` (each as phone symbols).
 fn word_initial_onsets(entries: &[Entry], set: &Phoneset) -> HashSet<Vec<String>> {
     let mut onsets = HashSet::new();

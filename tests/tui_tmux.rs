@@ -76,3 +76,60 @@ fn decisions_survive_kill_9() {
     assert!(lexicon.lines().any(|l| l.starts_with("Kelport,") && l.contains(",accepted,")));
     assert!(dir.join("lexicon.csv.bak").exists());
 }
+
+/// The pid of the process whose parent is `parent` (read from /proc/PID/stat, field 4).
+fn child_of(parent: &str) -> Option<String> {
+    let start = Instant::now();
+    while start.elapsed() < Duration::from_secs(10) {
+        for entry in std::fs::read_dir("/proc").ok()?.flatten() {
+            let Ok(stat) = std::fs::read_to_string(entry.path().join("stat")) else { continue };
+            // "PID (COMMAND) STATE PPID ...": the command may hold spaces, so split after ')'.
+            let ppid = stat.rsplit_once(')').and_then(|(_, rest)| rest.split_whitespace().nth(1).map(str::to_string));
+            if ppid.as_deref() == Some(parent) {
+                return Some(entry.file_name().to_string_lossy().into_owned());
+            }
+        }
+        std::thread::sleep(Duration::from_millis(100));
+    }
+    None
+}
+
+#[test]
+fn sigterm_and_sighup_restore_the_terminal_and_keep_the_journal_whole() {
+    if !have_tmux() {
+        eprintln!("SKIPPED sigterm_and_sighup_restore_the_terminal: tmux is not installed (apt-get install tmux)");
+        return;
+    }
+    for signal in ["TERM", "HUP"] {
+        let tmp = tempfile::tempdir().unwrap();
+        let dir = tmp.path().join("coast");
+        let made = Command::new(bin()).args(["demo", "--no-review"]).arg(&dir).output().unwrap();
+        assert!(made.status.success(), "{}", String::from_utf8_lossy(&made.stderr));
+        // The shell stays after the screen closes, to show the terminal's state: `stty -a`
+        // prints "icanon" and "echo" (not "-icanon", "-echo") once raw mode is off.
+        let command = format!(
+            "{} review --project {} --reviewer tester; echo \"closed with $?\"; stty -a; sleep 60",
+            bin(),
+            dir.display()
+        );
+        let name = format!("orthoepy-sig{signal}-{}", std::process::id());
+        let s = Session::start(&name, &command);
+        s.wait_for("Kelport");
+        s.keys(&["Enter"]);
+        s.wait_for("saved ✓ #1");
+        let screen_pid = child_of(&s.pid()).expect("the review process");
+        let sent = Command::new("kill").args([&format!("-{signal}"), &screen_pid]).status().unwrap();
+        assert!(sent.success());
+        let after = s.wait_for("closed with 0");
+        assert!(!after.contains("Kelport") && !after.contains("candidates"), "SIG{signal}: the frame is gone:\n{after}");
+        assert!(after.contains(" icanon") && after.contains(" echo "), "SIG{signal}: raw mode off:\n{after}");
+        assert!(after.contains("decision(s) in"), "SIG{signal}: closed as q closes:\n{after}");
+        drop(s);
+        // Nothing half-written: the journal checks clean and holds the decision.
+        let check = Command::new(bin()).args(["journal", "check", "--project"]).arg(&dir).output().unwrap();
+        assert!(check.status.success(), "SIG{signal}: {}", String::from_utf8_lossy(&check.stdout));
+        let journal = std::fs::read_to_string(dir.join("journal.jsonl")).unwrap();
+        assert_eq!(journal.lines().count(), 1, "{journal}");
+        assert!(!dir.join(".orthoepy.lock").exists(), "SIG{signal}: the lock is released");
+    }
+}

@@ -71,6 +71,12 @@ fn editor_validates_completes_and_saves_an_edit() {
     let Mode::Edit(ed) = &app.mode else { panic!() };
     assert_eq!(ed.offers, vec!["AO0", "AO1", "AO2"]);
     press(&mut app, &type_text("1 R T"), &l, &mut j);
+    // Two primary stresses: the audit's multiple-primary-stress check warns (a warning, so a
+    // second Enter saves; the project's default policy is exactly one primary stress).
+    press(&mut app, &[Key::Enter], &l, &mut j);
+    assert!(matches!(app.mode, Mode::Edit(_)), "warned first");
+    assert!(app.message.contains("multiple-primary-stress"), "{}", app.message);
+    assert!(j.records().is_empty());
     press(&mut app, &[Key::Enter], &l, &mut j);
     assert_eq!(app.mode, Mode::Normal);
     let ledger = Ledger::replay(j.records());
@@ -245,4 +251,145 @@ fn a_typed_note_goes_with_the_next_decision_and_survives_a_failed_write() {
     let (_, d) = ledger.current("new:kelport").expect("decided");
     assert!(d.note.ends_with("note: heard as KEL-port on the harbour radio"), "{}", d.note);
     assert!(app.notes.is_empty(), "the note is used once");
+}
+
+#[test]
+fn editor_runs_the_audits_per_entry_checks() {
+    let (_d, mut j) = journal();
+    let l = lookups();
+    let mut app = app();
+    press(&mut app, &[Key::Char('e')], &l, &mut j);
+    press(&mut app, &std::iter::repeat(Key::Backspace).take(40).collect::<Vec<_>>(), &l, &mut j);
+    // The example: every phone known, but no primary stress; the audit's
+    // missing-primary-stress check reports it, so the editor does too.
+    press(&mut app, &type_text("K EH0 L P AO0 R T"), &l, &mut j);
+    let verdicts = app.phones.audit("Kelport", "K EH0 L P AO0 R T");
+    let ids: Vec<&str> = verdicts.iter().map(|v| v.check).collect();
+    // The same checks the queue takes from the audit, in the audit's report order.
+    let expected: Vec<&str> = orthoepy::audit::select_checks(&orthoepy::queue::PRONUNCIATION_CHECKS).unwrap().iter().map(|c| c.id()).collect();
+    assert_eq!(ids, expected);
+    assert!(verdicts.iter().any(|v| v.check == "missing-primary-stress" && v.problem.is_some()));
+    press(&mut app, &[Key::Enter], &l, &mut j);
+    assert!(app.message.contains("missing-primary-stress"), "{}", app.message);
+    assert!(j.records().is_empty(), "not saved on the first Enter");
+    // A pronunciation with no nucleus at all: the no-nucleus check (a warning) speaks too.
+    assert!(app.phones.audit("x", "K L P").iter().any(|v| v.check == "no-nucleus" && v.problem.is_some()));
+    // An unknown phone is an error: never saved, however often Enter is pressed.
+    press(&mut app, &[Key::Backspace, Key::Char('X')], &l, &mut j);
+    press(&mut app, &[Key::Enter, Key::Enter], &l, &mut j);
+    assert!(j.records().is_empty());
+}
+
+#[test]
+fn keys_act_only_on_a_visible_item() {
+    let (_d, mut j) = journal();
+    let l = lookups();
+    let mut app = app();
+    press(&mut app, &[Key::Char('f')], &l, &mut j);
+    press(&mut app, &type_text("score>2"), &l, &mut j);
+    press(&mut app, &[Key::Enter], &l, &mut j);
+    for key in [Key::Enter, Key::Char('x'), Key::Char('s'), Key::Char('e'), Key::Char('m')] {
+        let effects = update(&mut app, Event::Key(key));
+        assert!(effects.iter().all(|e| !matches!(e, Effect::AppendJournal(_))), "{key:?} acted: {effects:?}");
+        assert_eq!(app.mode, Mode::Normal, "{key:?}");
+        assert!(app.message.contains("no item matches the filter `score>2`"), "{key:?}: {}", app.message);
+    }
+    assert!(j.records().is_empty());
+}
+
+#[test]
+fn source_filter_is_on_the_best_candidate() {
+    let (_d, mut j) = journal();
+    let l = lookups();
+    let mut app = app();
+    // Kelport's best candidate is g2p (its second is rules:en); quayside's best is a compound.
+    press(&mut app, &[Key::Char('f')], &l, &mut j);
+    press(&mut app, &type_text("source=rules"), &l, &mut j);
+    press(&mut app, &[Key::Enter], &l, &mut j);
+    assert!(!app.visible(0) && !app.visible(1) && !app.visible(2));
+}
+
+#[test]
+fn changing_a_decision_asks_first_and_journals_a_new_one() {
+    let (_d, mut j) = journal();
+    let l = lookups();
+    let mut app = app();
+    press(&mut app, &[Key::Enter, Key::Char('p')], &l, &mut j);
+    assert_eq!(app.cursor, 0);
+    press(&mut app, &[Key::Char('x')], &l, &mut j);
+    assert!(matches!(&app.mode, Mode::Confirm(c) if c.question.contains("accepted /K EH1 L P AO2 R T/")), "{:?}", app.mode);
+    press(&mut app, &[Key::Char('n')], &l, &mut j);
+    assert_eq!(j.records().len(), 1, "any other key keeps the decision");
+    press(&mut app, &[Key::Char('x'), Key::Char('y')], &l, &mut j);
+    assert_eq!(j.records().len(), 2, "the change is a new decision");
+    let ledger = Ledger::replay(j.records());
+    assert!(matches!(ledger.current("new:kelport"), Some((2, d)) if d.action == Action::Reject));
+    // The same decision again changes nothing and asks nothing.
+    app.cursor = 0;
+    press(&mut app, &[Key::Char('x')], &l, &mut j);
+    assert_eq!(j.records().len(), 2);
+    assert!(app.message.contains("already rejected"), "{}", app.message);
+}
+
+#[test]
+fn search_result_jumps_to_its_queue_item() {
+    let (_d, mut j) = journal();
+    let l = lookups_with(&[("harbour", "HH AA1 R B ER0")]);
+    let mut app = app();
+    press(&mut app, &[Key::Char('f')], &l, &mut j);
+    press(&mut app, &type_text("kind=new"), &l, &mut j);
+    press(&mut app, &[Key::Enter, Key::Char('/')], &l, &mut j);
+    press(&mut app, &type_text("harbour"), &l, &mut j);
+    press(&mut app, &[Key::Enter], &l, &mut j);
+    assert_eq!(app.mode, Mode::Normal);
+    assert_eq!(app.cursor, 2, "the variant item about harbour");
+    assert!(app.visible(2), "the filter that hid it was cleared");
+}
+
+#[test]
+fn a_lexicon_entry_edited_from_the_search_is_merged_by_apply() {
+    use orthoepy::lexicon::Status;
+    use orthoepy::queue::{apply_decisions, Outcome, Queue};
+    let (_d, mut j) = journal();
+    let l = lookups();
+    let mut app = app();
+    // "key" is in the lexicon, not in the queue: Enter opens the entry, c changes it.
+    press(&mut app, &[Key::Char('/')], &l, &mut j);
+    press(&mut app, &[Key::Tab, Key::Tab], &l, &mut j);
+    press(&mut app, &type_text("key"), &l, &mut j);
+    let Mode::Search(b) = &app.mode else { panic!("{:?}", app.mode) };
+    assert_eq!(b.hits.first().map(|h| h.word.as_str()), Some("key"));
+    press(&mut app, &[Key::Enter], &l, &mut j);
+    assert!(matches!(&app.mode, Mode::Entry(e) if e.word == "key"), "{:?}", app.mode);
+    press(&mut app, &[Key::Char('c')], &l, &mut j);
+    press(&mut app, &[Key::Backspace, Key::Char('2')], &l, &mut j);
+    // K IY2 has no primary stress: warned, then saved on the second Enter.
+    press(&mut app, &[Key::Enter, Key::Enter], &l, &mut j);
+    assert_eq!(j.records().len(), 1);
+    // Deprecate "side" (asks first), add a variant to "port".
+    for (word, keys) in [("side", vec![Key::Char('d'), Key::Char('y')]), ("port", vec![Key::Char('v')])] {
+        press(&mut app, &[Key::Char('/')], &l, &mut j);
+        press(&mut app, &[Key::Tab, Key::Tab], &l, &mut j);
+        press(&mut app, &type_text(word), &l, &mut j);
+        press(&mut app, &[Key::Enter], &l, &mut j);
+        press(&mut app, &keys, &l, &mut j);
+    }
+    press(&mut app, &std::iter::repeat(Key::Backspace).take(20).collect::<Vec<_>>(), &l, &mut j);
+    press(&mut app, &type_text("P OW1 R T"), &l, &mut j);
+    press(&mut app, &[Key::Enter], &l, &mut j);
+    assert_eq!(j.records().len(), 3, "{}", app.message);
+    let (records, _) = Journal::read(j.path()).unwrap();
+    let ledger = Ledger::replay(&records);
+    let mut lexicon = lexicon();
+    let report = apply_decisions(&mut lexicon, &Queue::new(), &ledger);
+    assert!(matches!(&report.outcomes[0], Outcome::Replaced { old, new, .. } if old == "K IY1" && new == "K IY2"));
+    assert!(matches!(&report.outcomes[1], Outcome::Deprecated { word, .. } if word == "side"));
+    assert!(matches!(&report.outcomes[2], Outcome::Added { pronunciation, .. } if pronunciation == "P OW1 R T"));
+    let side = lexicon.entries().iter().find(|e| e.word == "side").unwrap();
+    assert_eq!(side.status, Status::Deprecated);
+    assert!(side.note.starts_with("reviewed"), "{}", side.note);
+    // The same conflict rule as any decision: applying to a lexicon whose entry changed meanwhile.
+    let mut changed = orthoepy::lexicon::Lexicon::from_entries(vec![orthoepy::lexicon::Entry::new("key", "K EY1")], Default::default());
+    let again = apply_decisions(&mut changed, &Queue::new(), &ledger);
+    assert!(matches!(&again.outcomes[0], Outcome::Conflict { seq: 1, .. }), "{:?}", again.outcomes);
 }

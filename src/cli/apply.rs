@@ -31,6 +31,7 @@ fn describe(o: &Outcome) -> String {
     match o {
         Outcome::Added { word, pronunciation } => format!("added     {word} /{pronunciation}/"),
         Outcome::Replaced { word, old, new } => format!("replaced  {word} /{old}/ -> /{new}/"),
+        Outcome::Deprecated { word, pronunciation } => format!("deprecated {word} /{pronunciation}/"),
         Outcome::Unchanged { word, reason } => format!("unchanged {word}: {reason}"),
         Outcome::Conflict { word, reason, .. } => format!("CONFLICT  {word}: {reason}"),
     }

@@ -329,6 +329,9 @@ fn shown(l: &ListedItem) -> String {
         Action::Reject => "reject".to_string(),
         Action::SetAside => "set aside".to_string(),
         Action::Remove => "removed from review".to_string(),
+        Action::ChangeEntry { from, pronunciation } => format!("change {from} to {pronunciation}"),
+        Action::AddVariant { pronunciation } => format!("add variant {pronunciation}"),
+        Action::DeprecateEntry { pronunciation } => format!("deprecate {pronunciation}"),
     };
     let note = if d.note.is_empty() { String::new() } else { format!(" — {}", d.note) };
     format!("{action} (#{}){note}", d.seq)

@@ -36,6 +36,13 @@ pub enum Outcome {
         /// What it is now.
         new: String,
     },
+    /// An entry was marked deprecated.
+    Deprecated {
+        /// Headword.
+        word: String,
+        /// The deprecated pronunciation.
+        pronunciation: String,
+    },
     /// Nothing to change (rejected, or the lexicon already has it).
     Unchanged {
         /// Headword.
@@ -52,6 +59,13 @@ pub enum Outcome {
         /// What contradicts it.
         reason: String,
     },
+}
+
+impl Outcome {
+    /// Whether this outcome changed the lexicon (added, replaced or deprecated an entry).
+    pub fn changes_lexicon(&self) -> bool {
+        matches!(self, Outcome::Added { .. } | Outcome::Replaced { .. } | Outcome::Deprecated { .. })
+    }
 }
 
 /// The result of [`apply_decisions`].
@@ -76,7 +90,7 @@ impl ApplyReport {
 
     /// Whether the lexicon was changed.
     pub fn changed(&self) -> bool {
-        self.outcomes.iter().any(|o| matches!(o, Outcome::Added { .. } | Outcome::Replaced { .. }))
+        self.outcomes.iter().any(Outcome::changes_lexicon)
     }
 }
 
@@ -119,6 +133,9 @@ pub fn apply_decisions(lexicon: &mut Lexicon, queue: &Queue, ledger: &Ledger) ->
 }
 
 fn apply_one(lexicon: &mut Lexicon, by_word: &mut HashMap<String, Vec<usize>>, queue: &Queue, seq: u64, d: &Decision) -> Outcome {
+    if let Some(outcome) = super::entry_edit::apply_entry_edit(lexicon, by_word, seq, d) {
+        return outcome;
+    }
     let word = d.word.clone();
     let Some(item) = queue.get(&d.item) else {
         return Outcome::Conflict { seq, word, reason: format!("item {} is no longer in the queue", d.item) };

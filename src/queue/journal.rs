@@ -60,6 +60,24 @@ pub enum Action {
     /// Not to be reviewed: the item leaves the queue's lists and the review screen (it stays in
     /// the queue file, so revoking the removal brings it back); `apply` ignores it.
     Remove,
+    /// Replace the pronunciation `from` of an existing lexicon entry (made from the search
+    /// overlay; the decision's key is [`entry_key`](super::entry_key)).
+    ChangeEntry {
+        /// The entry's pronunciation now.
+        from: String,
+        /// What it becomes.
+        pronunciation: String,
+    },
+    /// Add a further pronunciation to an existing headword.
+    AddVariant {
+        /// The new pronunciation.
+        pronunciation: String,
+    },
+    /// Mark an existing entry deprecated (it stays in the store, out of the exports).
+    DeprecateEntry {
+        /// The entry's pronunciation.
+        pronunciation: String,
+    },
 }
 
 /// A decision about one queued item.

@@ -62,6 +62,12 @@ impl Ledger {
         self.per_item.get(key).and_then(|s| s.last()).map(|(seq, d)| (*seq, d))
     }
 
+    /// The decision with this sequence number, if it is the one in force for its item.
+    pub fn in_force(&self, seq: u64) -> Option<&Decision> {
+        let key = self.item_of_seq.get(&seq)?;
+        self.current(key).filter(|(s, _)| *s == seq).map(|(_, d)| d)
+    }
+
     /// Whether the decision in force for this item is already merged into the lexicon
     /// (set-aside decisions never are: they stay open).
     pub fn is_applied(&self, key: &str) -> bool {

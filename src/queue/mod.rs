@@ -10,6 +10,7 @@
 
 mod apply;
 mod batch;
+mod entry_edit;
 mod error;
 mod fileio;
 mod guessing;
@@ -29,6 +30,7 @@ pub use batch::{
     plan_batch, plan_removal, plan_restore, plan_undo, removed_keys, run_batch, BatchError, BatchPlan, BatchRequest, BatchRun,
     Selection, Threshold,
 };
+pub use entry_edit::entry_key;
 pub use error::QueueError;
 pub use guessing::{candidates_for, fill_candidates, CandidateSource, WorkspaceGuesser};
 pub use project_files::{

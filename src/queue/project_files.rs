@@ -11,7 +11,7 @@
 
 use std::path::Path;
 
-use super::apply::{apply_decisions, ApplyReport, Outcome};
+use super::apply::{apply_decisions, ApplyReport};
 use super::error::QueueError;
 use super::item::{Candidate, Item};
 use super::journal::{Journal, JournalWarning, Record};
@@ -159,7 +159,7 @@ pub fn apply_project(project: &Project, options: ApplyOptions) -> Result<ApplyRu
         (Some(journal), ledger, warnings)
     };
     let report = apply_decisions(&mut lexicon, &queue, &ledger);
-    let merged = report.outcomes.iter().filter(|o| matches!(o, Outcome::Added { .. } | Outcome::Replaced { .. })).count();
+    let merged = report.outcomes.iter().filter(|o| o.changes_lexicon()).count();
     let mut run = ApplyRun { report, status: ApplyStatus::DryRun, merged, reopened: 0, warnings };
     if run.report.has_conflicts() && !options.skip_conflicts {
         run.status = ApplyStatus::Refused;

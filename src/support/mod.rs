@@ -6,6 +6,7 @@
 //! module of the crate: every other module may depend on `support`, never the reverse.
 
 pub mod align;
+pub mod clock;
 pub mod hash;
 pub mod located;
 pub mod read;

@@ -5,6 +5,26 @@
 
 use super::phones::{check_all, PhoneCheck, TokenVerdict};
 
+/// What saving the editor's text decides.
+#[derive(Debug, Clone, PartialEq, Eq, Default)]
+pub enum EditPurpose {
+    /// Accept the text for the item on screen.
+    #[default]
+    Item,
+    /// Replace the pronunciation `from` of the lexicon entry `word`.
+    ChangeEntry {
+        /// The headword.
+        word: String,
+        /// Its pronunciation now.
+        from: String,
+    },
+    /// Add the text as a further pronunciation of the headword `word`.
+    AddVariant {
+        /// The headword.
+        word: String,
+    },
+}
+
 /// The editor's state.
 #[derive(Debug, Clone, PartialEq, Eq, Default)]
 pub struct Editor {
@@ -16,12 +36,28 @@ pub struct Editor {
     pub offers: Vec<String>,
     /// The pronunciation the edit started from.
     pub original: String,
+    /// What saving decides.
+    pub purpose: EditPurpose,
+    /// The text whose audit warnings were shown on the last Enter (a second Enter saves it).
+    pub warned: Option<String>,
 }
 
 impl Editor {
     /// Start editing `text` with the cursor at its end.
     pub fn new(text: &str) -> Editor {
-        Editor { text: text.to_string(), cursor: text.chars().count(), offers: Vec::new(), original: text.to_string() }
+        Editor::for_purpose(text, EditPurpose::Item)
+    }
+
+    /// Start editing `text` for a lexicon entry (or the item on screen).
+    pub fn for_purpose(text: &str, purpose: EditPurpose) -> Editor {
+        Editor {
+            text: text.to_string(),
+            cursor: text.chars().count(),
+            offers: Vec::new(),
+            original: text.to_string(),
+            purpose,
+            warned: None,
+        }
     }
 
     fn byte_at(&self, char_pos: usize) -> usize {

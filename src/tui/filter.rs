@@ -1,14 +1,20 @@
-//! Queue filters typed after `f`: space-separated terms, all of which must hold.
-//!
-//! * `source=TEXT` — some candidate's source contains TEXT (`source=g2p`, `source=variant`)
-//! * `origin=TEXT` — the item's origin contains TEXT (`origin=corpus`)
-//! * `kind=new|variant|audit`
-//! * `score<X`, `score>X` — the best candidate's score (items without scores never match)
-//! * `state=pending|decided|aside|all` — default `all`
+//! Queue filters typed after `f`: space-separated terms, all of which must hold. [`TERMS`] is
+//! the one description of each term: the help overlay draws it, the README repeats it as its
+//! filter table (a test keeps the two in step), and the parser's error lists its forms.
 //!
 //! An empty filter shows everything. Parsing is pure; the app applies it.
 
 use crate::queue::{Item, ItemState};
+
+/// `(term, what it shows)` for every filter term, in the order help and README list them.
+pub const TERMS: &[(&str, &str)] = &[
+    ("source=TEXT", "items whose best candidate's source contains TEXT (any case)"),
+    ("origin=TEXT", "items whose origin contains TEXT (any case)"),
+    ("kind=new|variant|audit", "items of that kind"),
+    ("score<X", "items whose best candidate's score is below X (no score: never shown)"),
+    ("score>X", "items whose best candidate's score is above X (no score: never shown)"),
+    ("state=pending|decided|aside|applied|all", "items in that review state (default all)"),
+];
 
 /// Why filter text could not be parsed: the term at fault and what is allowed there.
 #[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
@@ -32,7 +38,7 @@ pub enum FilterError {
         term: String,
     },
     /// A term of no known form.
-    #[error("`{term}`: use source=TEXT, origin=TEXT, kind=new|variant|audit, score<X, score>X, state=...")]
+    #[error("`{term}`: use {}", TERMS.iter().map(|(t, _)| *t).collect::<Vec<_>>().join(", "))]
     Unknown {
         /// The term as typed.
         term: String,
@@ -105,15 +111,17 @@ impl Filter {
         &self.text
     }
 
-    /// Whether an item in the given state passes.
+    /// Whether an item in the given state passes. Source and score are those of the best
+    /// (first) candidate, as [`TERMS`] says.
     pub fn matches(&self, item: &Item, state: ItemState) -> bool {
-        let best = item.candidates.first().and_then(|c| c.score);
+        let best = item.candidates.first();
+        let score = best.and_then(|c| c.score);
         self.terms.iter().all(|t| match t {
-            Term::Source(s) => item.candidates.iter().any(|c| c.source.to_lowercase().contains(s.as_str())),
+            Term::Source(s) => best.is_some_and(|c| c.source.to_lowercase().contains(s.as_str())),
             Term::Origin(s) => item.origin.to_lowercase().contains(s.as_str()),
             Term::Kind(k) => item.kind.tag() == k,
-            Term::ScoreBelow(x) => best.is_some_and(|b| b < *x),
-            Term::ScoreAbove(x) => best.is_some_and(|b| b > *x),
+            Term::ScoreBelow(x) => score.is_some_and(|b| b < *x),
+            Term::ScoreAbove(x) => score.is_some_and(|b| b > *x),
             Term::State(want) => want.map_or(true, |w| w == state),
         })
     }
@@ -143,5 +151,15 @@ mod tests {
         assert_eq!(Filter::parse("score<x"), Err(FilterError::Score { term: "score<x".into() }));
         assert!(matches!(Filter::parse("kind=other"), Err(FilterError::Kind { .. })));
         assert!(matches!(Filter::parse("state=done"), Err(FilterError::State { .. })));
+    }
+
+    #[test]
+    fn source_is_the_best_candidates_only() {
+        let mut item = Item::new_word("kelport");
+        item.candidates.push(Candidate::new("K EH1 L P ER0 T", "rules:en"));
+        item.candidates.push(Candidate::new("K EH1 L P AO2 R T", "g2p"));
+        assert!(!Filter::parse("source=g2p").unwrap().matches(&item, ItemState::Pending));
+        assert!(Filter::parse("source=rules").unwrap().matches(&item, ItemState::Pending));
+        assert!(!Filter::parse("source=g2p").unwrap().matches(&Item::new_word("x"), ItemState::Pending));
     }
 }

@@ -13,8 +13,12 @@ pub const KEYS: &[(&str, &str)] = &[
     ("n / p", "next / previous item"),
     ("u", "undo the last decision"),
     ("Ctrl-r", "redo"),
-    ("/", "search the lexicon (Tab: exact, prefix, fuzzy; Esc closes)"),
+    ("/", "search the lexicon (Tab: exact, prefix, fuzzy; ↑/↓ pick; Esc)"),
+    ("Enter in /", "open the result: its queue item, else the lexicon entry"),
+    ("c v d", "on an entry: change it, add a variant, deprecate it"),
+    ("y", "yes to a question (replace a decision, deprecate an entry)"),
     ("f", "filter the queue (source= origin= kind= score< score> state=)"),
+    ("i", "pronunciations in IPA or in the phoneset's symbols"),
     ("?", "this help (any key closes)"),
     ("q  Ctrl-c", "quit (every decision is already saved)"),
 ];

@@ -13,7 +13,7 @@ use crate::variants::{feature_view, Column, Edit, FeatureView};
 use super::state::{Comparison, Neighbours, SearchMode, WordPron};
 
 /// How many words each neighbour list holds at most.
-pub const NEIGHBOUR_LIMIT: usize = 6;
+pub const NEIGHBOUR_LIMIT: usize = 12;
 
 /// A lexicon with its indexes, ready to answer the screen.
 pub struct Lookups {

@@ -8,6 +8,7 @@
 
 mod editor;
 mod filter;
+mod fit;
 mod help;
 mod lookups;
 mod phones;
@@ -16,13 +17,13 @@ mod terminal;
 mod update;
 mod view;
 
-pub use editor::Editor;
-pub use filter::{Filter, FilterError};
+pub use editor::{EditPurpose, Editor};
+pub use filter::{Filter, FilterError, TERMS};
 pub use help::KEYS;
 pub use lookups::{align, AlignedPair, Lookups, NEIGHBOUR_LIMIT};
-pub use phones::{check_all, PhoneCheck, PhonesetCheck, SymbolList, TokenVerdict};
+pub use phones::{check_all, CheckVerdict, PhoneCheck, PhonesetCheck, SymbolList, TokenVerdict};
 pub use state::{
-    App, Comparison, JobProgress, Mode, Neighbours, PendingWrite, SaveState, SearchBox,
+    App, Comparison, Confirm, JobProgress, Mode, Neighbours, PendingWrite, SaveState, SearchBox,
     SearchMode, WordPron,
 };
 pub use update::{update, Effect, Event, Key};

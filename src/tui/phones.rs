@@ -3,11 +3,28 @@
 //! (for Tab in the phone editor).
 //!
 //! The screen asks through the [`PhoneCheck`] trait so that it stays a pure function of its
-//! state; the terminal loop hands in an implementation backed by the project's phoneset.
+//! state; the terminal loop hands in an implementation backed by the project's phoneset, which
+//! also runs the audit's per-entry pronunciation checks (the same check types, selected by
+//! [`PRONUNCIATION_CHECKS`]) and writes pronunciations in IPA as the PLS export does.
 
 use std::collections::BTreeSet;
 
+use crate::audit::{Check, Context, Severity, StressPolicy};
+use crate::lexicon::{Entry, HeadwordPolicy};
 use crate::phoneset::Phoneset;
+use crate::pls::IpaWriter;
+use crate::queue::PRONUNCIATION_CHECKS;
+
+/// One audit check's verdict on a pronunciation, as the editor and status line show it.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct CheckVerdict {
+    /// The audit check's id ("missing-primary-stress").
+    pub check: &'static str,
+    /// The first finding's message; `None` when the check passes.
+    pub problem: Option<String>,
+    /// Whether the finding is an error (saving is refused) rather than a warning.
+    pub error: bool,
+}
 
 /// Verdict on one phone token.
 #[derive(Debug, Clone, PartialEq, Eq)]
@@ -27,6 +44,15 @@ pub trait PhoneCheck: Send + Sync {
     /// Tokens (symbols, with stress marks where the phone takes them) starting with `prefix`,
     /// in a stable order.
     fn complete(&self, prefix: &str) -> Vec<String>;
+    /// The audit's per-entry pronunciation checks on `word` /`pronunciation`/, one verdict per
+    /// check in report order (none without a phoneset).
+    fn audit(&self, _word: &str, _pronunciation: &str) -> Vec<CheckVerdict> {
+        Vec::new()
+    }
+    /// The pronunciation in IPA, if the phone knowledge has IPA and every phone is known.
+    fn ipa(&self, _pronunciation: &str) -> Option<String> {
+        None
+    }
 }
 
 /// A plain list of tokens: every symbol, and vowels with each stress digit. Used when no
@@ -101,11 +127,32 @@ pub fn check_all(checker: &dyn PhoneCheck, pronunciation: &str) -> Vec<(String, 
 pub struct PhonesetCheck {
     set: Phoneset,
     list: SymbolList,
+    stress: StressPolicy,
+    checks: Vec<Box<dyn Check>>,
+    ipa: IpaWriter,
 }
 
 impl PhonesetCheck {
-    /// Wrap a phoneset.
+    /// Wrap a phoneset, with the default stress policy and no lexicon (IPA stress marks then
+    /// go before the nucleus's nearest consonant; see [`with_project`](Self::with_project)).
     pub fn new(set: Phoneset) -> PhonesetCheck {
+        PhonesetCheck::with_project(set, StressPolicy::default(), &[])
+    }
+
+    /// Wrap a phoneset with the project's stress policy and its lexicon's entries (whose
+    /// word-initial clusters are the legal onsets for IPA stress placement, as in the PLS export).
+    ///
+    /// ```
+    /// use orthoepy::audit::{PrimaryStressPolicy, StressPolicy};
+    /// use orthoepy::phoneset::Phoneset;
+    /// use orthoepy::tui::{PhoneCheck, PhonesetCheck};
+    /// let set = Phoneset::shipped("en-arpa").unwrap();
+    /// let check = PhonesetCheck::with_project(set, StressPolicy::default(), &[]);
+    /// let verdicts = check.audit("kelport", "K EH0 L P AO0 R T");
+    /// assert!(verdicts.iter().any(|v| v.check == "missing-primary-stress" && v.problem.is_some()));
+    /// assert_eq!(check.ipa("K IY1").as_deref(), Some("ˈki"));
+    /// ```
+    pub fn with_project(set: Phoneset, stress: StressPolicy, entries: &[Entry]) -> PhonesetCheck {
         let marks: Vec<&str> = set.stress_marks().iter().map(|s| s.mark.as_str()).collect();
         let mut tokens = BTreeSet::new();
         for p in set.phones() {
@@ -119,7 +166,10 @@ impl PhonesetCheck {
             }
         }
         let list = SymbolList { name: set.id().to_string(), tokens };
-        PhonesetCheck { set, list }
+        // The ids are the queue's own constants, all registered audit checks.
+        let checks = crate::audit::select_checks(&PRONUNCIATION_CHECKS).unwrap_or_default();
+        let ipa = IpaWriter::new(entries, &set);
+        PhonesetCheck { set, list, stress, checks, ipa }
     }
 }
 
@@ -157,5 +207,25 @@ impl PhoneCheck for PhonesetCheck {
 
     fn complete(&self, prefix: &str) -> Vec<String> {
         self.list.complete(prefix)
+    }
+
+    fn audit(&self, word: &str, pronunciation: &str) -> Vec<CheckVerdict> {
+        let entries = [Entry::new(word, pronunciation)];
+        let context = Context::new(&entries, HeadwordPolicy { fold_case: true }, &self.set, &self.stress);
+        self.checks
+            .iter()
+            .map(|check| {
+                let found = check.run(&context).into_iter().next();
+                CheckVerdict {
+                    check: check.id(),
+                    error: found.as_ref().is_some_and(|f| f.severity == Severity::Error),
+                    problem: found.map(|f| f.message),
+                }
+            })
+            .collect()
+    }
+
+    fn ipa(&self, pronunciation: &str) -> Option<String> {
+        self.ipa.ipa(&self.set, pronunciation).ok()
     }
 }

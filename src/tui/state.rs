@@ -93,6 +93,31 @@ pub struct SearchBox {
     pub mode: SearchMode,
     /// Results of the last search run for `query`.
     pub hits: Vec<WordPron>,
+    /// Index of the highlighted result (↑/↓ move it, Enter opens it).
+    pub selected: usize,
+}
+
+impl SearchBox {
+    /// An empty prefix search.
+    pub fn new() -> SearchBox {
+        SearchBox { query: String::new(), mode: SearchMode::Prefix, hits: Vec::new(), selected: 0 }
+    }
+}
+
+impl Default for SearchBox {
+    fn default() -> SearchBox {
+        SearchBox::new()
+    }
+}
+
+/// A question the screen asks before it journals a decision (`y` writes it, any other key
+/// drops it).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Confirm {
+    /// What is asked, e.g. "Kelport was accepted /…/; replace with rejected?".
+    pub question: String,
+    /// The decision written on `y`.
+    pub decision: Decision,
 }
 
 /// Which overlay or field has the keyboard.
@@ -110,6 +135,10 @@ pub enum Mode {
     Note(String),
     /// The key help overlay is open.
     Help,
+    /// A decision waits for `y` (it would replace one in force, or deprecate an entry).
+    Confirm(Confirm),
+    /// A lexicon entry opened from the search: `c` change, `v` add a variant, `d` deprecate.
+    Entry(WordPron),
 }
 
 /// Progress of background work (guessing, variant generation).
@@ -187,8 +216,15 @@ pub struct App {
     pub notes: HashMap<String, String>,
     /// Set once `q` or Ctrl-c was pressed.
     pub quitting: bool,
+    /// Show pronunciations in IPA (`i` toggles) instead of the phoneset's symbols.
+    pub ipa: bool,
+    /// Wall-clock time in seconds since 1970 (set by the terminal loop; 0 = unknown), written
+    /// into each decision's note.
+    pub now: u64,
     /// Index of each key in `keys` (so a 100,000-item queue finds an item without a scan).
     positions: HashMap<String, usize>,
+    /// Position of the first item of each lower-cased word (the search jumps through it).
+    words: HashMap<String, usize>,
 }
 
 impl App {
@@ -199,10 +235,15 @@ impl App {
         let save = SaveState::Saved(ledger.last_seq());
         let keys: Vec<String> = items.iter().map(Item::key).collect();
         let positions = keys.iter().enumerate().map(|(i, k)| (k.clone(), i)).collect();
+        let mut words = HashMap::new();
+        for (i, item) in items.iter().enumerate() {
+            words.entry(item.word.to_lowercase()).or_insert(i);
+        }
         let mut app = App {
             title: title.to_string(),
             keys,
             positions,
+            words,
             items,
             ledger,
             cursor: 0,
@@ -220,6 +261,8 @@ impl App {
             reviewer: String::new(),
             notes: HashMap::new(),
             quitting: false,
+            ipa: false,
+            now: 0,
         };
         if let Some(first) = app.next_pending_from(0) {
             app.cursor = first;
@@ -232,9 +275,40 @@ impl App {
         self.positions.get(key).copied()
     }
 
-    /// The item on screen, if the queue is not empty.
+    /// The position of the first queued item about `word` (any case).
+    pub fn position_of_word(&self, word: &str) -> Option<usize> {
+        self.words.get(&word.to_lowercase()).copied()
+    }
+
+    /// The item on screen: the cursor's item when it passes the filter. Keys act on this item
+    /// only; `None` when the queue is empty or the filter hides everything.
     pub fn current(&self) -> Option<&Item> {
-        self.items.get(self.cursor)
+        self.items.get(self.cursor).filter(|_| self.visible(self.cursor))
+    }
+
+    /// The key of [`current`](Self::current).
+    pub fn current_key(&self) -> Option<&str> {
+        self.current().and(self.keys.get(self.cursor)).map(String::as_str)
+    }
+
+    /// Why no item is on screen (for keys that need one).
+    pub fn nothing_shown(&self) -> String {
+        if self.items.is_empty() {
+            "the queue is empty".to_string()
+        } else {
+            format!("no item matches the filter `{}`; press f to change it", self.filter.text())
+        }
+    }
+
+    /// A pronunciation as the display toggle asks: IPA (when the phone knowledge has it) or
+    /// the phoneset's symbols.
+    pub fn shown_pronunciation(&self, pronunciation: &str) -> String {
+        if self.ipa {
+            if let Some(ipa) = self.phones.ipa(pronunciation) {
+                return ipa;
+            }
+        }
+        pronunciation.to_string()
     }
 
     /// The selected candidate of the item on screen.

@@ -1,11 +1,14 @@
 //! The terminal loop: puts the terminal in raw mode on the alternate screen, draws the [`App`],
 //! turns key presses into [`Event`]s, carries out the [`Effect`]s `update` asks for (journal
 //! appends are fsync'd before their outcome is fed back), and runs guessing in a background
-//! thread whose progress shows as a gauge. The terminal is restored on quit, on error and on
-//! panic (a panic hook restores it before the message prints).
+//! thread whose progress shows as a gauge. The terminal is restored on quit, on error, on
+//! panic (a panic hook restores it before the message prints) and on SIGTERM and SIGHUP: those
+//! signals only set a flag, and the loop then leaves between two events exactly as `q` does, so
+//! a journal append in progress is finished first and nothing is written half-way.
 
 use std::collections::VecDeque;
 use std::io;
+use std::sync::atomic::{AtomicBool, Ordering};
 use std::sync::mpsc;
 use std::time::Duration;
 
@@ -58,6 +61,53 @@ pub fn dispatch(app: &mut App, event: Event, lookups: &Lookups, journal: &mut Jo
         for effect in update(app, ev) {
             if let Some(next) = execute_effect(effect, lookups, journal) {
                 events.push_back(next);
+            }
+        }
+    }
+}
+
+/// Set by SIGTERM or SIGHUP while the screen is open.
+static STOP_REQUESTED: AtomicBool = AtomicBool::new(false);
+
+#[cfg(unix)]
+extern "C" fn request_stop(_signal: libc::c_int) {
+    // Only an atomic store: async-signal-safe.
+    STOP_REQUESTED.store(true, Ordering::SeqCst);
+}
+
+/// SIGTERM and SIGHUP set [`STOP_REQUESTED`] while the screen is open; the returned guard puts
+/// the previous dispositions back.
+#[cfg(unix)]
+struct StopSignals(Vec<(libc::c_int, libc::sigaction)>);
+
+#[cfg(unix)]
+impl StopSignals {
+    fn catch() -> StopSignals {
+        let mut previous = Vec::new();
+        for signal in [libc::SIGTERM, libc::SIGHUP] {
+            // SAFETY: a zeroed sigaction is a valid "no flags, empty mask" value; the handler
+            // only stores to an atomic. No SA_RESTART, so a waiting poll returns at once.
+            unsafe {
+                let mut action: libc::sigaction = std::mem::zeroed();
+                action.sa_sigaction = request_stop as extern "C" fn(libc::c_int) as libc::sighandler_t;
+                libc::sigemptyset(&mut action.sa_mask);
+                let mut old: libc::sigaction = std::mem::zeroed();
+                if libc::sigaction(signal, &action, &mut old) == 0 {
+                    previous.push((signal, old));
+                }
+            }
+        }
+        StopSignals(previous)
+    }
+}
+
+#[cfg(unix)]
+impl Drop for StopSignals {
+    fn drop(&mut self) {
+        for (signal, old) in &self.0 {
+            // SAFETY: re-installs the disposition sigaction returned for this signal.
+            unsafe {
+                libc::sigaction(*signal, old, std::ptr::null_mut());
             }
         }
     }
@@ -121,6 +171,9 @@ pub fn run(mut app: App, mut services: Services) -> io::Result<App> {
         restore_terminal();
         previous(info);
     }));
+    STOP_REQUESTED.store(false, Ordering::SeqCst);
+    #[cfg(unix)]
+    let _signals = StopSignals::catch();
     enable_raw_mode()?;
     let mut stdout = io::stdout();
     if let Err(e) = execute!(stdout, EnterAlternateScreen) {
@@ -134,13 +187,22 @@ pub fn run(mut app: App, mut services: Services) -> io::Result<App> {
             start_guessing(&app, g, tx);
         }
         dispatch(&mut app, Event::Resize(0, 0), &services.lookups, &mut services.journal);
-        while !app.quitting {
+        while !app.quitting && !STOP_REQUESTED.load(Ordering::SeqCst) {
             terminal.draw(|f| draw(f, &app, services.color))?;
-            if event::poll(Duration::from_millis(50))? {
-                let ev = match event::read()? {
-                    TermEvent::Key(k) if k.kind != KeyEventKind::Release => map_key(k.code, k.modifiers).map(Event::Key),
-                    TermEvent::Resize(w, h) => Some(Event::Resize(w, h)),
-                    _ => None,
+            app.now = crate::support::clock::now_secs();
+            let ready = match event::poll(Duration::from_millis(50)) {
+                Ok(ready) => ready,
+                // A signal arrived while waiting: look at the flag again.
+                Err(e) if e.kind() == io::ErrorKind::Interrupted => false,
+                Err(e) => return Err(e),
+            };
+            if ready {
+                let ev = match event::read() {
+                    Ok(TermEvent::Key(k)) if k.kind != KeyEventKind::Release => map_key(k.code, k.modifiers).map(Event::Key),
+                    Ok(TermEvent::Resize(w, h)) => Some(Event::Resize(w, h)),
+                    Ok(_) => None,
+                    Err(e) if e.kind() == io::ErrorKind::Interrupted => None,
+                    Err(e) => return Err(e),
                 };
                 if let Some(ev) = ev {
                     dispatch(&mut app, ev, &services.lookups, &mut services.journal);

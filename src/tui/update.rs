@@ -5,10 +5,10 @@
 //! feeding the outcome back as another [`Event`]. A decision is only shown as made once its
 //! [`Event::Journaled`] arrives, i.e. once it is on disk.
 
-use super::editor::Editor;
+use super::editor::{EditPurpose, Editor};
 use super::filter::Filter;
-use super::state::{App, JobProgress, Mode, Neighbours, PendingWrite, SaveState, SearchBox, SearchMode, WordPron};
-use crate::queue::{Action, Candidate, Decision, ItemKind, Record};
+use super::state::{App, Confirm, JobProgress, Mode, Neighbours, PendingWrite, SaveState, SearchBox, SearchMode, WordPron};
+use crate::queue::{entry_key, Action, Candidate, Decision, ItemKind, Record};
 
 /// A key press, independent of the terminal library.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -205,6 +205,8 @@ fn on_key(app: &mut App, key: Key) -> Vec<Effect> {
         Mode::Search(b) => search_key(app, b, key),
         Mode::Filter(text, _) => filter_key(app, text, key),
         Mode::Note(text) => note_key(app, text, key),
+        Mode::Confirm(c) => confirm_key(app, c, key),
+        Mode::Entry(entry) => entry_key_pressed(app, entry, key),
     }
 }
 
@@ -225,22 +227,31 @@ fn normal_key(app: &mut App, key: Key) -> Vec<Effect> {
         Key::Enter => return accept_selected(app),
         Key::Char('x') => return decide(app, Action::Reject, String::new()),
         Key::Char('s') => return decide(app, Action::SetAside, String::new()),
-        Key::Char('e') if app.current().is_some() => {
-            let text = app.current_candidate().map(|c| c.pronunciation.clone()).unwrap_or_default();
-            app.mode = Mode::Edit(Editor::new(&text));
-        }
+        Key::Char('e') => match app.current() {
+            Some(_) => {
+                let text = app.current_candidate().map(|c| c.pronunciation.clone()).unwrap_or_default();
+                app.mode = Mode::Edit(Editor::new(&text));
+            }
+            None => app.message = app.nothing_shown(),
+        },
         Key::Char('n') => move_to(app, app.step_visible(true)),
         Key::Char('p') => move_to(app, app.step_visible(false)),
         Key::Char('u') => return undo(app),
         Key::Ctrl('r') => return redo(app),
-        Key::Char('/') => {
-            app.mode = Mode::Search(SearchBox { query: String::new(), mode: SearchMode::Prefix, hits: Vec::new() })
-        }
+        Key::Char('/') => app.mode = Mode::Search(SearchBox::new()),
         Key::Char('f') => app.mode = Mode::Filter(app.filter.text().to_string(), None),
-        Key::Char('m') => match app.keys.get(app.cursor) {
+        Key::Char('m') => match app.current_key() {
             Some(key) => app.mode = Mode::Note(app.notes.get(key).cloned().unwrap_or_default()),
-            None => app.message = "the queue is empty".into(),
+            None => app.message = app.nothing_shown(),
         },
+        Key::Char('i') => {
+            app.ipa = !app.ipa;
+            app.message = if app.ipa {
+                "pronunciations in IPA (i: phone symbols)".into()
+            } else {
+                format!("pronunciations in {} symbols (i: IPA)", app.phones.name())
+            };
+        }
         Key::Char('?') => app.mode = Mode::Help,
         _ => {}
     }
@@ -258,6 +269,10 @@ fn move_to(app: &mut App, target: Option<usize>) {
 }
 
 fn accept_selected(app: &mut App) -> Vec<Effect> {
+    if app.current().is_none() {
+        app.message = app.nothing_shown();
+        return Vec::new();
+    }
     match app.current_candidate().cloned() {
         Some(c) => {
             let note = if c.rules.is_empty() { String::new() } else { format!("rules: {}", c.rules.join(", ")) };
@@ -272,26 +287,75 @@ fn accept_selected(app: &mut App) -> Vec<Effect> {
     }
 }
 
+/// Decide about the item on screen.
 fn decide(app: &mut App, action: Action, detail: String) -> Vec<Effect> {
+    let (Some(item), Some(key)) = (app.current(), app.current_key()) else {
+        app.message = app.nothing_shown();
+        return Vec::new();
+    };
+    if app.ledger.is_applied(key) {
+        app.message = format!("{} is already merged into the lexicon; search for it (/) to change the entry", item.word);
+        return Vec::new();
+    }
+    let (key, word) = (key.to_string(), item.word.clone());
+    decide_on(app, key, word, action, detail)
+}
+
+/// Journal a decision under `key`, asking first when it would replace the decision in force
+/// (or deprecate an entry).
+fn decide_on(app: &mut App, key: String, word: String, action: Action, detail: String) -> Vec<Effect> {
     if app.pending.is_some() {
         app.message = "still saving the last decision…".into();
         return Vec::new();
     }
-    let (Some(item), Some(key)) = (app.current(), app.keys.get(app.cursor)) else {
-        app.message = "the queue is empty".into();
-        return Vec::new();
-    };
-    if app.ledger.is_applied(key) {
-        app.message = format!("{} is already merged into the lexicon", item.word);
-        return Vec::new();
-    }
-    let typed = app.notes.get(key).map(|n| format!("note: {n}")).unwrap_or_default();
-    let reviewer = if app.reviewer.is_empty() { String::new() } else { format!("reviewed by {}", app.reviewer) };
+    let typed = app.notes.get(&key).map(|n| format!("note: {n}")).unwrap_or_default();
+    let who = if app.reviewer.is_empty() { "reviewed".to_string() } else { format!("reviewed by {}", app.reviewer) };
+    let reviewer = if app.now == 0 { who } else { format!("{who} on {}", crate::support::clock::utc(app.now)) };
     let note = [reviewer, detail, typed].into_iter().filter(|part| !part.is_empty()).collect::<Vec<_>>().join("; ");
-    let decision = Decision { item: key.clone(), word: item.word.clone(), action, note };
+    let decision = Decision { item: key, word, action, note };
+    let question = match app.ledger.current(&decision.item) {
+        Some((_, old)) if old.action == decision.action => {
+            app.message = format!("{} is already {}", decision.word, describe(&decision.action));
+            return Vec::new();
+        }
+        Some((seq, old)) => Some(format!(
+            "{} was {} (#{seq}); replace with {}?  y: yes, any other key: keep it",
+            decision.word,
+            describe(&old.action),
+            describe(&decision.action)
+        )),
+        None if matches!(decision.action, Action::DeprecateEntry { .. }) => {
+            Some(format!("{}: {}?  y: yes, any other key: no", decision.word, describe(&decision.action)))
+        }
+        None => None,
+    };
+    match question {
+        Some(question) => {
+            app.mode = Mode::Confirm(Confirm { question, decision });
+            Vec::new()
+        }
+        None => write_decision(app, decision),
+    }
+}
+
+fn write_decision(app: &mut App, decision: Decision) -> Vec<Effect> {
     app.pending = Some(PendingWrite::Decide { redo: false });
     app.save = SaveState::Writing;
     vec![Effect::AppendJournal(Record::Decide(decision))]
+}
+
+/// `y` writes the decision asked about; any other key drops it.
+fn confirm_key(app: &mut App, confirm: Confirm, key: Key) -> Vec<Effect> {
+    if key != Key::Char('y') {
+        app.message = format!("kept: nothing changed for {}", confirm.decision.word);
+        return Vec::new();
+    }
+    if app.pending.is_some() {
+        app.message = "still saving the last decision…".into();
+        app.mode = Mode::Confirm(confirm);
+        return Vec::new();
+    }
+    write_decision(app, confirm.decision)
 }
 
 fn undo(app: &mut App) -> Vec<Effect> {
@@ -306,12 +370,7 @@ fn undo(app: &mut App) -> Vec<Effect> {
         app.message = "that decision is already merged into the lexicon; it cannot be undone here".into();
         return Vec::new();
     }
-    let decision = app
-        .keys
-        .iter()
-        .filter_map(|k| app.ledger.current(k))
-        .find(|(s, _)| *s == seq)
-        .map(|(_, d)| d.clone());
+    let decision = app.ledger.in_force(seq).cloned();
     app.undo.pop();
     match decision {
         Some(d) => {
@@ -354,32 +413,40 @@ fn on_journaled(app: &mut App, seq: u64, record: Record) -> Vec<Effect> {
                 app.redo.clear();
             }
             app.message = format!("{}: {} (saved #{seq})", d.word, describe(&d.action));
+            // A decision about a lexicon entry (from the search) leaves the cursor where it was.
             if let Some(i) = app.position_of(&d.item) {
                 app.cursor = i;
-            }
-            match app.next_pending_from(app.cursor) {
-                Some(next) => move_to(app, Some(next)),
-                None => app.message.push_str(" — no pending items left"),
+                match app.next_pending_from(app.cursor) {
+                    Some(next) => move_to(app, Some(next)),
+                    None => app.message.push_str(" — no pending items left"),
+                }
             }
         }
         (Some(PendingWrite::Revoke(d)), Record::Revoke { .. }) => {
             app.message = format!("undid {} on {} (saved #{seq})", describe(&d.action), d.word);
             let at = app.position_of(&d.item);
             app.redo.push(d);
-            move_to(app, at);
+            if at.is_some() {
+                move_to(app, at);
+            }
         }
         _ => {}
     }
     Vec::new()
 }
 
-fn describe(action: &Action) -> String {
+/// A decision's action in words ("accepted /K IY1/"), as the status line and the decided
+/// item's panel show it.
+pub(super) fn describe(action: &Action) -> String {
     match action {
         Action::Accept { pronunciation, edited: true, .. } => format!("accepted edited /{pronunciation}/"),
         Action::Accept { pronunciation, .. } => format!("accepted /{pronunciation}/"),
         Action::Reject => "rejected".into(),
         Action::SetAside => "set aside".into(),
         Action::Remove => "removed from review".into(),
+        Action::ChangeEntry { from, pronunciation } => format!("entry /{from}/ changed to /{pronunciation}/"),
+        Action::AddVariant { pronunciation } => format!("variant /{pronunciation}/ added"),
+        Action::DeprecateEntry { pronunciation } => format!("entry /{pronunciation}/ deprecated"),
     }
 }
 
@@ -389,22 +456,7 @@ fn edit_key(app: &mut App, mut ed: Editor, key: Key) -> Vec<Effect> {
             app.message = "edit cancelled".into();
             return Vec::new();
         }
-        Key::Enter => match ed.valid_pronunciation(app.phones.as_ref()) {
-            Some(pronunciation) => {
-                let detail = if ed.original.is_empty() || ed.original == pronunciation {
-                    String::new()
-                } else {
-                    format!("edited from {}", ed.original)
-                };
-                let action = Action::Accept { pronunciation, source: "review".into(), score: None, edited: true };
-                let effects = decide(app, action, detail);
-                if effects.is_empty() {
-                    app.mode = Mode::Edit(ed);
-                }
-                return effects;
-            }
-            None => app.message = "fix the marked phones first (Tab completes, Esc cancels)".into(),
-        },
+        Key::Enter => return save_edit(app, ed),
         Key::Tab => ed.complete(app.phones.as_ref()),
         Key::Backspace => ed.backspace(),
         Key::Delete => ed.delete(),
@@ -419,9 +471,67 @@ fn edit_key(app: &mut App, mut ed: Editor, key: Key) -> Vec<Effect> {
     Vec::new()
 }
 
+/// Enter in the editor: every token must be a phone and no audit check may report an error;
+/// audit warnings are shown first and a second Enter on the same text saves anyway.
+fn save_edit(app: &mut App, mut ed: Editor) -> Vec<Effect> {
+    let Some(pronunciation) = ed.valid_pronunciation(app.phones.as_ref()) else {
+        app.message = "fix the marked phones first (Tab completes, Esc cancels)".into();
+        app.mode = Mode::Edit(ed);
+        return Vec::new();
+    };
+    let word = match &ed.purpose {
+        EditPurpose::Item => app.current().map(|i| i.word.clone()).unwrap_or_default(),
+        EditPurpose::ChangeEntry { word, .. } | EditPurpose::AddVariant { word } => word.clone(),
+    };
+    let verdicts = app.phones.audit(&word, &pronunciation);
+    let failed: Vec<String> =
+        verdicts.iter().filter_map(|v| v.problem.as_ref().map(|p| format!("{}: {p}", v.check))).collect();
+    if verdicts.iter().any(|v| v.error) {
+        app.message = format!("not saved: {}", failed.join("; "));
+        app.mode = Mode::Edit(ed);
+        return Vec::new();
+    }
+    if !failed.is_empty() && ed.warned.as_deref() != Some(ed.text.as_str()) {
+        app.message = format!("warning: {} — Enter again saves it anyway", failed.join("; "));
+        ed.warned = Some(ed.text.clone());
+        app.mode = Mode::Edit(ed);
+        return Vec::new();
+    }
+    let effects = match ed.purpose.clone() {
+        EditPurpose::Item => {
+            let changed = !ed.original.is_empty() && ed.original != pronunciation;
+            let detail = if changed { format!("edited from {}", ed.original) } else { String::new() };
+            let action = Action::Accept { pronunciation, source: "review".into(), score: None, edited: true };
+            decide(app, action, detail)
+        }
+        EditPurpose::ChangeEntry { word, from } if from != pronunciation => {
+            let key = entry_key(&word, &from);
+            decide_on(app, key, word, Action::ChangeEntry { from, pronunciation }, String::new())
+        }
+        EditPurpose::ChangeEntry { word, .. } => {
+            app.message = format!("{word}: the pronunciation is unchanged; nothing to save");
+            Vec::new()
+        }
+        EditPurpose::AddVariant { word } => {
+            let key = entry_key(&word, &pronunciation);
+            decide_on(app, key, word, Action::AddVariant { pronunciation }, String::new())
+        }
+    };
+    if effects.is_empty() && !matches!(app.mode, Mode::Confirm(_)) {
+        app.mode = Mode::Edit(ed);
+    }
+    effects
+}
+
 fn search_key(app: &mut App, mut b: SearchBox, key: Key) -> Vec<Effect> {
     match key {
         Key::Esc => return Vec::new(),
+        Key::Enter => return open_hit(app, b),
+        Key::Up | Key::Down => {
+            b.selected = if key == Key::Up { b.selected.saturating_sub(1) } else { (b.selected + 1).min(b.hits.len().saturating_sub(1)) };
+            app.mode = Mode::Search(b);
+            return Vec::new();
+        }
         Key::Tab => b.mode = b.mode.next(),
         _ if edit_line(&mut b.query, key) => {}
         _ => {
@@ -429,12 +539,65 @@ fn search_key(app: &mut App, mut b: SearchBox, key: Key) -> Vec<Effect> {
             return Vec::new();
         }
     }
+    b.selected = 0;
     let effect = (!b.query.trim().is_empty()).then(|| Effect::RunSearch { query: b.query.clone(), mode: b.mode });
     if effect.is_none() {
         b.hits.clear();
     }
     app.mode = Mode::Search(b);
     effect.into_iter().collect()
+}
+
+/// Enter on a search result: jump to the word's queue item when it is queued (clearing a
+/// filter that hides it), otherwise open the lexicon entry.
+fn open_hit(app: &mut App, b: SearchBox) -> Vec<Effect> {
+    let Some(hit) = b.hits.get(b.selected).cloned() else {
+        app.message = "no result to open; type a word first".into();
+        app.mode = Mode::Search(b);
+        return Vec::new();
+    };
+    match app.position_of_word(&hit.word) {
+        Some(i) => {
+            app.message = format!("{} is in the queue: here it is", hit.word);
+            if !app.visible(i) {
+                app.filter = Filter::default();
+                app.message.push_str(" (filter cleared to show it)");
+            }
+            app.cursor = i;
+            app.selected = 0;
+        }
+        None => {
+            app.message = "c: change it, v: add a variant, d: deprecate it, Esc: close".into();
+            app.mode = Mode::Entry(hit);
+        }
+    }
+    Vec::new()
+}
+
+/// Keys on a lexicon entry opened from the search.
+fn entry_key_pressed(app: &mut App, entry: WordPron, key: Key) -> Vec<Effect> {
+    let WordPron { word, pronunciation } = entry.clone();
+    match key {
+        Key::Char('c') => {
+            let purpose = EditPurpose::ChangeEntry { word, from: pronunciation.clone() };
+            app.mode = Mode::Edit(Editor::for_purpose(&pronunciation, purpose));
+        }
+        Key::Char('v') => {
+            let mut ed = Editor::for_purpose(&pronunciation, EditPurpose::AddVariant { word });
+            ed.original.clear();
+            app.mode = Mode::Edit(ed);
+        }
+        Key::Char('d') => {
+            let key = entry_key(&word, &pronunciation);
+            return decide_on(app, key, word, Action::DeprecateEntry { pronunciation }, String::new());
+        }
+        Key::Esc => app.message = "entry closed".into(),
+        _ => {
+            app.message = "c: change it, v: add a variant, d: deprecate it, Esc: close".into();
+            app.mode = Mode::Entry(entry);
+        }
+    }
+    Vec::new()
 }
 
 /// The note line: Enter keeps the note for the current item's next decision (an empty note

@@ -74,6 +74,12 @@ pub fn lookups() -> Lookups {
     Lookups::new(lexicon(), Some(arpa()))
 }
 
+/// Lookups over exactly these entries.
+pub fn lookups_with(rows: &[(&str, &str)]) -> Lookups {
+    let entries = rows.iter().map(|(w, p)| Entry::new(w, p)).collect();
+    Lookups::new(Lexicon::from_entries(entries, HeadwordPolicy { fold_case: true }), Some(arpa()))
+}
+
 /// Press keys, carrying out effects against real lookups and a real journal.
 pub fn press(app: &mut App, keys: &[Key], lookups: &Lookups, journal: &mut Journal) {
     for k in keys {
