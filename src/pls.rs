@@ -14,11 +14,11 @@
 //! ([`MAX_LEXEME_ENTRIES`]) and per document ([`MAX_PLS_ENTRIES`]).
 
 use crate::lexicon::{find_control, normalize_key, Entry, HeadwordPolicy, Status};
-use crate::phoneset::{Phoneset, StressLevel};
+pub use crate::phoneset::Alphabet;
+use crate::phoneset::{Onsets, PhoneToken, Phoneset, Pronunciation};
 use quick_xml::events::Event;
 use crate::support::located::{origin_of, Located};
 use crate::support::read::{read_capped, Limit, ReadError, MIB};
-use std::collections::HashSet;
 use std::path::Path;
 
 /// The PLS namespace.
@@ -36,15 +36,6 @@ pub const MAX_LEXEME_ENTRIES: usize = 256;
 
 /// The most entries one document may give: about fifteen times CMUdict (135k entries).
 pub const MAX_PLS_ENTRIES: usize = 2_000_000;
-
-/// How phonemes are written.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum Alphabet {
-    /// IPA, with ˈ and ˌ before stressed syllables.
-    Ipa,
-    /// The phoneset's symbols separated by spaces, alphabet `x-orthoepy-<id>`.
-    Symbols,
-}
 
 /// Errors of reading or writing PLS.
 #[derive(Debug, thiserror::Error)]
@@ -80,7 +71,7 @@ pub enum PlsError {
 /// let set = Phoneset::shipped("en-arpa").unwrap();
 /// let entries = [Entry::new("astray", "AH0 S T R EY1"), Entry::new("street", "S T R IY1 T")];
 /// let xml = write_pls(&entries, &HeadwordPolicy::default(), &set, Alphabet::Ipa, "en-US").unwrap();
-/// assert!(xml.contains("<grapheme>astray</grapheme><phoneme>ʌˈstɹeɪ</phoneme>"));
+/// assert!(xml.contains("<grapheme>astray</grapheme><phoneme>əˈstɹeɪ</phoneme>"));
 /// ```
 pub fn write_pls(
     entries: &[Entry],
@@ -89,7 +80,7 @@ pub fn write_pls(
     alphabet: Alphabet,
     lang: &str,
 ) -> Result<String, PlsError> {
-    let onsets = word_initial_onsets(entries, set);
+    let onsets = lexicon_onsets(entries, set);
     let mut rows: Vec<(String, usize, &Entry)> = entries
         .iter()
         .enumerate()
@@ -98,8 +89,8 @@ pub fn write_pls(
         .collect();
     rows.sort_by(|a, b| (&a.0, a.1).cmp(&(&b.0, b.1)));
     let alphabet_name = match alphabet {
-        Alphabet::Ipa => "ipa".to_string(),
         Alphabet::Symbols => format!("x-orthoepy-{}", set.id()),
+        other => other.name().to_string(),
     };
     let mut out = String::new();
     out.push_str("<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n");
@@ -119,7 +110,7 @@ pub fn write_pls(
             let entry = rows[i].2;
             let phoneme = match alphabet {
                 Alphabet::Symbols => crate::lexicon::join_phones(entry.phones()),
-                Alphabet::Ipa => to_ipa(entry, set, &onsets)?,
+                Alphabet::Ipa | Alphabet::XSampa => transcribe(entry, set, alphabet, &onsets)?,
             };
             if !seen.contains(&phoneme) {
                 out.push_str("<phoneme>");
@@ -135,131 +126,38 @@ pub fn write_pls(
     Ok(out)
 }
 
-/// IPA for single pronunciations exactly as [`write_pls`] writes them (stress marks before the
-/// maximal legal onset, onsets taken from the word-initial clusters of `entries`), for showing
-/// a pronunciation in IPA elsewhere (the review screen's IPA display).
-///
-/// ```
-/// use orthoepy::lexicon::Entry;
-/// use orthoepy::phoneset::Phoneset;
-/// use orthoepy::pls::IpaWriter;
-/// let set = Phoneset::shipped("en-arpa").unwrap();
-/// let ipa = IpaWriter::new(&[Entry::new("port", "P AO1 R T")], &set);
-/// assert_eq!(ipa.ipa(&set, "K IY1").unwrap(), "ˈki");
-/// assert_eq!(ipa.ipa(&set, "K EH1 L P AO2 R T").unwrap(), "ˈkɛlˌpɔɹt");
-/// ```
-#[derive(Debug, Clone, Default)]
-pub struct IpaWriter {
-    onsets: HashSet<Vec<String>>,
-}
-
-impl IpaWriter {
-    /// Collect the legal onsets from `entries`.
-    pub fn new(entries: &[Entry], set: &Phoneset) -> IpaWriter {
-        IpaWriter { onsets: word_initial_onsets(entries, set) }
-    }
-
-    /// `pronunciation` (phone symbols) in IPA; an unknown phone is an error.
-    pub fn ipa(&self, set: &Phoneset, pronunciation: &str) -> Result<String, PlsError> {
-        to_ipa(&Entry::new("", pronunciation), set, &self.onsets)
-    }
-}
-
-/// The consonant clusters that begin words in `entries` (each as phone symbols).
-fn word_initial_onsets(entries: &[Entry], set: &Phoneset) -> HashSet<Vec<String>> {
-    let mut onsets = HashSet::new();
-    for entry in entries {
-        let cluster: Vec<String> = entry
-            .phones()
-            .map(|t| set.split_stress(t).0)
-            .take_while(|base| set.lookup(base).is_some_and(|id| !set.phone(id).is_nucleus()))
-            .map(str::to_string)
-            .collect();
-        for len in 1..=cluster.len() {
-            onsets.insert(cluster[..len].to_vec());
-        }
+/// The consonant clusters that begin words in `entries`: the legal onsets the PLS export places
+/// stress marks by. Pass them to [`Phoneset::render_with`] to show a pronunciation as the export
+/// writes it.
+pub fn lexicon_onsets(entries: &[Entry], set: &Phoneset) -> Onsets {
+    let mut onsets = Onsets::new();
+    for pron in entries.iter().filter_map(|e| entry_phones(e, set).ok()) {
+        onsets.add_word_start(set, &pron);
     }
     onsets
 }
 
-fn to_ipa(entry: &Entry, set: &Phoneset, onsets: &HashSet<Vec<String>>) -> Result<String, PlsError> {
-    let mut phones = Vec::new();
-    for token in entry.phones() {
-        let (base, stress) = set.split_stress(token);
-        let id = set.lookup(base).ok_or_else(|| PlsError::UnknownPhone {
-            word: entry.word.clone(),
-            symbol: token.to_string(),
-            phoneset: set.id().to_string(),
-        })?;
-        phones.push((base.to_string(), set.phone(id).ipa.clone(), set.phone(id).is_nucleus(), stress.map(|s| s.level)));
-    }
-    // Where each stress mark goes: before the longest legal onset preceding the stressed nucleus.
-    let mut marks = vec![None; phones.len()];
-    let mut previous_nucleus: Option<usize> = None;
-    for v in 0..phones.len() {
-        if !phones[v].2 {
-            continue;
-        }
-        let mark = match phones[v].3 {
-            Some(StressLevel::Primary) => Some('ˈ'),
-            Some(StressLevel::Secondary) => Some('ˌ'),
-            _ => None,
-        };
-        if let Some(mark) = mark {
-            let first_consonant = previous_nucleus.map_or(0, |u| u + 1);
-            let mut start = v;
-            for s in first_consonant..v {
-                let cluster: Vec<String> = phones[s..v].iter().map(|p| p.0.clone()).collect();
-                if s == 0 || onsets.contains(&cluster) {
-                    start = s;
-                    break;
-                }
-            }
-            if start == v && v > first_consonant {
-                start = v - 1; // a single consonant is always a possible onset
-            }
-            marks[start] = Some(mark);
-        }
-        previous_nucleus = Some(v);
-    }
-    // A "." (the IPA syllable break) separates two phones wherever the reader would otherwise
-    // read them as one longer phone; such places are syllable or morpheme boundaries in practice.
-    let table = ipa_table(set);
-    let all: Vec<char> = phones.iter().flat_map(|p| p.1.chars()).collect();
-    let mut out = String::new();
-    let mut at = 0;
-    for (i, p) in phones.iter().enumerate() {
-        if let Some(mark) = marks[i] {
-            out.push(mark);
-        }
-        out.push_str(&p.1);
-        let ipa: Vec<char> = p.1.chars().collect();
-        if i + 1 < phones.len() && marks[i + 1].is_none() && would_merge(&all[at..], &ipa, &table) {
-            out.push('.');
-        }
-        at += ipa.len();
-    }
-    Ok(out)
-}
-
-/// The phones' IPA as character sequences, longest first, phonemes before allophones: the order
-/// in which the reader tries them.
-fn ipa_table(set: &Phoneset) -> Vec<(Vec<char>, usize, bool)> {
-    let mut table: Vec<(Vec<char>, usize, bool)> = set
+/// The entry's phones, leniently (stress as written, no phonotactic or stress-rule check), as the
+/// PLS export reads them; the first unknown symbol is the error.
+pub fn entry_phones(entry: &Entry, set: &Phoneset) -> Result<Pronunciation, String> {
+    let phones = entry
         .phones()
-        .iter()
-        .enumerate()
-        .map(|(i, p)| (p.ipa.chars().collect::<Vec<char>>(), i, p.is_allophone()))
-        .filter(|(ipa, _, _)| !ipa.is_empty())
-        .collect();
-    table.sort_by(|a, b| b.0.len().cmp(&a.0.len()).then(a.2.cmp(&b.2)));
-    table
+        .map(|token| {
+            let (base, stress) = set.split_stress(token);
+            let phone = set.lookup(base).ok_or_else(|| token.to_string())?;
+            Ok(PhoneToken { phone, stress: stress.map(|s| s.level) })
+        })
+        .collect::<Result<Vec<_>, String>>()?;
+    Ok(Pronunciation { phones })
 }
 
-/// True when the reader, at the start of `rest`, would take something other than `ipa` (for
-/// example ɔ followed by ɪ read as the diphthong ɔɪ, or t followed by ʃ read as the affricate).
-fn would_merge(rest: &[char], ipa: &[char], table: &[(Vec<char>, usize, bool)]) -> bool {
-    table.iter().find(|(t, _, _)| rest.starts_with(t)).is_some_and(|(t, _, _)| t.len() != ipa.len())
+fn transcribe(entry: &Entry, set: &Phoneset, alphabet: Alphabet, onsets: &Onsets) -> Result<String, PlsError> {
+    let pron = entry_phones(entry, set).map_err(|symbol| PlsError::UnknownPhone {
+        word: entry.word.clone(),
+        symbol,
+        phoneset: set.id().to_string(),
+    })?;
+    Ok(set.render_with(&pron, alphabet, onsets))
 }
 
 fn escape(text: &str) -> String {
@@ -454,8 +352,9 @@ fn read_alphabet(e: &quick_xml::events::BytesStart, set: &Phoneset) -> Result<Al
             let value = String::from_utf8_lossy(&attr.value).into_owned();
             return match value.as_str() {
                 "ipa" => Ok(Alphabet::Ipa),
+                "x-sampa" => Ok(Alphabet::XSampa),
                 v if v == own => Ok(Alphabet::Symbols),
-                other => Err(format!("alphabet {other:?} is not readable here; use \"ipa\" or {own:?}")),
+                other => Err(format!("alphabet {other:?} is not readable here; use \"ipa\", \"x-sampa\" or {own:?}")),
             };
         }
     }
@@ -464,51 +363,10 @@ fn read_alphabet(e: &quick_xml::events::BytesStart, set: &Phoneset) -> Result<Al
 
 fn read_phoneme(text: &str, alphabet: Alphabet, set: &Phoneset) -> Result<String, String> {
     let symbols = match alphabet {
-        Alphabet::Symbols => text.split_whitespace().map(str::to_string).collect::<Vec<_>>().join(" "),
-        Alphabet::Ipa => segment_ipa(text, set)?,
+        Alphabet::Symbols => text.split_whitespace().collect::<Vec<_>>().join(" "),
+        Alphabet::Ipa | Alphabet::XSampa => set.read_transcription(text, alphabet).map_err(|e| e.to_string())?.render(set),
     };
     set.parse(&symbols).map(|p| p.render(set)).map_err(|e| format!("{text:?}: {e}"))
-}
-
-/// Segments IPA into phone symbols by longest match over the phoneset's phonemes (allophones are
-/// tried after phonemes of the same length).
-fn segment_ipa(text: &str, set: &Phoneset) -> Result<String, String> {
-    let chars: Vec<char> = text.chars().collect();
-    let is_boundary = |c: char| c.is_whitespace() || c == '.';
-    let table = ipa_table(set);
-    let unstressed = set.mark_for(StressLevel::Unstressed).map(str::to_string);
-    let mut out: Vec<String> = Vec::new();
-    let mut pending: Option<StressLevel> = None;
-    let mut i = 0;
-    while i < chars.len() {
-        match chars[i] {
-            'ˈ' | '\'' => pending = Some(StressLevel::Primary),
-            'ˌ' => pending = Some(StressLevel::Secondary),
-            c if is_boundary(c) => {}
-            _ => {
-                // A phone never spans a syllable break or a space.
-                let end = chars[i..].iter().position(|&c| is_boundary(c)).map_or(chars.len(), |n| i + n);
-                let Some((ipa, id, _)) = table.iter().find(|(ipa, _, _)| chars[i..end].starts_with(ipa)) else {
-                    return Err(format!("IPA {:?} at character {} matches no phone of {}", chars[i], i + 1, set.id()));
-                };
-                let phone = set.phone(*id as crate::phoneset::PhoneId);
-                let mut symbol = phone.symbol.clone();
-                if phone.is_nucleus() {
-                    let level = pending.take();
-                    let mark = match level {
-                        Some(l) => set.mark_for(l).map(str::to_string),
-                        None => unstressed.clone(),
-                    };
-                    symbol.push_str(mark.as_deref().unwrap_or(""));
-                }
-                out.push(symbol);
-                i += ipa.len();
-                continue;
-            }
-        }
-        i += 1;
-    }
-    Ok(out.join(" "))
 }
 
 #[cfg(test)]
@@ -589,10 +447,10 @@ mod tests {
         let set = arpa();
         // "street" supplies the word-initial onset S T R, so "astray" is a.ˈstray (Kahn 1976).
         let entries = [Entry::new("street", "S T R IY1 T"), Entry::new("astray", "AH0 S T R EY1"), Entry::new("atlas", "AE1 T L AH0 S")];
-        let onsets = word_initial_onsets(&entries, &set);
-        assert_eq!(to_ipa(&entries[1], &set, &onsets).unwrap(), "ʌˈstɹeɪ");
+        let onsets = lexicon_onsets(&entries, &set);
+        assert_eq!(transcribe(&entries[1], &set, Alphabet::Ipa, &onsets).unwrap(), "əˈstɹeɪ");
         // No English word starts with T L, so the mark in "atlas" stays at the word start.
-        assert_eq!(to_ipa(&entries[2], &set, &onsets).unwrap(), "ˈætlʌs");
+        assert_eq!(transcribe(&entries[2], &set, Alphabet::Ipa, &onsets).unwrap(), "ˈætləs");
     }
 
     #[test]
@@ -605,7 +463,7 @@ mod tests {
             Entry::new("harbour", "HH AA1 R B ER0"),
             Entry::new("timetable", "T AY1 M T EY2 B AH0 L"),
         ];
-        for alphabet in [Alphabet::Ipa, Alphabet::Symbols] {
+        for alphabet in [Alphabet::Ipa, Alphabet::XSampa, Alphabet::Symbols] {
             let xml = write_pls(&entries, &HeadwordPolicy::default(), &set, alphabet, "en-GB").unwrap();
             let back = read_pls(xml.as_bytes(), "t.pls", &set, "pls").unwrap();
             assert!(back.rejected.is_empty(), "{:?}", back.rejected);

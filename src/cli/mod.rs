@@ -16,6 +16,7 @@ pub mod import;
 pub mod journal;
 pub mod queue;
 pub mod review;
+pub mod show;
 pub mod split;
 pub mod stats;
 pub mod train;

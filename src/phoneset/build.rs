@@ -11,7 +11,9 @@ use toml::Spanned;
 use super::distance::phone_distance;
 use super::error::{CheckProblem, PhonesetError};
 use crate::support::located::Located;
-use super::phone::{Features, Phone, PhoneClass};
+use super::phone::{Features, Phone, PhoneClass, StressedForm};
+use super::stress::StressLevel;
+use super::transcribe::Forms;
 use super::raw::{parse_toml, Problems, RawPhone, RawPhoneset};
 use super::schema::Schema;
 use super::stress::StressMarks;
@@ -75,6 +77,7 @@ pub(crate) fn from_text(text: &str, file: &str) -> Result<Phoneset, PhonesetErro
         .map(|p| p.ipa.chars().count())
         .max()
         .unwrap_or(0);
+    let forms = Forms::build(&phones);
     let distances = phones
         .iter()
         .flat_map(|a| phones.iter().map(|b| phone_distance(&schema, a, b)))
@@ -92,6 +95,7 @@ pub(crate) fn from_text(text: &str, file: &str) -> Result<Phoneset, PhonesetErro
         stress,
         constraints,
         distances,
+        forms,
     })
 }
 
@@ -191,6 +195,8 @@ fn build_phones(
         };
         let features = schema.check_bundle(bundle, bundle_span, class, symbol, problems);
         let targets = build_targets(r, class, schema, &span, problems);
+        let syllabic = r.syllabic.unwrap_or(class != PhoneClass::Consonant);
+        let by_stress = build_stressed_forms(r, syllabic, problems);
         phones.push(Phone {
             symbol: symbol.clone(),
             ipa,
@@ -198,8 +204,9 @@ fn build_phones(
             class,
             features,
             allophone_of: r.allophone_of.iter().map(|a| a.get_ref().clone()).collect(),
-            syllabic: r.syllabic.unwrap_or(class != PhoneClass::Consonant),
+            syllabic,
             targets,
+            by_stress,
         });
         lines.push(problems.line_of(&span));
     }
@@ -236,6 +243,34 @@ fn text_field(
             String::new()
         }
     }
+}
+
+/// The `by_stress` renderings: known levels, each once, non-empty, on nuclei only.
+fn build_stressed_forms(r: &RawPhone, syllabic: bool, problems: &mut Problems<'_>) -> Vec<StressedForm> {
+    let mut forms: Vec<StressedForm> = Vec::new();
+    for raw in &r.by_stress {
+        let form = raw.get_ref();
+        let mut fail = |span: Range<usize>, message: String| {
+            let phone = r.symbol.get_ref().clone();
+            problems.add(span, CheckProblem::BadStressedForm { phone, message });
+        };
+        let Some(level) = StressLevel::from_name(form.level.get_ref()) else {
+            let message = format!("unknown level `{}`; use primary, secondary or unstressed", form.level.get_ref());
+            fail(form.level.span(), message);
+            continue;
+        };
+        let (ipa, xsampa) = (form.ipa.get_ref().trim(), form.xsampa.get_ref().trim());
+        if !syllabic {
+            fail(raw.span(), "only a phone that can carry stress (a nucleus) has stress-dependent renderings".into());
+        } else if ipa.is_empty() || xsampa.is_empty() {
+            fail(raw.span(), "`ipa` and `xsampa` must both be non-empty".into());
+        } else if forms.iter().any(|f| f.level == level) {
+            fail(form.level.span(), format!("level `{}` is given twice; keep one", level.as_str()));
+        } else {
+            forms.push(StressedForm { level, ipa: ipa.to_string(), xsampa: xsampa.to_string() });
+        }
+    }
+    forms
 }
 
 fn build_targets(

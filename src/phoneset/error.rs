@@ -151,6 +151,15 @@ pub enum CheckProblem {
         /// What is wrong.
         message: &'static str,
     },
+    /// A `by_stress` rendering is unusable (unknown level, given twice, empty, or on a phone
+    /// that cannot carry stress).
+    #[error("phone `{phone}`: by_stress: {message}")]
+    BadStressedForm {
+        /// The phone's symbol.
+        phone: String,
+        /// What is wrong, and what to do.
+        message: String,
+    },
     /// Two phones share a feature bundle and neither is an allophone of the other.
     #[error("phone `{symbol}` has the same features as `{other}` (line {other_line}); change one, or mark one `allophone_of` the other")]
     SameBundle {

@@ -26,6 +26,8 @@
 //! features = { height = "open", backness = "back", rounding = "unrounded" }
 //! # allophone_of = ["AH"]        # marks a phone as an allophone of others
 //! # syllabic = true              # default: true for vowels and diphthongs, else false
+//! # by_stress = [ { level = "unstressed", ipa = "ə", xsampa = "@" } ]
+//! #                              # renderings at one stress level (nuclei only)
 //!
 //! [[phone]]
 //! symbol = "AY"
@@ -82,13 +84,15 @@ mod raw;
 mod schema;
 mod stress;
 mod suggest;
+mod transcribe;
 
 use std::collections::HashMap;
 use std::path::Path;
 
 pub use error::{CheckProblem, PhonesetError};
 pub use mapping::{map_pronunciation, MappingError};
-pub use phone::{Features, Phone, PhoneClass};
+pub use phone::{Features, Phone, PhoneClass, StressedForm};
+pub use transcribe::{Alphabet, Onsets, TranscriptionError};
 pub use phonotactics::{PhonotacticConstraint, PhonotacticViolation};
 pub use pronunciation::{
     PhoneToken, Pronunciation, PronunciationError, TokenProblem, TokenProblemKind,
@@ -133,6 +137,8 @@ pub struct Phoneset {
     constraints: Vec<PhonotacticConstraint>,
     /// Row-major phone × phone feature distances.
     distances: Vec<f32>,
+    /// IPA and X-SAMPA reading tables.
+    forms: transcribe::Forms,
 }
 
 impl Phoneset {

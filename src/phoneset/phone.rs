@@ -3,6 +3,8 @@
 
 use std::collections::BTreeMap;
 
+use super::stress::StressLevel;
+
 /// Reserved pseudo-feature: the phone's class (`consonant`, `vowel`, `diphthong`).
 pub const CLASS_FEATURE: &str = "class";
 /// Reserved pseudo-feature: `yes` when the phone can be a syllable nucleus, else `no`.
@@ -144,6 +146,20 @@ pub struct Phone {
     pub syllabic: bool,
     /// Vowel targets of a diphthong, in order; empty for other classes.
     pub targets: Vec<Features>,
+    /// Renderings that replace `ipa` and `xsampa` at one stress level (en-arpa: unstressed
+    /// `AH` is written ə); at most one per level, only on nuclei.
+    pub by_stress: Vec<StressedForm>,
+}
+
+/// How a phone is written at one stress level, when that differs from its plain IPA/X-SAMPA.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct StressedForm {
+    /// The stress level the rendering applies to.
+    pub level: StressLevel,
+    /// IPA at that level, e.g. `ə`.
+    pub ipa: String,
+    /// X-SAMPA at that level, e.g. `@`.
+    pub xsampa: String,
 }
 
 impl Phone {
@@ -180,6 +196,28 @@ impl Phone {
             SYLLABIC_FEATURE => Some(if self.syllabic { "yes" } else { "no" }),
             _ => self.features.get(name),
         }
+    }
+
+    /// The IPA written for the phone at stress `level` (its `by_stress` form, else `ipa`).
+    ///
+    /// ```
+    /// use orthoepy::phoneset::{Phoneset, StressLevel};
+    /// let set = Phoneset::shipped("en-arpa").unwrap();
+    /// let ah = set.phone(set.lookup("AH").unwrap());
+    /// assert_eq!(ah.ipa_at(Some(StressLevel::Unstressed)), "ə");
+    /// assert_eq!(ah.ipa_at(Some(StressLevel::Primary)), "ʌ");
+    /// ```
+    pub fn ipa_at(&self, level: Option<StressLevel>) -> &str {
+        self.form_at(level).map_or(&self.ipa, |f| &f.ipa)
+    }
+
+    /// The X-SAMPA written for the phone at stress `level` (its `by_stress` form, else `xsampa`).
+    pub fn xsampa_at(&self, level: Option<StressLevel>) -> &str {
+        self.form_at(level).map_or(&self.xsampa, |f| &f.xsampa)
+    }
+
+    fn form_at(&self, level: Option<StressLevel>) -> Option<&StressedForm> {
+        level.and_then(|l| self.by_stress.iter().find(|f| f.level == l))
     }
 
     /// The vowel qualities of the phone as a sequence: the targets of a diphthong, otherwise

@@ -99,6 +99,17 @@ pub(crate) struct RawPhone {
     pub allophone_of: Vec<Spanned<String>>,
     #[serde(default)]
     pub syllabic: Option<bool>,
+    #[serde(default)]
+    pub by_stress: Vec<Spanned<RawStressedForm>>,
+}
+
+/// One `by_stress` entry of a phone: how it is written at one stress level.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub(crate) struct RawStressedForm {
+    pub level: Spanned<String>,
+    pub ipa: Spanned<String>,
+    pub xsampa: Spanned<String>,
 }
 
 /// One `[[constraint]]` table.

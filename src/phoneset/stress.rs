@@ -37,7 +37,7 @@ impl StressLevel {
         }
     }
 
-    fn from_name(name: &str) -> Option<StressLevel> {
+    pub(crate) fn from_name(name: &str) -> Option<StressLevel> {
         StressLevel::ALL.into_iter().find(|l| l.as_str() == name)
     }
 }

@@ -12,7 +12,7 @@ use std::collections::BTreeSet;
 use crate::audit::{Check, Context, Severity, StressPolicy};
 use crate::lexicon::{Entry, HeadwordPolicy};
 use crate::phoneset::Phoneset;
-use crate::pls::IpaWriter;
+use crate::phoneset::{Alphabet, Onsets};
 use crate::queue::PRONUNCIATION_CHECKS;
 
 /// One audit check's verdict on a pronunciation, as the editor and status line show it.
@@ -129,7 +129,7 @@ pub struct PhonesetCheck {
     list: SymbolList,
     stress: StressPolicy,
     checks: Vec<Box<dyn Check>>,
-    ipa: IpaWriter,
+    onsets: Onsets,
 }
 
 impl PhonesetCheck {
@@ -168,8 +168,8 @@ impl PhonesetCheck {
         let list = SymbolList { name: set.id().to_string(), tokens };
         // The ids are the queue's own constants, all registered audit checks.
         let checks = crate::audit::select_checks(&PRONUNCIATION_CHECKS).unwrap_or_default();
-        let ipa = IpaWriter::new(entries, &set);
-        PhonesetCheck { set, list, stress, checks, ipa }
+        let onsets = crate::pls::lexicon_onsets(entries, &set);
+        PhonesetCheck { set, list, stress, checks, onsets }
     }
 }
 
@@ -226,6 +226,7 @@ impl PhoneCheck for PhonesetCheck {
     }
 
     fn ipa(&self, pronunciation: &str) -> Option<String> {
-        self.ipa.ipa(&self.set, pronunciation).ok()
+        let pron = self.set.parse(pronunciation).ok()?;
+        Some(self.set.render_with(&pron, Alphabet::Ipa, &self.onsets))
     }
 }
