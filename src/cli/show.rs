@@ -54,7 +54,7 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     let mut shown = Vec::new();
     let mut missing = false;
     for word in &args.words {
-        let ids = find(&lexicon, &index, word, Query::Exact)?;
+        let ids = find(&index, &lexicon, word, Query::Exact)?;
         if ids.is_empty() {
             eprintln!("{word}: not found");
             missing = true;

@@ -87,7 +87,7 @@ pub(super) fn apply_entry_edit(
                 Outcome::Deprecated { word, pronunciation: pronunciation.clone() }
             }
         },
-        Action::Accept { .. } | Action::Reject | Action::SetAside => return None,
+        Action::Accept { .. } | Action::Reject | Action::SetAside | Action::Remove => return None,
     })
 }
 
