@@ -43,12 +43,14 @@ mod policy;
 mod redundant_variant;
 mod report;
 mod unknown_phone;
+mod unlikely;
 
 pub use context::{spelling_key, Context, ParsedEntry, Token};
 pub use invisible_character::{invisible_characters, Invisible, InvisibleChar};
 pub use mixed_script::is_mixed_script;
 pub use policy::{PrimaryStressPolicy, StressPolicy};
 pub use report::{CheckSummary, Report, Summary};
+pub use unlikely::{unlikely_cache_folder, unlikely_pronunciations, UnlikelyError, UnlikelyOptions, UnlikelyPronunciation, UNLIKELY_PRONUNCIATION};
 
 use crate::lexicon::{Entry, EntryId};
 use std::fmt;

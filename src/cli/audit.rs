@@ -36,7 +36,15 @@ impl From<FailOn> for Severity {
 /// characters and exact duplicate rows), prints each change, saves atomically keeping a .bak,
 /// refuses a file changed on disk, and then reports what is left.
 ///
-/// Example: orthoepy audit lexicon.csv --checks unknown-phone,duplicate-entry --format json
+/// --model-check (or --checks unlikely-pronunciation) also looks for well-formed but probably
+/// wrong pronunciations: it trains a model per fold (k-fold cross-validation by word, k = 5) and
+/// flags entries far less likely than the guess of a model that never saw their word. It takes
+/// minutes on a large lexicon; finished folds are cached beside the lexicon, so an interrupted
+/// or repeated run on an unchanged lexicon does not train them again.
+///
+/// Examples:
+///   orthoepy audit lexicon.csv --checks unknown-phone,duplicate-entry --format json
+///   orthoepy audit --model-check --fail-on warning
 #[derive(Debug, clap::Args)]
 #[command(verbatim_doc_comment)]
 pub struct Args {
@@ -54,9 +62,15 @@ pub struct Args {
     /// Make the safe repairs and save the lexicon (a .bak is kept).
     #[arg(long)]
     fix: bool,
-    /// Run only these checks (comma-separated ids; default: all).
+    /// Run only these checks (comma-separated ids; default: all but unlikely-pronunciation).
     #[arg(long, value_delimiter = ',', value_name = "ID,...")]
     checks: Vec<String>,
+    /// Add the cross-validated unlikely-pronunciation check to the checks run.
+    #[arg(long)]
+    model_check: bool,
+    /// Folds of the unlikely-pronunciation check.
+    #[arg(long, value_name = "K", default_value_t = 5)]
+    folds: u32,
     #[command(flatten)]
     project: ProjectArgs,
 }
@@ -72,10 +86,12 @@ struct Output<'a> {
 
 pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     let (path, policy, project) = args.project.lexicon_path(args.lexicon.as_deref())?;
-    let checks = if args.checks.is_empty() {
-        audit::all_checks()
-    } else {
-        audit::select_checks(&args.checks.iter().map(String::as_str).collect::<Vec<_>>())?
+    let model_check = args.model_check || args.checks.iter().any(|c| c == audit::UNLIKELY_PRONUNCIATION);
+    let named: Vec<&str> = args.checks.iter().map(String::as_str).filter(|c| *c != audit::UNLIKELY_PRONUNCIATION).collect();
+    let mut checks = match (args.checks.is_empty(), named.is_empty()) {
+        (true, _) => audit::all_checks(),
+        (false, true) => Vec::new(),
+        (false, false) => audit::select_checks(&named)?,
     };
     let phoneset = super::resolve_phoneset(args.phoneset.as_deref(), project.as_ref())?;
     let stress = project.as_ref().map(|p| p.stress.clone()).unwrap_or_default();
@@ -90,6 +106,9 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     if !changes.is_empty() {
         lexicon.save().context("cannot save the repaired lexicon")?;
         lexicon = load()?; // line numbers of the saved file
+    }
+    if model_check {
+        checks.push(Box::new(unlikely_check(&lexicon, &path, args.folds)?));
     }
     let context = Context::new(lexicon.entries(), policy, &phoneset, &stress);
     let file = path.display().to_string();
@@ -111,4 +130,19 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     }
     let failing = report.count_at_least(args.fail_on.into());
     Ok(if failing > 0 { ExitCode::from(1) } else { ExitCode::SUCCESS })
+}
+
+/// Runs the cross-validation of the unlikely-pronunciation check with a progress bar, caching
+/// finished folds in the index cache folder beside the lexicon.
+fn unlikely_check(lexicon: &Lexicon, path: &std::path::Path, folds: u32) -> anyhow::Result<audit::UnlikelyPronunciation> {
+    let opts = audit::UnlikelyOptions { folds, ..audit::UnlikelyOptions::default() };
+    let cache = audit::unlikely_cache_folder(path);
+    let bar = super::progress_bar(u64::from(folds), "folds");
+    bar.enable_steady_tick(std::time::Duration::from_millis(250));
+    let check = audit::UnlikelyPronunciation::compute(lexicon.entries(), *lexicon.policy(), &opts, Some(&cache), &mut |done, _| {
+        bar.set_position(u64::from(done));
+    })
+    .context("the unlikely-pronunciation check could not run")?;
+    bar.finish_and_clear();
+    Ok(check)
 }

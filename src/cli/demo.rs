@@ -70,6 +70,7 @@ fn fill_demo(dir: &Path) -> anyhow::Result<Project> {
         // Then the variants the operator's speakers use: the project's accent profiles.
         profiles: project.profiles.clone(),
         audit: false,
+        model_check: false,
     };
     super::queue::add_sources(project.clone(), &sources, true)?;
     Ok(project)

@@ -150,6 +150,10 @@ struct AddArgs {
     /// Findings of the lexicon audit.
     #[arg(long)]
     audit: bool,
+    /// With --audit, also the cross-validated unlikely-pronunciation check (trains a model per
+    /// fold; minutes on a large lexicon, cached per lexicon).
+    #[arg(long, requires = "audit")]
+    model_check: bool,
     /// Apostrophes inside words (corpus): keep (o'clock), split (o + clock) or drop (oclock).
     #[arg(long, value_enum, default_value = "keep")]
     apostrophe: Apostrophe,
@@ -259,6 +263,7 @@ fn add(project: Project, a: AddArgs) -> anyhow::Result<ExitCode> {
         corpus: a.corpus.map(|path| Corpus { path, rule, min_count: a.min_count }),
         profiles: a.variants.into_iter().collect(),
         audit: a.audit,
+        model_check: a.model_check,
     };
     let summary = add_sources(project, &sources, !a.no_guess)?;
     match a.format {

@@ -48,6 +48,9 @@ pub enum IntakeError {
     /// The audit's checks could not be selected.
     #[error(transparent)]
     Audit(#[from] AuditError),
+    /// The cross-validated unlikely-pronunciation check could not run.
+    #[error(transparent)]
+    Unlikely(#[from] crate::audit::UnlikelyError),
     /// The queue file could not be read or saved.
     #[error(transparent)]
     Queue(#[from] QueueError),
@@ -67,6 +70,9 @@ pub struct Sources {
     pub profiles: Vec<String>,
     /// Queue the audit's findings about pronunciations.
     pub audit: bool,
+    /// With `audit`, also run the cross-validated unlikely-pronunciation check (trains a model
+    /// per fold; see [`crate::audit::UnlikelyPronunciation`]) and offer its guess as a candidate.
+    pub model_check: bool,
 }
 
 /// A corpus source.
@@ -128,8 +134,11 @@ pub fn gather(workspace: &Workspace, sources: &Sources) -> Result<Gathered, Inta
         variant_items(workspace, name, &mut gathered)?;
     }
     if sources.audit {
-        gathered.items.extend(audit_items(workspace)?);
+        gathered.items.extend(audit_items(workspace, sources.model_check)?);
         gathered.origins.extend(PRONUNCIATION_CHECKS.iter().map(|check| format!("audit:{check}")));
+        if sources.model_check {
+            gathered.origins.push(format!("audit:{}", crate::audit::UNLIKELY_PRONUNCIATION));
+        }
     }
     Ok(gathered)
 }
@@ -211,11 +220,18 @@ fn file_label(kind: &str, path: &Path) -> String {
 /// Items for the audit findings about pronunciations (warnings and errors; informational notes
 /// such as weak forms stay out of the queue): one item per flagged entry, with the finding's
 /// message; candidates come from the guesser (the reviewer may also edit the current
-/// pronunciation, or reject to keep it).
-fn audit_items(workspace: &Workspace) -> Result<Vec<Item>, IntakeError> {
+/// pronunciation, or reject to keep it). The unlikely-pronunciation check's guess comes as a
+/// candidate of its own.
+fn audit_items(workspace: &Workspace, model_check: bool) -> Result<Vec<Item>, IntakeError> {
     let project = workspace.project();
-    let checks = crate::audit::select_checks(&PRONUNCIATION_CHECKS)?;
+    let mut checks = crate::audit::select_checks(&PRONUNCIATION_CHECKS)?;
     let lexicon = workspace.lexicon();
+    if model_check {
+        let opts = crate::audit::UnlikelyOptions::default();
+        let cache = crate::audit::unlikely_cache_folder(&project.lexicon);
+        let check = crate::audit::UnlikelyPronunciation::compute(lexicon.entries(), project.headword_policy(), &opts, Some(&cache), &mut |_, _| {})?;
+        checks.push(Box::new(check));
+    }
     let context = crate::audit::Context::new(lexicon.entries(), project.headword_policy(), workspace.phoneset(), &project.stress);
     let report = crate::audit::run(&context, &checks, None);
     let mut queue = Queue::new();
@@ -232,6 +248,9 @@ fn audit_items(workspace: &Workspace) -> Result<Vec<Item>, IntakeError> {
             line: finding.line,
         };
         item.seen_in(&format!("audit:{}", finding.check), 0);
+        if finding.check == crate::audit::UNLIKELY_PRONUNCIATION {
+            item.candidates.extend(finding.suggestion.as_deref().map(|guess| Candidate::new(guess, "g2p-cross-validated")));
+        }
         queue.add(item);
     }
     Ok(queue.items().to_vec())
