@@ -309,6 +309,15 @@ fn commit(path: &Path, temp: &Path, expected: Option<Fingerprint>, keep_backup: 
                 let _ = fs::remove_file(&staged);
                 return Err(err.into());
             }
+            // When the backup already is this very file (a save killed after keeping its backup,
+            // before its last rename, leaves them linked), rename(2) does nothing and leaves the
+            // staged name behind (POSIX.1-2017, rename: "different directory entries for the
+            // same existing file ... shall return successfully and perform no other action").
+            match fs::remove_file(&staged) {
+                Ok(()) => {}
+                Err(err) if err.kind() == io::ErrorKind::NotFound => {}
+                Err(err) => return Err(err.into()),
+            }
             hook::run(hook::Stage::BackupKept);
         }
     } else if let Some(expected) = expected {
@@ -663,6 +672,19 @@ mod tests {
         assert_eq!(fs::read(&path).unwrap(), b"mine\n");
         // The backup is the very file that was edited, so the edit is not lost.
         assert_eq!(fs::read(backup_path(&path)).unwrap(), b"their edit\n");
+    }
+
+    #[test]
+    fn save_after_one_killed_between_its_backup_and_its_rename_leaves_no_temp_file() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("l.csv");
+        fs::write(&path, b"v1\n").unwrap();
+        // What a save killed after keeping its backup leaves: the backup linked to the file.
+        fs::hard_link(&path, backup_path(&path)).unwrap();
+        replace_if_unchanged(&path, b"v2\n", Fingerprint::of(b"v1\n"), true).unwrap();
+        assert_eq!(fs::read(&path).unwrap(), b"v2\n");
+        assert_eq!(fs::read(backup_path(&path)).unwrap(), b"v1\n");
+        assert_eq!(names(dir.path()), ["l.csv", "l.csv.bak"]);
     }
 
     #[test]

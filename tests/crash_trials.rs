@@ -611,42 +611,68 @@ fn print_table(fixture: &Fixture, tallies: &BTreeMap<(Operation, Ending), Tally>
     println!("{total} trials in {:.0} s (seed {:#x})", took.as_secs_f64(), seed());
 }
 
+/// Starts `queue add --words /dev/stdin` on the project in `dir` and waits until it holds the
+/// project lock: it then waits for the word list on a pipe that stays open while the returned
+/// writer lives, a writer stopped at a known moment.
+fn hold_the_lock(dir: &Path) -> (std::process::Child, std::process::ChildStdin) {
+    let lock = dir.join(orthoepy::lock::LOCK_FILE);
+    let mut child = Command::new(bin())
+        .args(["queue", "add", "--words", "/dev/stdin", "--project"])
+        .arg(dir)
+        .stdin(Stdio::piped())
+        .stdout(Stdio::null())
+        .stderr(Stdio::piped())
+        .spawn()
+        .unwrap();
+    let open_pipe = child.stdin.take().unwrap();
+    let waited = Instant::now();
+    while !lock.exists() {
+        assert!(waited.elapsed() < Duration::from_secs(20), "the lock was never taken");
+        std::thread::sleep(Duration::from_millis(5));
+    }
+    (child, open_pipe)
+}
+
 #[test]
 fn signal_to_a_command_holding_the_lock_releases_it_and_exits_128_plus_the_signal() {
-    // `queue add --words /dev/stdin` takes the project lock, then waits for the word list on a
-    // pipe this test keeps open: a writer stopped while it holds the lock, at a known moment.
     for (signal, name) in [(libc::SIGTERM, "SIGTERM"), (libc::SIGHUP, "SIGHUP"), (libc::SIGINT, "SIGINT")] {
         let tmp = tempfile::tempdir().unwrap();
         common::cli::write_project(tmp.path(), "cat,K AE1 T,accepted,cmu,,\n");
-        let lock = tmp.path().join(orthoepy::lock::LOCK_FILE);
-        let mut child = Command::new(bin())
-            .args(["queue", "add", "--words", "/dev/stdin", "--project"])
-            .arg(tmp.path())
-            .stdin(Stdio::piped())
-            .stdout(Stdio::null())
-            .stderr(Stdio::piped())
-            .spawn()
-            .unwrap();
-        let waited = Instant::now();
-        while !lock.exists() {
-            assert!(waited.elapsed() < Duration::from_secs(20), "{name}: the lock was never taken");
-            std::thread::sleep(Duration::from_millis(5));
-        }
+        let (child, open_pipe) = hold_the_lock(tmp.path());
         // SAFETY: kill(2) with the pid of our own running child.
         unsafe {
             libc::kill(child.id() as libc::pid_t, signal);
         }
-        // The pipe stays open until the child has ended, so only the signal can end it.
-        let open_pipe = child.stdin.take();
         let out = child.wait_with_output().unwrap();
         drop(open_pipe);
         // 128 + the signal's number is what a POSIX shell reports for a process a signal ended
         // (POSIX.1-2017, Shell Command Language, 2.8.2 Exit Status for Commands).
         assert_eq!(out.status.code(), Some(128 + signal), "{name}: {}", String::from_utf8_lossy(&out.stderr));
-        assert!(!lock.exists(), "{name}: the lock is left");
+        assert!(!tmp.path().join(orthoepy::lock::LOCK_FILE).exists(), "{name}: the lock is left");
         assert!(leftovers(tmp.path()).is_empty(), "{name}: left {:?}", leftovers(tmp.path()));
         assert!(!tmp.path().join("queue.jsonl").exists(), "{name}: a queue was written");
     }
+}
+
+#[test]
+fn import_into_the_project_lexicon_is_refused_while_another_command_writes() {
+    let tmp = tempfile::tempdir().unwrap();
+    common::cli::write_project(tmp.path(), "cat,K AE1 T,accepted,cmu,,\n");
+    fs::write(tmp.path().join("dog.dict"), "dog D AO1 G\n").unwrap();
+    let before = fs::read(tmp.path().join("lexicon.csv")).unwrap();
+    let (mut child, open_pipe) = hold_the_lock(tmp.path());
+    let out = run_in(tmp.path(), &["import", "plain", "dog.dict", "-o", "lexicon.csv", "--force"]);
+    let refusal = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(2), "{refusal}");
+    assert!(refusal.contains("in use by process") && refusal.contains("orthoepy queue add"), "{refusal}");
+    assert_eq!(fs::read(tmp.path().join("lexicon.csv")).unwrap(), before);
+    child.kill().unwrap();
+    child.wait().unwrap();
+    drop(open_pipe);
+    // The killed holder's lock is taken over; into a file no project names, no lock is needed.
+    run_ok(tmp.path(), &["import", "plain", "dog.dict", "-o", "lexicon.csv", "--force"]);
+    assert!(fs::read_to_string(tmp.path().join("lexicon.csv")).unwrap().contains("dog,D AO1 G,"));
+    run_ok(tmp.path(), &["import", "plain", "dog.dict", "-o", "elsewhere.csv"]);
 }
 
 #[test]

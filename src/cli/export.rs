@@ -7,7 +7,7 @@
 use super::ProjectArgs;
 use anyhow::Context;
 use orthoepy::lexicon::plain::{write_plain, PlainExport};
-use orthoepy::safe_io::{atomic_write, remove_leftover_temps, replace_together};
+use orthoepy::safe_io::{atomic_write, replace_together};
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
@@ -88,14 +88,8 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
             anyhow::bail!("--phones {} names a file export writes anyway; give the phone list its own name", phones.display());
         }
     }
-    // Temporary files of an export killed before it finished: only a finished process's.
-    for target in [Some(&args.output), args.phones.as_ref(), manifest.as_ref()].into_iter().flatten().filter(|p| p.as_os_str() != "-") {
-        let removed = remove_leftover_temps(target, orthoepy::lock::process_running)
-            .with_context(|| format!("cannot look for leftovers beside {}", target.display()))?;
-        for path in removed {
-            eprintln!("note: removed {}, left behind by an export that was interrupted", path.display());
-        }
-    }
+    let outputs: Vec<&Path> = [Some(&args.output), args.phones.as_ref(), manifest.as_ref()].into_iter().flatten().map(PathBuf::as_path).collect();
+    super::remove_output_leftovers(&outputs)?;
     let (lexicon, project) = args.project.load_lexicon(args.lexicon.as_deref())?;
     let options = PlainExport { strip_stress: args.strip_stress, variant_suffix: args.variant_suffix, ..Default::default() };
     let build = write_plain(lexicon.entries(), lexicon.policy(), &options);

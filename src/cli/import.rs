@@ -63,7 +63,12 @@ fn project_of(output: &Path) -> Option<Project> {
 }
 
 pub fn run(args: Args) -> anyhow::Result<ExitCode> {
-    let _lock = project_of(&args.output).map(|project| super::lock_project(&project, "import")).transpose()?;
+    // Into a project's lexicon under its lock (which cleans up after a killed save); elsewhere
+    // the leftovers of a killed import into the same file are removed here.
+    let lock = project_of(&args.output).map(|project| super::lock_project(&project, "import")).transpose()?;
+    if lock.is_none() {
+        super::remove_output_leftovers(&[&args.output])?;
+    }
     super::refuse_overwrite(&args.output, args.force)?;
     let source = args.source.clone().unwrap_or_else(|| {
         args.file.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_default()

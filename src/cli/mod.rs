@@ -124,6 +124,20 @@ pub fn lock_project(project: &Project, command: &str) -> anyhow::Result<ProjectL
     Ok(lock)
 }
 
+/// Removes the temporary files an interrupted run left beside `outputs`, files outside any
+/// project lock (export's build files, an import into a file no project names): only files of
+/// the exact `.NAME.PID.tmp` pattern whose process is gone, each with a note.
+pub fn remove_output_leftovers(outputs: &[&Path]) -> anyhow::Result<()> {
+    for output in outputs.iter().filter(|p| p.as_os_str() != "-") {
+        let removed = orthoepy::safe_io::remove_leftover_temps(output, orthoepy::lock::process_running)
+            .with_context(|| format!("cannot look for leftovers beside {}", output.display()))?;
+        for path in removed {
+            eprintln!("note: removed {}, left behind by a save that was interrupted", path.display());
+        }
+    }
+    Ok(())
+}
+
 /// A progress bar on stderr when it is a terminal, hidden otherwise (pipes and CI stay clean).
 pub fn progress_bar(len: u64, label: &str) -> indicatif::ProgressBar {
     styled_bar(len, label, "{prefix:>10} [{bar:30}] {pos}/{len} ({eta})")
