@@ -125,9 +125,7 @@ fn set_aside_items_are_skipped_until_filtered_for() {
     press(&mut app, &[Key::Char('s')], &l, &mut j);
     assert_eq!(app.state_of(0), ItemState::Aside);
     assert_eq!(app.cursor, 1);
-    press(&mut app, &[Key::Char('f')], &l, &mut j);
-    press(&mut app, &type_text("state=aside"), &l, &mut j);
-    press(&mut app, &[Key::Enter], &l, &mut j);
+    set_filter(&mut app, "state=aside", &l, &mut j);
     assert_eq!(app.cursor, 0, "the filter moves to the only visible item");
     assert!(!app.visible(1));
 }
@@ -149,9 +147,7 @@ fn filter_by_source_and_score() {
     let (_d, mut j) = journal();
     let l = lookups();
     let mut app = app();
-    press(&mut app, &[Key::Char('f')], &l, &mut j);
-    press(&mut app, &type_text("source=variant score>0.5"), &l, &mut j);
-    press(&mut app, &[Key::Enter], &l, &mut j);
+    set_filter(&mut app, "source=variant score>0.5", &l, &mut j);
     assert_eq!(app.cursor, 2);
     assert!(!app.visible(0) && !app.visible(1));
 }
@@ -285,9 +281,7 @@ fn keys_act_only_on_a_visible_item() {
     let (_d, mut j) = journal();
     let l = lookups();
     let mut app = app();
-    press(&mut app, &[Key::Char('f')], &l, &mut j);
-    press(&mut app, &type_text("score>2"), &l, &mut j);
-    press(&mut app, &[Key::Enter], &l, &mut j);
+    set_filter(&mut app, "score>2", &l, &mut j);
     for key in [Key::Enter, Key::Char('x'), Key::Char('s'), Key::Char('e'), Key::Char('m')] {
         let effects = update(&mut app, Event::Key(key));
         assert!(effects.iter().all(|e| !matches!(e, Effect::AppendJournal(_))), "{key:?} acted: {effects:?}");
@@ -303,9 +297,7 @@ fn source_filter_is_on_the_best_candidate() {
     let l = lookups();
     let mut app = app();
     // Kelport's best candidate is g2p (its second is rules:en); quayside's best is a compound.
-    press(&mut app, &[Key::Char('f')], &l, &mut j);
-    press(&mut app, &type_text("source=rules"), &l, &mut j);
-    press(&mut app, &[Key::Enter], &l, &mut j);
+    set_filter(&mut app, "source=rules", &l, &mut j);
     assert!(!app.visible(0) && !app.visible(1) && !app.visible(2));
 }
 
@@ -336,9 +328,8 @@ fn search_result_jumps_to_its_queue_item() {
     let (_d, mut j) = journal();
     let l = lookups_with(&[("harbour", "HH AA1 R B ER0")]);
     let mut app = app();
-    press(&mut app, &[Key::Char('f')], &l, &mut j);
-    press(&mut app, &type_text("kind=new"), &l, &mut j);
-    press(&mut app, &[Key::Enter, Key::Char('/')], &l, &mut j);
+    set_filter(&mut app, "kind=new", &l, &mut j);
+    press(&mut app, &[Key::Char('/')], &l, &mut j);
     press(&mut app, &type_text("harbour"), &l, &mut j);
     press(&mut app, &[Key::Enter], &l, &mut j);
     assert_eq!(app.mode, Mode::Normal);

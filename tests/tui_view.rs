@@ -249,6 +249,7 @@ fn ipa_toggle_shows_every_pronunciation_as_the_pls_export_writes_it() {
     assert!(pls.contains("<phoneme>ˈkɛlˌpɔɹt</phoneme>"), "{pls}");
     assert!(screen.contains("ˈkɛlˌpɔɹt"), "{screen}");
     assert!(!screen.contains("K EH1 L P AO2 R T"), "no symbols left in IPA mode:\n{screen}");
+    assert!(!screen.contains("P AO1 R T"), "the feature panel's title too:\n{screen}");
     // A neighbour (port, P AO1 R T in CMUdict) is in IPA too.
     assert!(screen.contains("ˈpɔɹt"), "{screen}");
     orthoepy::tui::update(&mut app, Event::Key(Key::Char('i')));

@@ -47,7 +47,13 @@ pub fn open_review(project: Project, reviewer: Option<String>) -> anyhow::Result
     }
     let workspace = Arc::new(Workspace::open(project.clone())?);
     let replayed = files.ledger.unapplied().len();
-    let phones = Arc::new(PhonesetCheck::new(workspace.phoneset().clone()));
+    // The editor runs the audit's checks under the project's stress policy; IPA stress marks
+    // go where the PLS export puts them (onsets from the lexicon's own words).
+    let phones = Arc::new(PhonesetCheck::with_project(
+        workspace.phoneset().clone(),
+        project.stress.clone(),
+        workspace.lexicon().entries(),
+    ));
     let title = project.root.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default();
     let mut app = App::new(&title, files.queue.items().to_vec(), files.ledger, phones);
     app.reviewer = reviewer

@@ -552,7 +552,7 @@ fn feature_lines(app: &App, view: &FeatureView, width_cols: usize, height: usize
 fn draw_features(frame: &mut Frame, app: &App, t: Theme, area: Rect) {
     let view = app.neighbours.as_ref().filter(|_| app.current().is_some()).and_then(|n| n.features.as_ref());
     let title = match view {
-        Some(v) => format!(" features vs {} ", v.against),
+        Some(v) => format!(" features vs {} ", shown_between_slashes(app, &v.against)),
         None => " features ".to_string(),
     };
     let w = area.width as usize;
@@ -562,6 +562,14 @@ fn draw_features(frame: &mut Frame, app: &App, t: Theme, area: Rect) {
         None => vec![Line::from(Span::styled("nothing close enough to compare with", t.dim()))],
     };
     frame.render_widget(Paragraph::new(lines).block(block), area);
+}
+
+/// "port /P AO1 R T/" with the part between the slashes in the chosen display.
+fn shown_between_slashes(app: &App, text: &str) -> String {
+    match text.split_once('/').and_then(|(head, rest)| rest.split_once('/').map(|(p, tail)| (head, p, tail))) {
+        Some((head, pronunciation, tail)) => format!("{head}/{}/{tail}", app.shown_pronunciation(pronunciation)),
+        None => text.to_string(),
+    }
 }
 
 fn draw_status(frame: &mut Frame, app: &App, t: Theme, area: Rect) {

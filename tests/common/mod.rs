@@ -87,6 +87,13 @@ pub fn press(app: &mut App, keys: &[Key], lookups: &Lookups, journal: &mut Journ
     }
 }
 
+/// Type `text` on the filter line and press Enter.
+pub fn set_filter(app: &mut App, text: &str, lookups: &Lookups, journal: &mut Journal) {
+    press(app, &[Key::Char('f')], lookups, journal);
+    press(app, &type_text(text), lookups, journal);
+    press(app, &[Key::Enter], lookups, journal);
+}
+
 pub fn type_text(s: &str) -> Vec<Key> {
     s.chars().map(Key::Char).collect()
 }
