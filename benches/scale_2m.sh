@@ -21,7 +21,7 @@ echo "plain file: $(wc -c < "$WORK/synthetic.dict") bytes, $(wc -l < "$WORK/synt
 measure() {
     local label=$1; shift
     /usr/bin/time -f "%e %M" -o "$WORK/time.txt" "$@" >/dev/null 2>"$WORK/stderr.txt" || true
-    read -r secs kib < "$WORK/time.txt"
+    read -r secs kib < <(tail -n 1 "$WORK/time.txt")  # GNU time puts "Command exited ..." first on a non-zero exit
     printf '%-28s wall_s=%-7s peak_mib=%.0f\n' "$label" "$secs" "$(awk -v k="$kib" 'BEGIN {print k / 1024}')"
 }
 
