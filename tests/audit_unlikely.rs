@@ -22,20 +22,25 @@ fn planted_errors_are_found_and_untouched_entries_rarely_flagged() {
     let mut entries: Vec<Entry> = read_plain(&bytes, "cmudict.dict", "cmudict").entries.into_iter().step_by(15).collect();
     let planted = plant(&mut entries, 40);
     assert!(planted.len() > 150, "{} planted", planted.len());
-    let dir = tempfile::tempdir().unwrap();
-    for strip in [true, false] {
-        let train = TrainOptions { order: 4, heldout_error: false, symbols: orthoepy::g2p::SymbolOptions { strip_stress: strip, ..Default::default() }, ..TrainOptions::default() };
-        for (min_best, ratio) in [(0.5, 0.05), (0.6, 0.02), (0.7, 0.02), (0.8, 0.01), (0.5, 0.01), (0.9, 0.02)] {
-            let opts = UnlikelyOptions { folds: 3, min_best, ratio, train: train.clone(), ..UnlikelyOptions::default() };
-            let findings = unlikely_pronunciations(&entries, HeadwordPolicy::default(), &opts, Some(dir.path()), &mut |_, _| {}).unwrap();
-            let flagged: HashSet<usize> = findings.iter().map(|f| f.entry).collect();
-            let found = planted.intersection(&flagged).count();
-            let untouched_flagged = flagged.difference(&planted).count();
-            println!("strip {strip} min_best {min_best} ratio {ratio}: recall {:.3} untouched {:.4}", found as f64 / planted.len() as f64, untouched_flagged as f64 / (entries.len() - planted.len()) as f64);
-        }
-        std::fs::remove_dir_all(dir.path()).ok();
+    let defaults = UnlikelyOptions::default();
+    let opts = UnlikelyOptions { folds: 3, train: TrainOptions { order: 4, heldout_error: false, ..defaults.train.clone() }, ..defaults };
+    let mut folds_seen = Vec::new();
+    let findings = unlikely_pronunciations(&entries, HeadwordPolicy::default(), &opts, None, &mut |done, all| folds_seen.push((done, all))).unwrap();
+    assert_eq!(folds_seen.last(), Some(&(3, 3)));
+    let flagged: HashSet<usize> = findings.iter().map(|f| f.entry).collect();
+    let found = planted.intersection(&flagged).count();
+    let recall = found as f64 / planted.len() as f64;
+    let untouched_flagged = flagged.difference(&planted).count();
+    let untouched_rate = untouched_flagged as f64 / (entries.len() - planted.len()) as f64;
+    println!("planted {} found {found} (recall {recall:.3}); untouched flagged {untouched_flagged} of {} ({untouched_rate:.4})", planted.len(), entries.len() - planted.len());
+    for f in findings.iter().filter(|f| planted.contains(&f.entry)).take(3) {
+        assert!(f.suggestion.is_some() && f.message.contains("never saw"), "{f:?}");
     }
-    panic!("exploration");
+    // Bounds from a measured run of this exact setting (recall 0.323, 3.77% of the untouched
+    // entries flagged, on about 9,000 entries, 3 folds of order-4 models trained on about 6,000)
+    // with slack. The models are weak at this size; the full-size figures are in BENCHMARKS.md.
+    assert!(recall >= 0.27, "recall {recall}");
+    assert!(untouched_rate <= 0.045, "untouched flagged {untouched_rate}");
 }
 
 #[test]
@@ -44,7 +49,7 @@ fn a_cached_run_gives_the_same_findings_without_training() {
     let mut entries: Vec<Entry> = read_plain(&bytes, "cmudict.dict", "cmudict").entries.into_iter().step_by(60).collect();
     plant(&mut entries, 25);
     let dir = tempfile::tempdir().unwrap();
-    let opts = UnlikelyOptions { folds: 2, train: TrainOptions { order: 3, heldout_error: false, ..TrainOptions::default() }, ..UnlikelyOptions::default() };
+    let opts = UnlikelyOptions { folds: 2, train: TrainOptions { order: 3, heldout_error: false, ..UnlikelyOptions::default().train }, ..UnlikelyOptions::default() };
     let first = unlikely_pronunciations(&entries, HeadwordPolicy::default(), &opts, Some(dir.path()), &mut |_, _| {}).unwrap();
     assert_eq!(std::fs::read_dir(dir.path()).unwrap().count(), 2, "one cache file per fold");
     let cache_bytes = |dir: &std::path::Path| -> Vec<Vec<u8>> {
