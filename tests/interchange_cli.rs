@@ -84,3 +84,42 @@ fn show_exits_1_for_a_missing_word() {
     let out = String::from_utf8_lossy(&assert.get_output().stdout).into_owned();
     assert_eq!(out, "sofa\tS OW1 F AH0\t/ˈsoʊfə/\t\"soUf@\taccepted\n");
 }
+
+/// The exit codes of the standard diff tools (POSIX diff: 0 same, 1 different, >1 trouble).
+#[test]
+fn diff_exits_0_1_2_and_aligns_changed_pronunciations() {
+    let dir = tempfile::tempdir().unwrap();
+    let header = "word,pronunciation,status,source,score,note\n";
+    let old = dir.path().join("old.csv");
+    let new = dir.path().join("new.csv");
+    std::fs::write(&old, format!("{header}tomato,T AH0 M EY1 T OW2,accepted,t,,\nferry,F EH1 R IY0,accepted,t,,\n")).unwrap();
+    std::fs::write(&new, format!("{header}tomato,T AH0 M AA1 T OW2,accepted,t,,\nquay,K IY1,accepted,t,,\n")).unwrap();
+    let bin = || common::cli::orthoepy(dir.path());
+    bin().args(["diff", "old.csv", "old.csv"]).assert().code(0).stdout("");
+    let out = bin().args(["diff", "old.csv", "new.csv"]).assert().code(1).get_output().stdout.clone();
+    assert_eq!(
+        String::from_utf8(out).unwrap(),
+        "- ferry\tF EH1 R IY0\n+ quay\tK IY1\n~ tomato\tT AH0 M EY1 T OW2\tT AH0 M AA1 T OW2\tT AH0 M EY1>AA1 T OW2\n"
+    );
+    bin().args(["diff", "old.csv", "missing.csv"]).assert().code(2);
+}
+
+#[test]
+fn convert_reports_non_exact_mappings_and_writes_the_target_set() {
+    let dir = tempfile::tempdir().unwrap();
+    write_project(dir.path(), "butter,B AH1 DX ER0,accepted,t,,\nsofa,S OW1 F AH0,accepted,t,,\n");
+    std::fs::write(dir.path().join("map.txt"), "# the flap as a plain t\nDX t\n").unwrap();
+    let (map, out_csv) = (dir.path().join("map.txt"), dir.path().join("out.csv"));
+    let (map, out_csv) = (map.to_str().unwrap(), out_csv.to_str().unwrap());
+    let out = in_project(dir.path(), &["convert", "--to", "ipa-broad", "--overrides", map, "-o", out_csv])
+        .assert()
+        .success()
+        .get_output()
+        .stdout
+        .clone();
+    assert_eq!(String::from_utf8(out).unwrap(), "DX\tt\toverride\t1\tbutter\n");
+    let written = std::fs::read_to_string(dir.path().join("out.csv")).unwrap();
+    assert!(written.contains("butter,b ʌˈ t ɚ,") && written.contains("sofa,s oˈ ʊ̯ f ə,"), "{written}");
+    // Refuses to overwrite.
+    in_project(dir.path(), &["convert", "--to", "ipa-broad", "-o", out_csv]).assert().code(2);
+}
