@@ -10,6 +10,8 @@
 #![deny(missing_docs)]
 
 pub mod audit;
+pub mod convert;
+pub mod diff;
 pub mod eval;
 pub mod g2p;
 pub mod lexicon;

@@ -7,7 +7,9 @@
 
 pub mod apply;
 pub mod audit;
+pub mod convert;
 pub mod demo;
+pub mod diff;
 pub mod evaluate;
 pub mod export;
 pub mod find;

@@ -75,6 +75,19 @@ pub(crate) fn phone_distance(schema: &Schema, a: &Phone, b: &Phone) -> f32 {
     )
 }
 
+/// The `n` phones of `to` nearest to `phone` (described with `schema`) by feature distance,
+/// nearest first (ties in `to`'s order); empty when `to` uses another schema.
+pub(crate) fn nearest_across(schema: &Schema, phone: &Phone, to: &Phoneset, n: usize) -> Vec<(PhoneId, f32)> {
+    if schema.name() != to.schema.name() {
+        return Vec::new();
+    }
+    let mut scored: Vec<(PhoneId, f32)> =
+        to.phones.iter().enumerate().map(|(i, q)| (i as PhoneId, phone_distance(&to.schema, phone, q))).collect();
+    scored.sort_by(|a, b| a.1.total_cmp(&b.1).then(a.0.cmp(&b.0)));
+    scored.truncate(n);
+    scored
+}
+
 impl Phoneset {
     /// Weighted feature mismatch of two phones in 0..=1 (0 on the same phone, 1 between a
     /// consonant and a vowel). Ids not of this phoneset give 1.

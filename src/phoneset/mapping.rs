@@ -8,7 +8,7 @@
 use thiserror::Error;
 
 use super::pronunciation::{PhoneToken, Pronunciation};
-use super::stress::StressLevel;
+use super::convert::target_level;
 use super::{PhoneId, Phoneset};
 
 /// Why a pronunciation could not be mapped.
@@ -132,38 +132,14 @@ fn longest_match(to: &Phoneset, pivot: &[Pivot], at: usize) -> Option<(PhoneId, 
     })
 }
 
-/// The level to write in `to` for a source level.
-fn target_level(to: &Phoneset, level: StressLevel) -> Option<StressLevel> {
-    if to.mark_for(level).is_some() {
-        return Some(level);
-    }
-    (level == StressLevel::Secondary && to.mark_for(StressLevel::Unstressed).is_some())
-        .then_some(StressLevel::Unstressed)
-}
-
 fn unmappable(from: &Phoneset, to: &Phoneset, pron: &Pronunciation, index: usize) -> MappingError {
     let phone = pron.phones.get(index).and_then(|t| from.get(t.phone));
-    let nearest = match phone {
-        Some(p) if from.schema.name() == to.schema.name() => {
-            let mut scored: Vec<(f32, &str)> = to
-                .phones
-                .iter()
-                .map(|q| {
-                    (
-                        super::distance::phone_distance(&to.schema, p, q),
-                        q.symbol.as_str(),
-                    )
-                })
-                .collect();
-            scored.sort_by(|a, b| a.0.total_cmp(&b.0));
-            scored
-                .into_iter()
-                .take(3)
-                .map(|(_, s)| s.to_string())
-                .collect()
-        }
-        _ => Vec::new(),
-    };
+    let nearest = phone
+        .map(|p| super::distance::nearest_across(&from.schema, p, to, 3))
+        .unwrap_or_default()
+        .into_iter()
+        .filter_map(|(id, _)| to.get(id).map(|q| q.symbol.clone()))
+        .collect();
     MappingError::Unmappable {
         to: to.id.clone(),
         index,

@@ -74,6 +74,7 @@
 //! [`MAX_FILE`] are refused before parsing.
 
 mod build;
+mod convert;
 mod distance;
 mod error;
 mod mapping;
@@ -89,6 +90,7 @@ mod transcribe;
 use std::collections::HashMap;
 use std::path::Path;
 
+pub use convert::{parse_overrides, ConvertError, Converter, MatchKind, PhoneRule};
 pub use error::{CheckProblem, PhonesetError};
 pub use mapping::{map_pronunciation, MappingError};
 pub use phone::{Features, Phone, PhoneClass, StressedForm};

@@ -87,7 +87,7 @@ impl Alphabet {
 /// let set = Phoneset::shipped("en-arpa").unwrap();
 /// let street = set.parse("S T R IY1 T").unwrap();
 /// let astray = set.parse("AH0 S T R EY1").unwrap();
-/// assert_eq!(set.render(&astray, Alphabet::Ipa), "əsˈtɹeɪ");  // only single consonants known
+/// assert_eq!(set.render(&astray, Alphabet::Ipa), "əstˈɹeɪ"); // only single consonants known
 /// let onsets = Onsets::from_pronunciations(&set, [&street]);
 /// assert_eq!(set.render_with(&astray, Alphabet::Ipa, &onsets), "əˈstɹeɪ");
 /// assert_eq!(set.render_with(&astray, Alphabet::XSampa, &onsets), "@\"str\\eI");
