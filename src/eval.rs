@@ -14,6 +14,11 @@
 //! those closest references. **WER.** A word is right when its top hypothesis equals any
 //! reference variant. "Unstressed" figures strip stress from both sides first
 //! ([`crate::g2p::strip_stress`]).
+//!
+//! **Calibration.** For a model, the top hypothesis's score (its calibrated probability of
+//! being right) is compared with whether it is right (stress as written) in a reliability
+//! table of ten equal-width bins with the expected calibration error (Guo et al. 2017; see
+//! [`crate::g2p::reliability`]).
 
 use std::collections::BTreeMap;
 
@@ -21,7 +26,7 @@ use rayon::prelude::*;
 use serde::Serialize;
 use unicode_normalization::UnicodeNormalization;
 
-use crate::g2p::{strip_stress, DecodeOptions, Model};
+use crate::g2p::{reliability, strip_stress, DecodeOptions, Model, Reliability};
 use crate::support::align::{align as align_positions, closest};
 
 pub use crate::support::split::{is_test_word, split_by_word, word_hash};
@@ -156,6 +161,9 @@ pub struct Evaluation {
     /// order the words were scored (left out of JSON when empty).
     #[serde(skip_serializing_if = "Vec::is_empty")]
     pub errors: Vec<WordError>,
+    /// Reliability of the top hypotheses' scores (only when a model was evaluated).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub calibration: Option<Reliability>,
 }
 
 /// One wrongly guessed word.
@@ -256,15 +264,20 @@ pub fn evaluate_model(model: &Model, test: &[(String, Vec<String>)]) -> Evaluati
 /// errors the default beam's search adds).
 pub fn evaluate_model_with(model: &Model, test: &[(String, Vec<String>)], search: &DecodeOptions) -> Evaluation {
     let opts = model.symbol_options();
-    let words: Vec<Scored> = group_references(test)
+    let (words, scores): (Vec<Scored>, Vec<(f64, bool)>) = group_references(test)
         .into_par_iter()
         .map(|(word, refs)| {
-            let hypothesis = model.guess_with(&word, search).hypotheses.into_iter().next().map(|h| h.phones).unwrap_or_default();
-            let references = refs.iter().map(|r| r.iter().map(|p| opts.phone(p)).collect()).collect();
-            Scored { word, hypothesis, references }
+            let top = model.guess_with(&word, search).hypotheses.into_iter().next();
+            let probability = top.as_ref().map_or(0.0, |h| h.score);
+            let hypothesis = top.map(|h| h.phones).unwrap_or_default();
+            let references: Vec<Vec<String>> = refs.iter().map(|r| r.iter().map(|p| opts.phone(p)).collect()).collect();
+            let right = references.contains(&hypothesis);
+            (Scored { word, hypothesis, references }, (probability, right))
         })
-        .collect();
-    score(&words)
+        .unzip();
+    let mut evaluation = score(&words);
+    evaluation.calibration = Some(reliability(&scores));
+    evaluation
 }
 
 #[cfg(test)]

@@ -9,7 +9,8 @@ use std::path::PathBuf;
 use std::process::ExitCode;
 
 /// Score a model on a test store: word and phone error rates with and without stress, a
-/// breakdown by word length, and the most frequent phone confusions.
+/// breakdown by word length, the most frequent phone confusions, and a reliability table of
+/// the top guess's score with the expected calibration error.
 ///
 /// Examples:
 ///   orthoepy evaluate model.g2p test.csv --format json
@@ -44,6 +45,14 @@ fn print_text(e: &Evaluation, errors: bool) {
     for c in &e.confusions {
         let side = |s: &Option<String>| s.clone().unwrap_or_else(|| "—".to_string());
         println!("  {:>6}  {} → {}", c.count, side(&c.reference), side(&c.hypothesis));
+    }
+    if let Some(r) = &e.calibration {
+        println!("\nreliability of the top guess's score (stress as written):");
+        println!("  {:>9}  {:>7}  {:>10}  {:>11}", "score", "words", "mean score", "share right");
+        for b in &r.bins {
+            println!("  {:.1}–{:.1}  {:>7}  {:>10.4}  {:>11.4}", b.from, b.to, b.count, b.mean_score, b.share_right);
+        }
+        println!("  expected calibration error {:.4}", r.expected_calibration_error);
     }
     if errors {
         println!("\nwrong words ({}; word, phone edits, guess, then the references):", e.errors.len());

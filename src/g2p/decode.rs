@@ -20,6 +20,8 @@
 //! (not only the N returned), so the posteriors of the returned hypotheses sum to at most 1.
 
 use serde::Serialize;
+use unicode_normalization::char::is_combining_mark;
+use unicode_normalization::UnicodeNormalization;
 
 use super::em::log_add;
 use crate::support::hash::FastMap;
@@ -65,6 +67,10 @@ pub struct Hypothesis {
     pub log_prob: f64,
     /// `P(phones | word)` normalised by the beam's forward total (see the module docs).
     pub posterior: f64,
+    /// Probability that this hypothesis is right, stress as written: the posterior through the
+    /// model's calibration (see [`super::Calibration`]), or the posterior itself when the model
+    /// carries none.
+    pub score: f64,
     /// Alignment of the best segmentation of this hypothesis; the letters concatenate to the
     /// normalised word.
     pub alignment: Vec<AlignedPiece>,
@@ -82,6 +88,12 @@ pub enum GuessWarning {
         /// The letters, in order of first appearance.
         letters: Vec<String>,
     },
+    /// These letters were never seen in training and were read as their base letter (NFD
+    /// without combining marks), as (letter, base) pairs in order of first appearance.
+    MappedLetters {
+        /// The (letter, base letter) pairs.
+        letters: Vec<(String, String)>,
+    },
     /// The search found no complete hypothesis.
     NoPronunciation,
 }
@@ -92,6 +104,10 @@ impl std::fmt::Display for GuessWarning {
             GuessWarning::EmptyWord => write!(f, "the word has no letters"),
             GuessWarning::UnseenLetters { letters } => {
                 write!(f, "letters never seen in training were left silent: {}", letters.join(" "))
+            }
+            GuessWarning::MappedLetters { letters } => {
+                let pairs: Vec<String> = letters.iter().map(|(from, to)| format!("{from} as {to}")).collect();
+                write!(f, "letters never seen in training were read as their base letter: {}", pairs.join(", "))
             }
             GuessWarning::NoPronunciation => write!(f, "no pronunciation found; try a wider beam"),
         }
@@ -202,12 +218,30 @@ impl Model {
             guess.warnings.push(GuessWarning::EmptyWord);
             return guess;
         }
-        let ids: Vec<Option<u32>> = letters.iter().map(|l| self.letters.get(l).filter(|&id| !self.inventory.with_letters(&[id]).is_empty())).collect();
+        let known = |l: &str| self.letters.get(l).filter(|&id| !self.inventory.with_letters(&[id]).is_empty());
+        let mut ids: Vec<Option<u32>> = letters.iter().map(|l| known(l)).collect();
         let mut unseen: Vec<String> = Vec::new();
-        for (l, id) in letters.iter().zip(&ids) {
-            if id.is_none() && !unseen.contains(l) {
-                unseen.push(l.clone());
+        let mut mapped: Vec<(String, String)> = Vec::new();
+        for (l, id) in letters.iter().zip(ids.iter_mut()) {
+            if id.is_some() {
+                continue;
             }
+            // A letter the model never saw is read as its base letter when it has one
+            // (Unicode canonical decomposition, NFD, without combining marks: é → e, ë → e).
+            let base: String = l.nfd().filter(|c| !is_combining_mark(*c)).collect();
+            match known(&base).filter(|_| !base.is_empty() && base != *l) {
+                Some(base_id) => {
+                    *id = Some(base_id);
+                    if !mapped.iter().any(|(from, _)| from == l) {
+                        mapped.push((l.clone(), base));
+                    }
+                }
+                None if !unseen.contains(l) => unseen.push(l.clone()),
+                None => {}
+            }
+        }
+        if !mapped.is_empty() {
+            guess.warnings.push(GuessWarning::MappedLetters { letters: mapped });
         }
         if !unseen.is_empty() {
             guess.warnings.push(GuessWarning::UnseenLetters { letters: unseen });
@@ -217,6 +251,9 @@ impl Model {
             guess.warnings.push(GuessWarning::NoPronunciation);
         }
         guess.hypotheses = finals.into_iter().take(opts.nbest.max(1)).collect();
+        for (rank, h) in guess.hypotheses.iter_mut().enumerate() {
+            h.score = self.calibrated(rank, h.posterior);
+        }
         guess
     }
 
@@ -359,6 +396,6 @@ impl Model {
         }
         pieces.reverse();
         let phones = pieces.iter().flat_map(|p| p.phones.iter().cloned()).collect();
-        Hypothesis { phones, log_prob: score, posterior, alignment: pieces }
+        Hypothesis { phones, log_prob: score, posterior, score: posterior, alignment: pieces }
     }
 }

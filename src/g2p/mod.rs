@@ -4,6 +4,7 @@
 //! posteriors and alignments, and the binary model file. Letter-to-sound rules and the hybrid
 //! guesser live in their own submodules. Nothing here prints; training reports through a callback.
 
+mod calibration;
 mod decode;
 mod em;
 mod graphone;
@@ -14,6 +15,7 @@ mod model_file;
 mod ngram;
 mod train;
 
+pub use calibration::{reliability, Calibration, IsotonicMap, Reliability, ReliabilityBin, RELIABILITY_BINS};
 pub use decode::{AlignedPiece, DecodeOptions, Guess, GuessWarning, Hypothesis};
 pub use em::LatticeBeam;
 pub use graphone::{strip_stress, LetterUnit, SymbolOptions, MAX_UNIT};

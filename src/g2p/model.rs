@@ -3,6 +3,7 @@
 //! decoding in `decode`, the file format in `model_file`; this module only holds the parts
 //! together and answers questions about them.
 
+use super::calibration::Calibration;
 use super::graphone::{Inventory, SymbolOptions, SymbolTable};
 use super::ngram::NgramModel;
 
@@ -21,12 +22,16 @@ pub struct Model {
     /// Per context id: upper bound of the log-probability of any phone insertion (graphone
     /// without letters) there (see [`NgramModel::group_bounds`]); kept in step with `ngram`.
     pub(crate) insertion_bounds: Vec<f32>,
+    /// Map from N-best posterior to the probability of being right, fitted on the words held
+    /// out at training time (`None` for models trained without held-out words or read from
+    /// files older than format 3).
+    pub(crate) calibration: Option<Calibration>,
 }
 
 impl Model {
     /// Assembles a model and its decoding caches.
     pub(crate) fn new(symbols: SymbolOptions, phoneset_id: String, letters: SymbolTable, phones: SymbolTable, inventory: Inventory, ngram: NgramModel) -> Model {
-        let mut model = Model { symbols, phoneset_id, letters, phones, inventory, ngram: NgramModel::uniform(1), bounds: Vec::new(), insertion_bounds: Vec::new() };
+        let mut model = Model { symbols, phoneset_id, letters, phones, inventory, ngram: NgramModel::uniform(1), bounds: Vec::new(), insertion_bounds: Vec::new(), calibration: None };
         model.set_ngram(ngram);
         model
     }
@@ -37,6 +42,17 @@ impl Model {
         self.inventory.sort_candidates(&self.bounds);
         self.insertion_bounds = ngram.group_bounds(self.inventory.with_letters(&[]));
         self.ngram = ngram;
+    }
+
+    /// The calibration of the model's scores, if it carries one.
+    pub fn calibration(&self) -> Option<&Calibration> {
+        self.calibration.as_ref()
+    }
+
+    /// The probability that a hypothesis of 0-based `rank` with `posterior` is right (stress as
+    /// written): the calibrated value when the model carries a calibration, else the posterior.
+    pub fn calibrated(&self, rank: usize, posterior: f64) -> f64 {
+        self.calibration.as_ref().map_or(posterior, |c| c.apply(rank, posterior))
     }
 
     /// Identifier of the phone set the pronunciations were written in (e.g. `en-arpa`).

@@ -3,7 +3,7 @@
 //! | bytes | field |
 //! |---|---|
 //! | 8 | magic `b"OEPYG2P\x1a"` |
-//! | 2 | format version (`u16`, currently 2; version 1 is still read) |
+//! | 2 | format version (`u16`, currently 3; versions 1 and 2 are still read) |
 //! | 8 | payload length (`u64`) |
 //! | 4 | CRC-32 (IEEE) of the payload |
 //! | … | payload |
@@ -14,7 +14,11 @@
 //! `f64` discounts per order (one per evidence class, see [`super::ngram::Discount`]; version 1
 //! stored one, read as the same value for every class); the unigram table (`u32` count + `f32`
 //! log-probabilities); the contexts (`u32` count; each: `u8` history length + `u32` symbols,
-//! `f32` back-off, `u32` entry count + (`u32` symbol, `f32` log-probability) pairs).
+//! `f32` back-off, `u32` entry count + (`u32` symbol, `f32` log-probability) pairs); from version
+//! 3 on, the score calibration (see [`super::calibration`]): a flag byte (0: none), then for the
+//! top hypothesis and for the lower ranks a `u32` knot count + (`f64` posterior, `f64`
+//! probability) knots. Files of versions 1 and 2 read as models without a calibration, whose
+//! scores are their raw posteriors.
 //!
 //! Reading never panics and never allocates more than the bytes that remain justify: every
 //! count is checked against the remaining length before anything is allocated. This module
@@ -22,6 +26,7 @@
 
 use std::path::{Path, PathBuf};
 
+use super::calibration::{Calibration, IsotonicMap};
 use super::graphone::{Graphone, Inventory, LetterUnit, SymbolOptions, SymbolTable};
 use super::model::Model;
 use super::ngram::{Discount, NgramError, NgramModel, StoredContext};
@@ -31,7 +36,7 @@ use crate::support::read::{read_capped, Limit, ReadError, MIB};
 /// First bytes of every model file.
 pub const MAGIC: [u8; 8] = *b"OEPYG2P\x1a";
 /// Format version written by this build. It also reads [`OLDEST_READ_VERSION`] and later.
-pub const FORMAT_VERSION: u16 = 2;
+pub const FORMAT_VERSION: u16 = 3;
 /// The oldest format version this build still reads.
 pub const OLDEST_READ_VERSION: u16 = 1;
 const HEADER_LEN: usize = 8 + 2 + 8 + 4;
@@ -229,6 +234,14 @@ impl Model {
                 w.f32(lp);
             }
         }
+        w.u8(u8::from(self.calibration.is_some()));
+        for map in self.calibration.iter().flat_map(|c| [&c.top, &c.rest]) {
+            w.len(map.knots().len());
+            map.knots().iter().for_each(|&(x, y)| {
+                w.f64(x);
+                w.f64(y);
+            });
+        }
         let payload = w.0;
         let mut out = Vec::with_capacity(HEADER_LEN + payload.len());
         out.extend_from_slice(&MAGIC);
@@ -335,10 +348,23 @@ fn decode_payload(r: &mut Reader<'_>, version: u16) -> Result<Model, ModelFileEr
         contexts.push(StoredContext { history, backoff, entries });
     }
     let ngram = NgramModel::from_parts(order, discounts, unigram, contexts).map_err(|e: NgramError| invalid(at, &e.to_string()))?;
+    let calibration = if version >= 3 && r.flag()? { Some(read_calibration(r)?) } else { None };
     if r.pos != r.data.len() {
         return Err(invalid(r.offset(), "extra bytes after the model"));
     }
-    Ok(Model::new(symbols, phoneset_id, letters, phones, inventory, ngram))
+    let mut model = Model::new(symbols, phoneset_id, letters, phones, inventory, ngram);
+    model.calibration = calibration;
+    Ok(model)
+}
+
+fn read_calibration(r: &mut Reader<'_>) -> Read<Calibration> {
+    let mut map = || -> Read<IsotonicMap> {
+        let at = r.offset();
+        let n = r.count(16)?;
+        let knots = (0..n).map(|_| Ok((r.f64()?, r.f64()?))).collect::<Read<Vec<(f64, f64)>>>()?;
+        IsotonicMap::from_knots(knots).ok_or_else(|| invalid(at, "calibration knots must be in 0..=1, increasing, and at least one"))
+    };
+    Ok(Calibration { top: map()?, rest: map()? })
 }
 
 #[cfg(test)]

@@ -5,8 +5,11 @@
 //! iterations with the order-M model are allowed by `TrainOptions::iterations` (default none,
 //! the measured best). Discounts are tuned on a held-out part of the training words at every
 //! iteration, and an iteration that makes the held-out words less likely is undone and ends
-//! its order (early stopping). A final pass adds the held-out words' evidence. Reports
-//! progress through a callback; never prints.
+//! its order (early stopping). Before a final pass adds the held-out words' evidence, the
+//! model that has not seen them guesses them (N-best) and the score calibration is fitted on
+//! those guesses (see [`super::calibration`]): the calibrated model then differs from the one
+//! the calibration was fitted on only by that 5% more evidence. Reports progress through a
+//! callback; never prints.
 
 use std::collections::HashSet;
 
@@ -231,6 +234,20 @@ fn heldout_per(model: &Model, refs: &References) -> f64 {
     }
 }
 
+/// Fits the score calibration on the held-out words, guessed (N-best, default search) by a
+/// model that has not seen them; a hypothesis is right when it equals one of the word's
+/// references as normalised for the model (stress as written unless the model strips it).
+fn fit_calibration(model: &Model, refs: &References) -> Option<super::calibration::Calibration> {
+    let observations: Vec<(usize, f64, bool)> = refs
+        .par_iter()
+        .flat_map_iter(|(word, variants)| {
+            let guess = model.guess_with(word, &super::decode::DecodeOptions::default());
+            guess.hypotheses.into_iter().enumerate().map(|(rank, h)| (rank, h.posterior, variants.contains(&h.phones))).collect::<Vec<_>>()
+        })
+        .collect();
+    super::calibration::Calibration::fit(&observations)
+}
+
 /// Interns the training pairs; returns (train samples, held-out samples, held-out references).
 /// A pair that is the same as an earlier one after normalisation (e.g. two variants that differ
 /// only in stress, when stress is stripped) is used once, so it does not weigh twice.
@@ -351,6 +368,7 @@ pub fn train(data: &[(String, Vec<String>)], opts: &TrainOptions, progress: &mut
             }
         }
     }
+    model.calibration = pool.install(|| fit_calibration(&model, &refs));
     if let Some(mut e) = last.filter(|_| !heldout.is_empty()) {
         // `h` is the held-out evidence under the final model, collected at the final order.
         super::ngram::merge_evidence(&mut e.evidence, h.evidence);

@@ -83,6 +83,10 @@ struct RawAllomorph {
 pub struct Scores {
     /// An all-capitals word spelled out letter by letter.
     pub initialism: f64,
+    /// An all-capitals word with a vowel letter (`NASA`, which may also be read as a word)
+    /// spelled out; when absent, [`Scores::initialism`].
+    #[serde(default)]
+    pub spoken_initialism: Option<f64>,
     /// A lower-case word without vowel letters spelled out.
     pub vowelless: f64,
     /// A stem from the lexicon plus a suffix rule.
@@ -187,6 +191,7 @@ impl LanguageConfig {
         let sc = raw.scores.get_ref();
         for (name, value) in [
             ("initialism", sc.initialism),
+            ("spoken_initialism", sc.spoken_initialism.unwrap_or(sc.initialism)),
             ("vowelless", sc.vowelless),
             ("derivation", sc.derivation),
             ("compound", sc.compound),

