@@ -126,8 +126,25 @@ fn state_of(ledger: &Ledger, item: &Item) -> ItemState {
 /// assert!((plan.expected_wrong - 0.03).abs() < 1e-9);
 /// ```
 pub fn plan_batch(queue: &Queue, ledger: &Ledger, selection: &Selection, threshold: Threshold) -> BatchPlan {
+    plan_over(pending(queue, ledger, selection), threshold)
+}
+
+/// Plans a batch decision over exactly these items (the caller has chosen them, e.g. the pending
+/// items the review screen's filter shows; nothing is written).
+///
+/// ```
+/// use orthoepy::queue::{plan_over, Candidate, Item, Threshold};
+/// let mut item = Item::new_word("Kelport");
+/// let mut c = Candidate::new("K EH1 L P AO2 R T", "g2p");
+/// c.score = Some(0.2);
+/// item.candidates.push(c);
+/// let plan = plan_over([&item], Threshold::RejectBelow(0.5));
+/// assert_eq!(plan.decisions.len(), 1);
+/// assert!((plan.expected_wrong - 0.2).abs() < 1e-12);
+/// ```
+pub fn plan_over<'a>(items: impl IntoIterator<Item = &'a Item>, threshold: Threshold) -> BatchPlan {
     let mut plan = BatchPlan::default();
-    for item in pending(queue, ledger, selection) {
+    for item in items {
         plan.considered += 1;
         let Some((best, p)) = item.candidates.first().and_then(|c| c.score.filter(|p| p.is_finite()).map(|p| (c, p))) else {
             plan.unscored += 1;

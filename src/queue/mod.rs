@@ -27,7 +27,7 @@ mod tokenise;
 
 pub use apply::{apply_decisions, ApplyReport, Outcome};
 pub use batch::{
-    plan_batch, plan_removal, plan_restore, plan_undo, removed_keys, run_batch, BatchError, BatchPlan, BatchRequest, BatchRun,
+    plan_batch, plan_over, plan_removal, plan_restore, plan_undo, removed_keys, run_batch, BatchError, BatchPlan, BatchRequest, BatchRun,
     Selection, Threshold,
 };
 pub use entry_edit::entry_key;

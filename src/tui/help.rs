@@ -8,6 +8,7 @@ pub const KEYS: &[(&str, &str)] = &[
     ("Enter", "accept the selected candidate"),
     ("e", "edit it in the phone editor (Tab completes, Esc cancels)"),
     ("x", "reject the item"),
+    ("A / X", "accept / reject every shown pending item by score (type the threshold; asks first)"),
     ("s", "set the item aside"),
     ("m", "note for this item's next decision (Enter keeps, Esc cancels)"),
     ("n / p", "next / previous item"),

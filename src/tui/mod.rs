@@ -23,7 +23,7 @@ pub use help::KEYS;
 pub use lookups::{align, AlignedPair, Lookups, NEIGHBOUR_LIMIT};
 pub use phones::{check_all, CheckVerdict, PhoneCheck, PhonesetCheck, SymbolList, TokenVerdict};
 pub use state::{
-    App, Comparison, Confirm, JobProgress, Mode, Neighbours, PendingWrite, SaveState, SearchBox,
+    App, BatchConfirm, Comparison, Confirm, JobProgress, Mode, Neighbours, PendingWrite, SaveState, SearchBox,
     SearchMode, WordPron,
 };
 pub use update::{update, Effect, Event, Key};

@@ -11,7 +11,7 @@ use super::editor::Editor;
 use super::filter::Filter;
 use crate::queue::ItemState;
 use super::phones::PhoneCheck;
-use crate::queue::{Candidate, Decision, Item, Ledger};
+use crate::queue::{Candidate, Decision, Item, Ledger, Threshold};
 use crate::variants::FeatureView;
 
 /// A word with one of its pronunciations, as shown in the neighbour and search panels.
@@ -139,6 +139,20 @@ pub enum Mode {
     Confirm(Confirm),
     /// A lexicon entry opened from the search: `c` change, `v` add a variant, `d` deprecate.
     Entry(WordPron),
+    /// A score threshold is being typed for a batch decision on the items shown (`A`: accept
+    /// those at or above it, `X`: reject those below it); the text and the last parse error.
+    Threshold(Threshold, String, Option<String>),
+    /// A batch decision waits for `y`.
+    ConfirmBatch(BatchConfirm),
+}
+
+/// A batch decision waiting for `y`: one decision per shown pending item that passed the threshold.
+#[derive(Debug, Clone, PartialEq)]
+pub struct BatchConfirm {
+    /// What is asked, with the count and the expected number wrong.
+    pub question: String,
+    /// The decisions written on `y`.
+    pub decisions: Vec<Decision>,
 }
 
 /// Progress of background work (guessing, variant generation).
@@ -162,6 +176,8 @@ pub enum PendingWrite {
     },
     /// Undoing this decision.
     Revoke(Decision),
+    /// A batch of decisions (one journal write).
+    Batch,
 }
 
 /// Whether everything shown as decided is on disk.

@@ -43,6 +43,10 @@ pub fn execute_effect(effect: Effect, lookups: &Lookups, journal: &mut Journal) 
             Ok(seq) => Event::Journaled { seq, record },
             Err(e) => Event::JournalFailed(e.to_string()),
         }),
+        Effect::AppendJournalBatch(records) => Some(match journal.append_all(records.clone()) {
+            Ok(range) => Event::JournaledBatch { first: *range.start(), records },
+            Err(e) => Event::JournalFailed(e.to_string()),
+        }),
         Effect::LoadNeighbours { key, word, pronunciation, compare_with } => {
             Some(Event::Neighbours(lookups.neighbours(&key, &word, &pronunciation, compare_with.as_deref())))
         }

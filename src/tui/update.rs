@@ -7,8 +7,8 @@
 
 use super::editor::{EditPurpose, Editor};
 use super::filter::Filter;
-use super::state::{App, Confirm, JobProgress, Mode, Neighbours, PendingWrite, SaveState, SearchBox, SearchMode, WordPron};
-use crate::queue::{entry_key, Action, Candidate, Decision, ItemKind, Record};
+use super::state::{App, BatchConfirm, Confirm, JobProgress, Mode, Neighbours, PendingWrite, SaveState, SearchBox, SearchMode, WordPron};
+use crate::queue::{entry_key, Action, Candidate, Decision, ItemKind, Record, Threshold};
 
 /// A key press, independent of the terminal library.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -55,6 +55,13 @@ pub enum Event {
         /// What was written.
         record: Record,
     },
+    /// A batch of journal appends finished and is on disk.
+    JournaledBatch {
+        /// The sequence number of the first record; the rest follow in order.
+        first: u64,
+        /// What was written.
+        records: Vec<Record>,
+    },
     /// A journal append failed; nothing was recorded.
     JournalFailed(String),
     /// Neighbours asked for with [`Effect::LoadNeighbours`].
@@ -87,6 +94,9 @@ pub enum Effect {
     /// Append this record to the journal, fsync, and answer with [`Event::Journaled`] or
     /// [`Event::JournalFailed`].
     AppendJournal(Record),
+    /// Append these records in one write and one fsync, and answer with
+    /// [`Event::JournaledBatch`] or [`Event::JournalFailed`].
+    AppendJournalBatch(Vec<Record>),
     /// Look up lexicon neighbours and answer with [`Event::Neighbours`].
     LoadNeighbours {
         /// Item key (echoed back).
@@ -128,6 +138,7 @@ pub fn update(app: &mut App, event: Event) -> Vec<Effect> {
         Event::Key(key) => on_key(app, key),
         Event::Resize(..) => Vec::new(),
         Event::Journaled { seq, record } => on_journaled(app, seq, record),
+        Event::JournaledBatch { first, records } => on_journaled_batch(app, first, records),
         Event::JournalFailed(message) => {
             app.pending = None;
             app.message = format!("NOT SAVED: {message}");
@@ -206,6 +217,8 @@ fn on_key(app: &mut App, key: Key) -> Vec<Effect> {
         Mode::Filter(text, _) => filter_key(app, text, key),
         Mode::Note(text) => note_key(app, text, key),
         Mode::Confirm(c) => confirm_key(app, c, key),
+        Mode::Threshold(kind, text, _) => threshold_key(app, kind, text, key),
+        Mode::ConfirmBatch(c) => confirm_batch_key(app, c, key),
         Mode::Entry(entry) => entry_key_pressed(app, entry, key),
     }
 }
@@ -226,6 +239,8 @@ fn normal_key(app: &mut App, key: Key) -> Vec<Effect> {
         }
         Key::Enter => return accept_selected(app),
         Key::Char('x') => return decide(app, Action::Reject, String::new()),
+        Key::Char('A') => app.mode = Mode::Threshold(Threshold::AcceptAbove(0.0), String::new(), None),
+        Key::Char('X') => app.mode = Mode::Threshold(Threshold::RejectBelow(0.0), String::new(), None),
         Key::Char('s') => return decide(app, Action::SetAside, String::new()),
         Key::Char('e') => match app.current() {
             Some(_) => {
@@ -356,6 +371,101 @@ fn confirm_key(app: &mut App, confirm: Confirm, key: Key) -> Vec<Effect> {
         return Vec::new();
     }
     write_decision(app, confirm.decision)
+}
+
+/// The threshold line of `A` / `X`: Enter plans the batch over the pending items the filter
+/// shows and asks, with the count and the expected number wrong.
+fn threshold_key(app: &mut App, kind: Threshold, mut text: String, key: Key) -> Vec<Effect> {
+    match key {
+        Key::Esc => return Vec::new(),
+        Key::Enter => {
+            let p = match text.trim().parse::<f64>() {
+                Ok(p) if (0.0..=1.0).contains(&p) => p,
+                _ => {
+                    app.mode = Mode::Threshold(kind, text, Some("give a score from 0 to 1".into()));
+                    return Vec::new();
+                }
+            };
+            let threshold = match kind {
+                Threshold::AcceptAbove(_) => Threshold::AcceptAbove(p),
+                Threshold::RejectBelow(_) => Threshold::RejectBelow(p),
+            };
+            return plan_shown(app, threshold);
+        }
+        _ => {
+            edit_line(&mut text, key);
+        }
+    }
+    app.mode = Mode::Threshold(kind, text, None);
+    Vec::new()
+}
+
+fn plan_shown(app: &mut App, threshold: Threshold) -> Vec<Effect> {
+    let shown: Vec<&crate::queue::Item> = (0..app.items.len())
+        .filter(|&i| app.visible(i) && app.state_of(i) == crate::queue::ItemState::Pending)
+        .filter_map(|i| app.items.get(i))
+        .collect();
+    let mut plan = crate::queue::plan_over(shown, threshold);
+    let (verb, rule) = match threshold {
+        Threshold::AcceptAbove(p) => ("accept", format!("whose best candidate scores at least {p}")),
+        Threshold::RejectBelow(p) => ("reject", format!("whose best candidate scores below {p}")),
+    };
+    if plan.decisions.is_empty() {
+        app.message = format!("no pending item shown {rule}; nothing decided");
+        return Vec::new();
+    }
+    let note = batch_note(app, &rule);
+    for d in &mut plan.decisions {
+        d.note = note.clone();
+    }
+    let question = format!(
+        "{verb} {} shown pending item(s) {rule}? expected wrong: {:.1}{}  y: yes, any other key: no",
+        plan.decisions.len(),
+        plan.expected_wrong,
+        if plan.unscored > 0 { format!(" ({} without a score are left alone)", plan.unscored) } else { String::new() }
+    );
+    app.mode = Mode::ConfirmBatch(BatchConfirm { question, decisions: plan.decisions });
+    Vec::new()
+}
+
+/// The note of a batch decision: who and when, as for single decisions, and the rule.
+fn batch_note(app: &App, rule: &str) -> String {
+    let who = if app.reviewer.is_empty() { "reviewed".to_string() } else { format!("reviewed by {}", app.reviewer) };
+    let when = if app.now == 0 { who } else { format!("{who} on {}", crate::support::clock::utc(app.now)) };
+    format!("{when}; batch: {rule}")
+}
+
+fn confirm_batch_key(app: &mut App, confirm: BatchConfirm, key: Key) -> Vec<Effect> {
+    if key != Key::Char('y') {
+        app.message = "kept: nothing decided".into();
+        return Vec::new();
+    }
+    if app.pending.is_some() {
+        app.message = "still saving the last decision…".into();
+        app.mode = Mode::ConfirmBatch(confirm);
+        return Vec::new();
+    }
+    app.pending = Some(PendingWrite::Batch);
+    app.save = SaveState::Writing;
+    vec![Effect::AppendJournalBatch(confirm.decisions.into_iter().map(Record::Decide).collect())]
+}
+
+fn on_journaled_batch(app: &mut App, first: u64, records: Vec<Record>) -> Vec<Effect> {
+    let count = records.len() as u64;
+    for (seq, record) in (first..).zip(&records) {
+        app.ledger.record(seq, record);
+        app.undo.push(seq);
+    }
+    app.redo.clear();
+    app.pending = None;
+    let last = first + count.saturating_sub(1);
+    app.save = SaveState::Saved(last);
+    app.message = format!("{count} item(s) decided (saved #{first}–#{last}); u undoes them one at a time");
+    if !app.visible(app.cursor) || app.state_of(app.cursor) != crate::queue::ItemState::Pending {
+        let next = app.next_pending_from(app.cursor);
+        move_to(app, next);
+    }
+    Vec::new()
 }
 
 fn undo(app: &mut App) -> Vec<Effect> {

@@ -131,6 +131,7 @@ pub fn draw(frame: &mut Frame, app: &App, color: bool) {
         Mode::Search(_) => draw_search(frame, app, t, area),
         Mode::Entry(entry) => draw_entry(frame, app, t, area, entry),
         Mode::Confirm(c) => draw_box(frame, t, area, " confirm ", wrap_text(&c.question, 58, 6, Style::default())),
+        Mode::ConfirmBatch(c) => draw_box(frame, t, area, " confirm batch ", wrap_text(&c.question, 58, 6, Style::default())),
         _ => {}
     }
 }
@@ -621,6 +622,17 @@ fn draw_keys(frame: &mut Frame, app: &App, t: Theme, area: Rect) {
             fit_line(spans, w)
         }
         Mode::Note(text) => fit_line(vec![Span::styled("note> ", t.title()), Span::raw(text.clone()), Span::raw("▏")], w),
+        Mode::Threshold(kind, text, err) => {
+            let prompt = match kind {
+                crate::queue::Threshold::AcceptAbove(_) => "accept shown items scoring at least> ",
+                crate::queue::Threshold::RejectBelow(_) => "reject shown items scoring below> ",
+            };
+            let mut spans = vec![Span::styled(prompt, t.title()), Span::raw(text.clone()), Span::raw("▏")];
+            if let Some(e) = err {
+                spans.push(Span::styled(format!("  {e}"), t.bad()));
+            }
+            fit_line(spans, w)
+        }
         _ if !app.message.is_empty() => fit_line(vec![Span::raw(app.message.clone())], w),
         _ => fit_line(
             vec![Span::styled(
