@@ -3,8 +3,11 @@
 //!
 //! This module owns finding the file (in a given folder, or from the current folder upwards),
 //! reading it strictly (unknown keys are errors, so a typo never silently falls back to a default),
-//! and resolving every path relative to the folder that holds it. It must not open the files it
-//! names: callers load the lexicon, phoneset and model themselves.
+//! and resolving every path relative to the folder that holds it. A project file is shared with
+//! others, so every path it names must stay inside the project folder (no `..` out of it, no
+//! absolute path elsewhere, no symbolic link that leads out) unless the file says
+//! `allow_paths_outside = true`. It must not open the files it names: callers load the lexicon,
+//! phoneset and model themselves.
 //!
 //! ```toml
 //! lexicon = "lexicon.csv"        # required
@@ -15,6 +18,7 @@
 //! profiles = ["accent.toml"]     # optional accent profiles (shipped ids or paths)
 //! queue = "queue.jsonl"          # default: review-queue.jsonl
 //! journal = "journal.jsonl"      # default: review-journal.jsonl
+//! allow_paths_outside = false    # true lets the paths above name files outside this folder
 //!
 //! [stress]
 //! primary = "exactly-one"        # or "at-least-one" (compounds may carry two) or "unchecked"
@@ -26,7 +30,8 @@ use crate::audit::StressPolicy;
 use crate::support::located::{origin_of, Located};
 use crate::support::read::{read_capped_string, Limit, ReadError, MIB};
 use serde::Deserialize;
-use std::path::{Path, PathBuf};
+use std::path::{Component, Path, PathBuf};
+use toml::Spanned;
 
 /// The file name looked for.
 pub const PROJECT_FILE: &str = "orthoepy.toml";
@@ -49,28 +54,29 @@ pub enum ProjectError {
     /// The file is not valid project TOML.
     #[error("{0}")]
     Syntax(Located),
+    /// A path names a file outside the project folder and the file does not allow that (placed
+    /// at the key).
+    #[error("{0}")]
+    OutsideProject(Located),
 }
 
 #[derive(Debug, Deserialize)]
 #[serde(deny_unknown_fields)]
 struct ProjectFile {
-    lexicon: PathBuf,
-    #[serde(default = "default_phoneset")]
-    phoneset: String,
+    lexicon: Spanned<PathBuf>,
+    phoneset: Option<Spanned<String>>,
     #[serde(default = "default_true")]
     fold_case: bool,
-    model: Option<PathBuf>,
-    letter_to_sound: Option<String>,
+    model: Option<Spanned<PathBuf>>,
+    letter_to_sound: Option<Spanned<String>>,
     #[serde(default)]
-    profiles: Vec<String>,
-    queue: Option<PathBuf>,
-    journal: Option<PathBuf>,
+    profiles: Vec<Spanned<String>>,
+    queue: Option<Spanned<PathBuf>>,
+    journal: Option<Spanned<PathBuf>>,
+    #[serde(default)]
+    allow_paths_outside: bool,
     #[serde(default)]
     stress: StressPolicy,
-}
-
-fn default_phoneset() -> String {
-    "en-arpa".to_string()
 }
 
 fn default_true() -> bool {
@@ -129,23 +135,41 @@ impl Project {
         let file: ProjectFile =
             toml::from_str(text).map_err(|err| ProjectError::Syntax(Located::from_toml(origin_of(path), text, &err)))?;
         let root = root.to_path_buf();
-        let resolve = |p: &Path| if p.is_absolute() { p.to_path_buf() } else { root.join(p) };
-        let resolve_named = |spec: &str| {
-            if looks_like_path(spec) {
-                resolve(Path::new(spec)).to_string_lossy().into_owned()
+        let allow = file.allow_paths_outside;
+        let resolve = |key: &str, p: &Spanned<PathBuf>| {
+            let named = p.get_ref();
+            let full = if named.is_absolute() { named.clone() } else { root.join(named) };
+            if !allow && !is_inside(&root, &full) {
+                let message = format!(
+                    "`{key}` names {}, which is outside the project folder {}; a shared project file must not make orthoepy read or write elsewhere. Move the file into the folder, or add `allow_paths_outside = true` to {PROJECT_FILE} if that is intended",
+                    named.display(),
+                    root.display()
+                );
+                return Err(ProjectError::OutsideProject(Located::at_offset(origin_of(path), text.as_bytes(), p.span().start, message)));
+            }
+            Ok(full)
+        };
+        let resolve_named = |key: &str, spec: &Spanned<String>| {
+            if looks_like_path(spec.get_ref()) {
+                let as_path = Spanned::new(spec.span(), PathBuf::from(spec.get_ref()));
+                resolve(key, &as_path).map(|p| p.to_string_lossy().into_owned())
             } else {
-                spec.to_string()
+                Ok(spec.get_ref().clone())
             }
         };
+        let default_file = |name: &str| Spanned::new(0..0, PathBuf::from(name));
         Ok(Project {
-            lexicon: resolve(&file.lexicon),
-            phoneset: resolve_named(&file.phoneset),
+            lexicon: resolve("lexicon", &file.lexicon)?,
+            phoneset: match &file.phoneset {
+                Some(spec) => resolve_named("phoneset", spec)?,
+                None => "en-arpa".to_string(),
+            },
             fold_case: file.fold_case,
-            model: file.model.as_deref().map(resolve),
-            letter_to_sound: file.letter_to_sound.as_deref().map(resolve_named),
-            profiles: file.profiles.iter().map(|p| resolve_named(p)).collect(),
-            queue: resolve(file.queue.as_deref().unwrap_or(Path::new("review-queue.jsonl"))),
-            journal: resolve(file.journal.as_deref().unwrap_or(Path::new("review-journal.jsonl"))),
+            model: file.model.as_ref().map(|m| resolve("model", m)).transpose()?,
+            letter_to_sound: file.letter_to_sound.as_ref().map(|l| resolve_named("letter_to_sound", l)).transpose()?,
+            profiles: file.profiles.iter().map(|p| resolve_named("profiles", p)).collect::<Result<_, _>>()?,
+            queue: resolve("queue", file.queue.as_ref().unwrap_or(&default_file("review-queue.jsonl")))?,
+            journal: resolve("journal", file.journal.as_ref().unwrap_or(&default_file("review-journal.jsonl")))?,
             stress: file.stress,
             root,
         })
@@ -184,6 +208,49 @@ impl Project {
     }
 }
 
+/// True when `path` (absolute) lies inside `root`: lexically (`..` resolved without the file
+/// system), and, where the path or a folder above it exists, also after following symbolic links.
+fn is_inside(root: &Path, path: &Path) -> bool {
+    let (Some(root_clean), Some(path_clean)) = (lexical(root), lexical(path)) else { return false };
+    if !path_clean.starts_with(&root_clean) {
+        return false;
+    }
+    let Ok(real_root) = root.canonicalize() else { return true };
+    // The deepest part of the path that exists, with symbolic links followed; the rest is
+    // plain names (`..` was resolved above), which cannot lead out.
+    let mut existing = path_clean.as_path();
+    let mut rest = Vec::new();
+    loop {
+        if let Ok(real) = existing.canonicalize() {
+            return rest.iter().rev().fold(real, |p: PathBuf, part| p.join(part)).starts_with(&real_root);
+        }
+        match (existing.parent(), existing.file_name()) {
+            (Some(parent), Some(name)) => {
+                rest.push(name.to_os_string());
+                existing = parent;
+            }
+            _ => return true,
+        }
+    }
+}
+
+/// `path` with `.` and `..` resolved by name; `None` when `..` climbs above the root.
+fn lexical(path: &Path) -> Option<PathBuf> {
+    let mut clean = PathBuf::new();
+    for part in path.components() {
+        match part {
+            Component::CurDir => {}
+            Component::ParentDir => {
+                if !clean.pop() || clean.as_os_str().is_empty() {
+                    return None;
+                }
+            }
+            other => clean.push(other.as_os_str()),
+        }
+    }
+    Some(clean)
+}
+
 /// True when a phoneset/rules/profile spec names a file rather than a shipped id.
 fn looks_like_path(spec: &str) -> bool {
     spec.contains('/') || spec.contains('\\') || spec.ends_with(".toml")
@@ -216,6 +283,40 @@ mod tests {
         assert_eq!(p.profiles, ["fast-speech", "/p/local.toml"]);
         assert_eq!(p.stress.primary, crate::audit::PrimaryStressPolicy::AtLeastOne);
         assert_eq!(p.queue, Path::new("/p/review-queue.jsonl"));
+    }
+
+    #[test]
+    fn paths_leaving_the_folder_are_refused_unless_allowed() {
+        let dir = tempfile::tempdir().unwrap();
+        let root = dir.path().join("p");
+        std::fs::create_dir(&root).unwrap();
+        let file = root.join("orthoepy.toml");
+        for (text, key, line) in [
+            ("lexicon = \"../x.csv\"\n", "lexicon", 1),
+            ("lexicon = \"l.csv\"\nmodel = \"/etc/m.g2p\"\n", "model", 2),
+            ("lexicon = \"l.csv\"\nqueue = \"a/../../q.jsonl\"\n", "queue", 2),
+            ("lexicon = \"l.csv\"\nprofiles = [\"fast-casual\", \"../a.toml\"]\n", "profiles", 2),
+            ("lexicon = \"l.csv\"\nphoneset = \"../sets/x.toml\"\n", "phoneset", 2),
+        ] {
+            match Project::parse(text, &root, &file) {
+                Err(ProjectError::OutsideProject(at)) => {
+                    assert_eq!(at.line(), Some(line), "{at}");
+                    assert!(at.message.contains(&format!("`{key}`")) && at.message.contains("allow_paths_outside = true"), "{at}");
+                }
+                other => panic!("{text}: {other:?}"),
+            }
+            let allowed = format!("{text}allow_paths_outside = true\n");
+            assert!(Project::parse(&allowed, &root, &file).is_ok(), "{allowed}");
+        }
+        // A symbolic link inside the folder that leads out is outside too.
+        #[cfg(unix)]
+        {
+            std::os::unix::fs::symlink(dir.path(), root.join("out")).unwrap();
+            let text = "lexicon = \"out/l.csv\"\n";
+            assert!(matches!(Project::parse(text, &root, &file), Err(ProjectError::OutsideProject(_))));
+            let inside = format!("lexicon = \"{}\"\njournal = \"sub/./j.jsonl\"\n", root.join("l.csv").display());
+            assert!(Project::parse(&inside, &root, &file).is_ok());
+        }
     }
 
     #[test]

@@ -34,6 +34,7 @@ fn describe(o: &Outcome) -> String {
         Outcome::Deprecated { word, pronunciation } => format!("deprecated {word} /{pronunciation}/"),
         Outcome::Unchanged { word, reason } => format!("unchanged {word}: {reason}"),
         Outcome::Conflict { word, reason, .. } => format!("CONFLICT  {word}: {reason}"),
+        Outcome::Invalid { word, reason, .. } => format!("INVALID   {word}: {reason}"),
     }
 }
 
@@ -53,6 +54,14 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
         DataFormat::Text => run.report.outcomes.iter().for_each(|o| println!("{}", describe(o))),
     }
     match run.status {
+        ApplyStatus::Refused if run.report.has_invalid() => {
+            eprintln!(
+                "refused: {}: some decisions are invalid (see INVALID above); nothing was changed. \
+                 Review those items again, or pass --skip-conflicts to merge the rest.",
+                project.journal.display()
+            );
+            return Ok(ExitCode::from(2));
+        }
         ApplyStatus::Refused => {
             eprintln!(
                 "refused: the lexicon contradicts some decisions (see CONFLICT above); nothing was changed. \

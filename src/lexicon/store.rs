@@ -409,13 +409,21 @@ impl RowParser<'_> {
         let mut reader = csv::ReaderBuilder::new().has_headers(false).flexible(true).from_reader(chunk.as_bytes());
         let mut entries = Vec::with_capacity(chunk.len() / 32);
         let mut record = csv::StringRecord::new();
+        // Lines are counted here from each record's byte offset (line feeds before it), so CR,
+        // LF and CRLF files all report the line an editor shows.
+        let (mut counted_to, mut line) = (0usize, first_line);
         loop {
             match reader.read_record(&mut record) {
                 Ok(true) => {}
                 Ok(false) => break,
                 Err(err) => return Err(csv_error(err, self.path, self.text, first_line - 1)),
             }
-            let line = record.position().map(|p| p.line() as usize).unwrap_or(1) + first_line - 1;
+            let mut start = record.position().map_or(counted_to, |p| p.byte() as usize).clamp(counted_to, chunk.len());
+            // After a CR the reader may place the next record at the LF it has yet to skip.
+            start += chunk.as_bytes()[start..].iter().take_while(|&&b| b == b'\r' || b == b'\n').count();
+            line += chunk.as_bytes()[counted_to..start].iter().filter(|&&b| b == b'\n').count();
+            counted_to = start;
+            let line = line;
             if record.len() != self.fields {
                 if record.len() == 1 && record.get(0) == Some("") {
                     continue; // a blank line

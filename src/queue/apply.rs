@@ -1,15 +1,19 @@
 //! Merging decisions into a lexicon, in memory: accepted new words become entries, accepted
 //! variants become extra entries, accepted audit fixes replace the flagged pronunciation.
 //! Decisions the lexicon has meanwhile made moot are skipped; decisions it now contradicts are
-//! conflicts (the caller refuses to save unless told to merge the rest, and then withdraws the
-//! conflicting decisions so their items come back for review).
+//! conflicts, and a decision whose pronunciation does not parse in the project's phoneset
+//! (unknown phone, stress mark out of place) or whose headword holds a control character is
+//! invalid: the journal is not trusted to hold only what the review screen checked. Both block
+//! the save (the caller refuses unless told to merge the rest, and then withdraws those decisions
+//! so their items come back for review).
 //!
 //! Saving the lexicon and marking the journal are the caller's (through `Lexicon::save` and
 //! [`Journal::append`](super::Journal::append)); this file only edits the in-memory lexicon.
 
 use std::collections::HashMap;
 
-use crate::lexicon::{normalize_key, Entry, Lexicon, Status};
+use crate::lexicon::{check_controls, normalize_key, Entry, Lexicon, Status};
+use crate::phoneset::Phoneset;
 
 use super::item::ItemKind;
 use super::journal::{Action, Decision};
@@ -50,6 +54,16 @@ pub enum Outcome {
         /// Why.
         reason: String,
     },
+    /// The decision cannot be merged as it is: its pronunciation does not parse in the
+    /// project's phoneset, or its headword holds a control character. Nothing was changed for it.
+    Invalid {
+        /// Journal sequence number of the decision (to withdraw it and review the item again).
+        seq: u64,
+        /// Headword.
+        word: String,
+        /// What is wrong and what to do.
+        reason: String,
+    },
     /// The lexicon now contradicts the decision; nothing was changed for it.
     Conflict {
         /// Journal sequence number of the decision (to withdraw it and review the item again).
@@ -78,14 +92,26 @@ pub struct ApplyReport {
 }
 
 impl ApplyReport {
-    /// Whether any decision conflicts with the lexicon.
+    /// Whether any decision blocks the save: a conflict with the lexicon or an invalid decision.
     pub fn has_conflicts(&self) -> bool {
-        self.outcomes.iter().any(|o| matches!(o, Outcome::Conflict { .. }))
+        !self.conflicts().is_empty()
     }
 
-    /// Journal sequence numbers of the conflicting decisions, oldest first.
+    /// Whether any decision is invalid (see [`Outcome::Invalid`]).
+    pub fn has_invalid(&self) -> bool {
+        self.outcomes.iter().any(|o| matches!(o, Outcome::Invalid { .. }))
+    }
+
+    /// Journal sequence numbers of the decisions that block the save (conflicting or invalid),
+    /// oldest first.
     pub fn conflicts(&self) -> Vec<u64> {
-        self.outcomes.iter().filter_map(|o| if let Outcome::Conflict { seq, .. } = o { Some(*seq) } else { None }).collect()
+        self.outcomes
+            .iter()
+            .filter_map(|o| match o {
+                Outcome::Conflict { seq, .. } | Outcome::Invalid { seq, .. } => Some(*seq),
+                _ => None,
+            })
+            .collect()
     }
 
     /// Whether the lexicon was changed.
@@ -94,8 +120,8 @@ impl ApplyReport {
     }
 }
 
-/// Merge every decision in force that is not applied yet (set-aside and removed items stay out) into
-/// `lexicon`. `reviewed` is the source prefix for entries made from accepted candidates.
+/// Merge every decision in force that is not applied yet (set-aside and removed items stay out)
+/// into `lexicon`; decided pronunciations are checked against `phoneset` first.
 ///
 /// ```
 /// use orthoepy::lexicon::{Entry, HeadwordPolicy, Lexicon};
@@ -110,11 +136,12 @@ impl ApplyReport {
 ///     action: Action::Accept { pronunciation: "K EH1 L P AO2 R T".into(), source: "g2p".into(), score: None, edited: false },
 /// }));
 /// let mut lexicon = Lexicon::from_entries(vec![Entry::new("quay", "K IY1")], HeadwordPolicy { fold_case: true });
-/// let report = apply_decisions(&mut lexicon, &queue, &ledger);
+/// let set = orthoepy::phoneset::Phoneset::shipped("en-arpa").unwrap();
+/// let report = apply_decisions(&mut lexicon, &queue, &ledger, &set);
 /// assert!(report.changed() && !report.has_conflicts());
 /// assert_eq!(lexicon.entries().len(), 2);
 /// ```
-pub fn apply_decisions(lexicon: &mut Lexicon, queue: &Queue, ledger: &Ledger) -> ApplyReport {
+pub fn apply_decisions(lexicon: &mut Lexicon, queue: &Queue, ledger: &Ledger, phoneset: &Phoneset) -> ApplyReport {
     let mut report = ApplyReport { outcomes: Vec::new(), through: ledger.last_seq() };
     let policy = *lexicon.policy();
     // Entries by normalised headword, kept up to date as entries are added, so each decision
@@ -127,9 +154,30 @@ pub fn apply_decisions(lexicon: &mut Lexicon, queue: &Queue, ledger: &Ledger) ->
         if matches!(decision.action, Action::SetAside | Action::Remove) {
             continue;
         }
-        report.outcomes.push(apply_one(lexicon, &mut by_word, queue, seq, decision));
+        let outcome = match invalid(decision, queue, phoneset) {
+            Some(reason) => Outcome::Invalid { seq, word: decision.word.clone(), reason },
+            None => apply_one(lexicon, &mut by_word, queue, seq, decision),
+        };
+        report.outcomes.push(outcome);
     }
     report
+}
+
+/// Why an accepted decision cannot be merged as it is, if it cannot.
+fn invalid(d: &Decision, queue: &Queue, phoneset: &Phoneset) -> Option<String> {
+    let pronunciation = match &d.action {
+        Action::Accept { pronunciation, .. } | Action::ChangeEntry { pronunciation, .. } | Action::AddVariant { pronunciation } => {
+            pronunciation
+        }
+        Action::Reject | Action::SetAside | Action::Remove | Action::DeprecateEntry { .. } => return None,
+    };
+    let word = queue.get(&d.item).map_or(d.word.as_str(), |item| item.word.as_str());
+    if let Err(problem) = check_controls(word) {
+        return Some(format!("{problem}; the item cannot be merged"));
+    }
+    phoneset.parse(pronunciation).err().map(|problem| {
+        format!("the decided pronunciation /{pronunciation}/ does not parse in phoneset {}: {problem}; review the item again", phoneset.id())
+    })
 }
 
 fn apply_one(lexicon: &mut Lexicon, by_word: &mut HashMap<String, Vec<usize>>, queue: &Queue, seq: u64, d: &Decision) -> Outcome {
@@ -214,6 +262,29 @@ mod tests {
         })
     }
 
+    fn arpa() -> Phoneset {
+        Phoneset::shipped("en-arpa").unwrap()
+    }
+
+    #[test]
+    fn pronunciations_outside_the_phoneset_are_invalid_and_block_the_save() {
+        let mut q = Queue::new();
+        let a = Item::new_word("Kelport");
+        let b = Item::new_word("quay");
+        q.add(a.clone());
+        q.add(b.clone());
+        let mut l = Ledger::default();
+        l.record(1, &accept(&a, "K EH1 L P QQ1 T"));
+        l.record(2, &accept(&b, "K IY9"));
+        let mut lexicon = lex(&[]);
+        let r = apply_decisions(&mut lexicon, &q, &l, &arpa());
+        assert!(matches!(&r.outcomes[0], Outcome::Invalid { seq: 1, reason, .. } if reason.contains("QQ")), "{:?}", r.outcomes);
+        assert!(matches!(&r.outcomes[1], Outcome::Invalid { seq: 2, .. }));
+        assert!(r.has_invalid() && r.has_conflicts());
+        assert_eq!(r.conflicts(), [1, 2]);
+        assert!(lexicon.entries().is_empty());
+    }
+
     fn lex(entries: &[(&str, &str)]) -> Lexicon {
         Lexicon::from_entries(entries.iter().map(|(w, p)| Entry::new(w, p)).collect(), HeadwordPolicy { fold_case: true })
     }
@@ -229,7 +300,7 @@ mod tests {
         l.record(1, &accept(&a, "K EH1 L P AO2 R T"));
         l.record(2, &accept(&b, "S AO1 L T M AA2 R SH"));
         let mut lexicon = lex(&[("kelport", "K EH1 L P ER0 T"), ("saltmarsh", "S AO1 L T M AA2 R SH")]);
-        let r = apply_decisions(&mut lexicon, &q, &l);
+        let r = apply_decisions(&mut lexicon, &q, &l, &arpa());
         assert!(matches!(r.outcomes[0], Outcome::Conflict { .. }));
         assert!(matches!(r.outcomes[1], Outcome::Unchanged { .. }));
         assert_eq!(lexicon.entries().len(), 2);
@@ -249,7 +320,7 @@ mod tests {
         l.record(1, &accept(&audit, "F EH1 R IY0"));
         l.record(2, &accept(&var, "AA1 B AH0"));
         let mut lexicon = lex(&[("ferry", "F EH1 R EE0")]);
-        let r = apply_decisions(&mut lexicon, &q, &l);
+        let r = apply_decisions(&mut lexicon, &q, &l, &arpa());
         assert!(matches!(&r.outcomes[0], Outcome::Replaced { new, .. } if new == "F EH1 R IY0"));
         assert!(matches!(r.outcomes[1], Outcome::Conflict { .. }));
         assert_eq!(lexicon.entries()[0].status, Status::Accepted);
@@ -267,7 +338,7 @@ mod tests {
         l.record(2, &Record::Applied { through: 1 });
         l.record(3, &Record::Decide(Decision { item: b.key(), word: "b".into(), note: String::new(), action: Action::SetAside }));
         let mut lexicon = lex(&[]);
-        let r = apply_decisions(&mut lexicon, &q, &l);
+        let r = apply_decisions(&mut lexicon, &q, &l, &arpa());
         assert!(r.outcomes.is_empty());
         assert!(!l.is_applied(&b.key()));
     }

@@ -33,6 +33,9 @@ pub enum ProjectQueueError {
     /// The journal could not be read or written, or is damaged.
     #[error(transparent)]
     Journal(#[from] super::journal::JournalError),
+    /// The project's phoneset, which decisions are checked against, could not be loaded.
+    #[error(transparent)]
+    Phoneset(#[from] crate::phoneset::PhonesetError),
 }
 
 /// The queue of a project with its journal open and replayed.
@@ -158,7 +161,8 @@ pub fn apply_project(project: &Project, options: ApplyOptions) -> Result<ApplyRu
         let ledger = Ledger::replay(journal.records());
         (Some(journal), ledger, warnings)
     };
-    let report = apply_decisions(&mut lexicon, &queue, &ledger);
+    let phoneset = crate::phoneset::Phoneset::resolve(&project.phoneset, &project.root)?;
+    let report = apply_decisions(&mut lexicon, &queue, &ledger, &phoneset);
     let merged = report.outcomes.iter().filter(|o| o.changes_lexicon()).count();
     let mut run = ApplyRun { report, status: ApplyStatus::DryRun, merged, reopened: 0, warnings };
     if run.report.has_conflicts() && !options.skip_conflicts {

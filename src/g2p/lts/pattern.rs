@@ -2,10 +2,12 @@
 //! matching it against the letters around a rule's graphemes.
 //!
 //! A context is a sequence of elements written without separators (spaces are ignored):
-//! a lower-case letter (or any character that is not an ASCII upper-case letter or one of
-//! `# * + _`) stands for itself, an ASCII upper-case letter names a letter class declared in the
-//! rule file, `#` is the word boundary, and `*` / `+` after a letter or class mean "zero or more"
-//! / "one or more". This module knows nothing about phones or rule files.
+//! a letter of the rule file's alphabet stands for itself, an ASCII upper-case letter names a
+//! letter class declared in the rule file, `#` is the word boundary (only at the outer end: first
+//! in a left context, last in a right one), and `*` / `+` after a letter or class mean "zero or
+//! more" / "one or more". Anything else (a second `_`, punctuation, a letter outside the alphabet)
+//! is refused, since it could never match a word. This module knows nothing about phones or rule
+//! files.
 
 use std::collections::BTreeMap;
 
@@ -34,21 +36,46 @@ pub(crate) struct LetterContext {
     items: Vec<(Element, Repeat)>,
 }
 
+/// Which side of the `_` a context stands on.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub(crate) enum Side {
+    Left,
+    Right,
+}
+
 /// Why a context could not be parsed; the byte column (0-based, within the context text) is given.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub(crate) enum PatternError {
     UnknownClass { name: char, column: usize },
     DanglingRepeat { column: usize },
     RepeatedBoundary { column: usize },
+    /// A `#` that is not at the outer end of its context (`##`, `a # b`, `_ # a`).
+    MisplacedBoundary { column: usize },
+    /// A second `_` (the first one splits left from right).
+    SecondPlaceholder { column: usize },
+    /// A character that is neither a letter of the alphabet nor pattern notation.
+    NotALetter { letter: char, column: usize },
 }
 
 impl LetterContext {
-    /// Parses `text` using the declared letter classes.
-    pub(crate) fn parse(text: &str, classes: &BTreeMap<char, Vec<char>>) -> Result<LetterContext, PatternError> {
+    /// Parses `text`, the context on `side` of the `_`, using the declared letter classes and
+    /// the file's alphabet.
+    pub(crate) fn parse(
+        text: &str,
+        side: Side,
+        classes: &BTreeMap<char, Vec<char>>,
+        alphabet: &[char],
+    ) -> Result<LetterContext, PatternError> {
         let mut items: Vec<(Element, Repeat)> = Vec::new();
         for (column, c) in text.char_indices() {
+            let after_right_edge = side == Side::Right && items.last().is_some_and(|(e, _)| *e == Element::Boundary);
+            if after_right_edge && !c.is_whitespace() && !matches!(c, '*' | '+') {
+                return Err(PatternError::MisplacedBoundary { column });
+            }
             match c {
                 c if c.is_whitespace() => {}
+                '_' => return Err(PatternError::SecondPlaceholder { column }),
+                '#' if side == Side::Left && !items.is_empty() => return Err(PatternError::MisplacedBoundary { column }),
                 '*' | '+' => {
                     let repeat = if c == '*' { Repeat::ZeroOrMore } else { Repeat::OneOrMore };
                     match items.last_mut() {
@@ -62,7 +89,8 @@ impl LetterContext {
                     Some(members) => items.push((Element::Class(members.clone()), Repeat::Once)),
                     None => return Err(PatternError::UnknownClass { name: c, column }),
                 },
-                c => items.push((Element::Letter(c), Repeat::Once)),
+                c if alphabet.contains(&c) => items.push((Element::Letter(c), Repeat::Once)),
+                letter => return Err(PatternError::NotALetter { letter, column }),
             }
         }
         Ok(LetterContext { items })
@@ -159,9 +187,19 @@ mod tests {
         s.chars().collect()
     }
 
+    const ALPHABET: &[char] = &['a', 'b', 'e', 'k', 'm', 'r', 's', 't', 'i', 'o'];
+
+    fn parse_right(text: &str) -> Result<LetterContext, PatternError> {
+        LetterContext::parse(text, Side::Right, &classes(), ALPHABET)
+    }
+
+    fn parse_left(text: &str) -> Result<LetterContext, PatternError> {
+        LetterContext::parse(text, Side::Left, &classes(), ALPHABET)
+    }
+
     #[test]
     fn right_context_with_class_and_boundary() {
-        let ctx = LetterContext::parse("C e #", &classes()).unwrap();
+        let ctx = parse_right("C e #").unwrap();
         // "make": after 'a' (index 1) comes "ke" and the end.
         assert!(ctx.matches_right(&word("make"), 2));
         assert!(!ctx.matches_right(&word("makes"), 2));
@@ -169,32 +207,42 @@ mod tests {
 
     #[test]
     fn left_context_reads_backwards() {
-        let ctx = LetterContext::parse("# C", &classes()).unwrap();
+        let ctx = parse_left("# C").unwrap();
         assert!(ctx.matches_left(&word("ba"), 1));
         assert!(!ctx.matches_left(&word("aba"), 2));
-        let boundary = LetterContext::parse("#", &classes()).unwrap();
+        let boundary = parse_left("#").unwrap();
         assert!(boundary.matches_left(&word("ab"), 0));
         assert!(!boundary.matches_left(&word("ab"), 1));
     }
 
     #[test]
     fn repeats_backtrack() {
-        let ctx = LetterContext::parse("C* e #", &classes()).unwrap();
+        let ctx = parse_right("C* e #").unwrap();
         assert!(ctx.matches_right(&word("ae"), 1));
         assert!(ctx.matches_right(&word("arte"), 1));
         assert!(!ctx.matches_right(&word("arta"), 1));
-        let plus = LetterContext::parse("V+ #", &classes()).unwrap();
+        let plus = parse_right("V+ #").unwrap();
         assert!(!plus.matches_right(&word("b"), 1));
         assert!(plus.matches_right(&word("bio"), 1));
-        let left = LetterContext::parse("# C+", &classes()).unwrap();
+        let left = parse_left("# C+").unwrap();
         assert!(left.matches_left(&word("stra"), 3));
         assert!(!left.matches_left(&word("astra"), 4));
     }
 
     #[test]
     fn errors_name_the_column() {
-        assert_eq!(LetterContext::parse("a Q", &classes()), Err(PatternError::UnknownClass { name: 'Q', column: 2 }));
-        assert_eq!(LetterContext::parse("*a", &classes()), Err(PatternError::DanglingRepeat { column: 0 }));
-        assert_eq!(LetterContext::parse("#+", &classes()), Err(PatternError::RepeatedBoundary { column: 1 }));
+        assert_eq!(parse_right("a Q"), Err(PatternError::UnknownClass { name: 'Q', column: 2 }));
+        assert_eq!(parse_right("*a"), Err(PatternError::DanglingRepeat { column: 0 }));
+        assert_eq!(parse_right("#+"), Err(PatternError::RepeatedBoundary { column: 1 }));
+    }
+
+    #[test]
+    fn boundaries_only_at_the_outer_end_and_one_placeholder() {
+        assert_eq!(parse_right("##"), Err(PatternError::MisplacedBoundary { column: 1 }));
+        assert_eq!(parse_right(" # a"), Err(PatternError::MisplacedBoundary { column: 3 }));
+        assert_eq!(parse_left("a #"), Err(PatternError::MisplacedBoundary { column: 2 }));
+        assert_eq!(parse_right(" _ #"), Err(PatternError::SecondPlaceholder { column: 1 }));
+        assert_eq!(parse_right("e [s #"), Err(PatternError::NotALetter { letter: '[', column: 2 }));
+        assert!(parse_left("# C").is_ok() && parse_right("C e #").is_ok());
     }
 }

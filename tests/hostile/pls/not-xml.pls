@@ -1,0 +1,2 @@
+word,pronunciation
+quay,K IY1

@@ -1,0 +1,1 @@
+<words><w>quay</w></words>
