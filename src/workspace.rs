@@ -27,17 +27,19 @@ use crate::variants::{Profile, VariantsError};
 /// How many candidates the review queue keeps per word.
 pub const CANDIDATES_PER_WORD: usize = 5;
 
-/// Errors opening a project's files.
+/// Errors opening a project's files. Each names what could not be loaded; the reason (with the
+/// file, line and column) is its [`source`](std::error::Error::source), which the command line
+/// prints after it.
 #[derive(Debug, thiserror::Error)]
 pub enum WorkspaceError {
     /// The lexicon store could not be loaded.
-    #[error("cannot load the lexicon: {0}")]
+    #[error("cannot load the lexicon")]
     Lexicon(#[from] LexiconError),
     /// The phoneset could not be loaded.
-    #[error("cannot load the phoneset: {0}")]
+    #[error("cannot load the phoneset")]
     Phoneset(#[from] PhonesetError),
     /// The language configuration could not be loaded.
-    #[error("cannot load the guesser's language configuration: {0}")]
+    #[error("cannot load the guesser's language configuration")]
     Language(#[from] ConfigError),
     /// No language configuration fits the project's phoneset.
     #[error(
@@ -51,7 +53,7 @@ pub enum WorkspaceError {
         shipped: String,
     },
     /// The letter-to-sound rules could not be loaded.
-    #[error("cannot load the letter-to-sound rules: {0}")]
+    #[error("cannot load the letter-to-sound rules")]
     Rules(#[from] LtsError),
     /// The model file named in orthoepy.toml does not exist.
     #[error(
@@ -63,7 +65,7 @@ pub enum WorkspaceError {
         path: std::path::PathBuf,
     },
     /// The model file could not be loaded.
-    #[error("cannot load the model: {0}")]
+    #[error("cannot load the model")]
     Model(#[from] ModelFileError),
     /// An accent profile or rule set could not be loaded.
     #[error("cannot load the accent profile `{name}`: {error}")]
@@ -109,8 +111,8 @@ impl Workspace {
 
     /// Opens the project with another model file (or none) instead of the one it names.
     pub fn open_with_model(project: Project, model: Option<&Path>) -> Result<Workspace, WorkspaceError> {
-        let store = IndexedStore::open(&project.lexicon, project.headword_policy())?;
-        let cache = store.state().clone();
+        // The small files first: one that fails to load stops the command before the store is
+        // opened, so a refused project leaves even its index cache as it was.
         let phoneset = Phoneset::resolve(&project.phoneset, &project.root)?;
         let language_id = match project.letter_to_sound.as_deref() {
             Some(id) if LetterToSoundRules::is_shipped(id) => id.to_string(),
@@ -132,6 +134,8 @@ impl Workspace {
             Some(path) => Some(Model::load(path)?),
             None => None,
         };
+        let store = IndexedStore::open(&project.lexicon, project.headword_policy())?;
+        let cache = store.state().clone();
         let (lexicon, index) = store.into_parts()?;
         let (lexicon, index) = (Arc::new(lexicon), Arc::new(index));
         Ok(Workspace { project, lexicon, index, cache, phoneset, language, rules, model })

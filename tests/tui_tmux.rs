@@ -8,6 +8,7 @@ mod common;
 use common::tmux::{have_tmux, Session};
 use std::path::Path;
 use std::process::Command;
+use std::time::{Duration, Instant};
 
 fn bin() -> &'static str {
     env!("CARGO_BIN_EXE_orthoepy")

@@ -372,7 +372,7 @@ fn a_lexicon_entry_edited_from_the_search_is_merged_by_apply() {
     let (records, _) = Journal::read(j.path()).unwrap();
     let ledger = Ledger::replay(&records);
     let mut lexicon = lexicon();
-    let report = apply_decisions(&mut lexicon, &Queue::new(), &ledger);
+    let report = apply_decisions(&mut lexicon, &Queue::new(), &ledger, &common::arpa());
     assert!(matches!(&report.outcomes[0], Outcome::Replaced { old, new, .. } if old == "K IY1" && new == "K IY2"));
     assert!(matches!(&report.outcomes[1], Outcome::Deprecated { word, .. } if word == "side"));
     assert!(matches!(&report.outcomes[2], Outcome::Added { pronunciation, .. } if pronunciation == "P OW1 R T"));
@@ -381,6 +381,6 @@ fn a_lexicon_entry_edited_from_the_search_is_merged_by_apply() {
     assert!(side.note.starts_with("reviewed"), "{}", side.note);
     // The same conflict rule as any decision: applying to a lexicon whose entry changed meanwhile.
     let mut changed = orthoepy::lexicon::Lexicon::from_entries(vec![orthoepy::lexicon::Entry::new("key", "K EY1")], Default::default());
-    let again = apply_decisions(&mut changed, &Queue::new(), &ledger);
+    let again = apply_decisions(&mut changed, &Queue::new(), &ledger, &common::arpa());
     assert!(matches!(&again.outcomes[0], Outcome::Conflict { seq: 1, .. }), "{:?}", again.outcomes);
 }

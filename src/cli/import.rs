@@ -62,6 +62,25 @@ fn project_of(output: &Path) -> Option<Project> {
     (absolute(&project.lexicon)? == target).then_some(project)
 }
 
+/// Reads `file` in `layout`: the entries, and one message per item that could not be read.
+pub fn read_layout(
+    layout: ImportLayout,
+    file: &Path,
+    phoneset: &orthoepy::phoneset::Phoneset,
+    source: &str,
+) -> anyhow::Result<(Vec<orthoepy::lexicon::Entry>, Vec<String>)> {
+    Ok(match layout {
+        ImportLayout::Plain => {
+            let import = read_plain_file(file, source)?;
+            (import.entries, import.rejected.iter().map(ToString::to_string).collect())
+        }
+        ImportLayout::Pls => {
+            let import = orthoepy::pls::read_pls_file(file, phoneset, source)?;
+            (import.entries, import.rejected.iter().map(ToString::to_string).collect())
+        }
+    })
+}
+
 pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     // Into a project's lexicon under its lock (which cleans up after a killed save); elsewhere
     // the leftovers of a killed import into the same file are removed here.
@@ -74,16 +93,7 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
         args.file.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_default()
     });
     let phoneset = super::resolve_phoneset(Some(&args.phoneset), None)?;
-    let (entries, rejected) = match args.layout {
-        ImportLayout::Plain => {
-            let import = read_plain_file(&args.file, &source)?;
-            (import.entries, import.rejected.iter().map(ToString::to_string).collect::<Vec<String>>())
-        }
-        ImportLayout::Pls => {
-            let import = orthoepy::pls::read_pls_file(&args.file, &phoneset, &source)?;
-            (import.entries, import.rejected.iter().map(ToString::to_string).collect())
-        }
-    };
+    let (entries, rejected) = read_layout(args.layout, &args.file, &phoneset, &source)?;
     for bad in &rejected {
         eprintln!("{bad}");
     }

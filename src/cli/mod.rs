@@ -7,6 +7,7 @@
 
 pub mod apply;
 pub mod audit;
+pub mod completions;
 pub mod convert;
 pub mod demo;
 pub mod diff;
@@ -15,6 +16,7 @@ pub mod export;
 pub mod find;
 pub mod guess;
 pub mod import;
+pub mod init;
 pub mod journal;
 pub mod queue;
 pub mod review;

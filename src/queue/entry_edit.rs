@@ -117,7 +117,7 @@ mod tests {
         ledger.record(2, &decide("Tomato", "T AH0 M AA1 T OW2", add));
         ledger.record(3, &decide("harbour", "HH AA1 R B ER0", Action::DeprecateEntry { pronunciation: "HH AA1 R B ER0".into() }));
         let mut lex = lexicon();
-        let report = apply_decisions(&mut lex, &Queue::new(), &ledger);
+        let report = apply_decisions(&mut lex, &Queue::new(), &ledger, &crate::phoneset::Phoneset::shipped("en-arpa").unwrap());
         assert!(!report.has_conflicts(), "{:?}", report.outcomes);
         assert!(matches!(&report.outcomes[0], Outcome::Replaced { new, .. } if new == "K EY1"));
         assert!(matches!(&report.outcomes[1], Outcome::Added { .. }));
@@ -137,7 +137,7 @@ mod tests {
         ledger.record(3, &decide("quay", "K IY1", Action::AddVariant { pronunciation: "K IY1".into() }));
         ledger.record(4, &decide("port", "P AO1 R T", Action::DeprecateEntry { pronunciation: "P AO1 R T".into() }));
         let mut lex = lexicon();
-        let report = apply_decisions(&mut lex, &Queue::new(), &ledger);
+        let report = apply_decisions(&mut lex, &Queue::new(), &ledger, &crate::phoneset::Phoneset::shipped("en-arpa").unwrap());
         assert_eq!(report.conflicts(), vec![1, 2, 4]);
         assert!(matches!(&report.outcomes[2], Outcome::Unchanged { .. }));
         assert!(!report.changed());
