@@ -207,7 +207,7 @@ pub fn score(words: &[Scored]) -> Evaluation {
         eval.unstressed.add(&bare(&w.hypothesis), &bare_refs);
         let letters = w.word.nfc().count().min(LENGTH_BUCKETS);
         lengths.entry(letters).or_default().add(&w.hypothesis, &w.references);
-        if !w.references.iter().any(|r| *r == w.hypothesis) {
+        if !w.references.contains(&w.hypothesis) {
             eval.errors.push(WordError {
                 word: w.word.clone(),
                 hypothesis: w.hypothesis.join(" "),

@@ -216,7 +216,9 @@ pub fn read_pls(bytes: &[u8], origin: &str, set: &Phoneset, source: &str) -> Res
     let mut root_closed = false;
     let mut lexeme_at = 0usize;
     let mut stack: Vec<String> = Vec::new();
-    let (mut graphemes, mut phonemes): (Vec<(String, usize)>, Vec<(String, usize)>) = (Vec::new(), Vec::new());
+    // Text of each <grapheme> / <phoneme> of the open lexeme, with the line it starts on.
+    let mut graphemes: Vec<(String, usize)> = Vec::new();
+    let mut phonemes: Vec<(String, usize)> = Vec::new();
     let mut buf = Vec::new();
     // Line numbers are counted incrementally: (offset, line) of the last position asked for.
     let mut counted = (0usize, 1usize);

@@ -69,7 +69,7 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
         }
         anyhow::bail!("{} entries are not of phoneset {}; fix them (orthoepy audit) or pass --from; nothing written", done.unreadable.len(), from.id());
     }
-    let mut out = Lexicon::from_entries(done.entries, lexicon.policy().clone());
+    let mut out = Lexicon::from_entries(done.entries, *lexicon.policy());
     out.save_as(&args.output).with_context(|| format!("cannot write {}", args.output.display()))?;
     match args.format {
         DataFormat::Json => super::print_json(&done.report)?,

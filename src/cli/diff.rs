@@ -32,8 +32,8 @@ pub struct Args {
 
 pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     let policy = args.project.find()?.as_ref().map(orthoepy::project::Project::headword_policy).unwrap_or_default();
-    let old = Lexicon::load(&args.old, policy.clone()).with_context(|| "cannot load the old lexicon".to_string())?;
-    let new = Lexicon::load(&args.new, policy.clone()).with_context(|| "cannot load the new lexicon".to_string())?;
+    let old = Lexicon::load(&args.old, policy).with_context(|| "cannot load the old lexicon".to_string())?;
+    let new = Lexicon::load(&args.new, policy).with_context(|| "cannot load the new lexicon".to_string())?;
     let diff = diff_entries(old.entries(), new.entries(), &policy);
     match args.format {
         DataFormat::Json => super::print_json(&diff)?,
