@@ -306,3 +306,17 @@ fn a_decided_item_shows_its_decision() {
     // The note (reviewer and time) may wrap onto the next line.
     assert!(has_in_order(&screen, "reviewed by tester on 2025-12-02 13:40:00 UTC"), "{screen}");
 }
+
+#[test]
+fn progress_counts_follow_each_decision() {
+    // The count is memoised between decisions; a decision must show in the next frame.
+    let dir = tempfile::tempdir().unwrap();
+    let (mut j, _) = Journal::open(&dir.path().join("j.jsonl")).unwrap();
+    let mut app = app();
+    let l = lookups();
+    orthoepy::tui::dispatch(&mut app, Event::Resize(80, 24), &l, &mut j);
+    assert!(text(&render(&app, 80, 24, false)).contains("0/3 done"));
+    orthoepy::tui::dispatch(&mut app, Event::Key(Key::Enter), &l, &mut j);
+    let screen = text(&render(&app, 80, 24, false));
+    assert!(screen.contains("1/3 done"), "{screen}");
+}

@@ -74,7 +74,7 @@ pub fn open_review(project: Project, reviewer: Option<String>) -> anyhow::Result
     let guessed = app.keys.iter().map(String::as_str).zip(app.items.iter().map(|i| i.candidates.as_slice()));
     save_guessed(&project.queue, guessed).context("cannot save guessed candidates to the queue")?;
     drop(lock);
-    let pending = app.ledger.unapplied().len();
+    let pending = app.ledger().unapplied().len();
     println!(
         "{pending} decision(s) in {} waiting to be merged; run `orthoepy apply --project {}`",
         project.journal.display(),

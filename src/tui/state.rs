@@ -4,6 +4,7 @@
 //! Plain data plus read-only questions about it ("which items are visible?", "how far along are
 //! we?"). Changing it is `update`'s job; drawing it is the view's.
 
+use std::cell::OnceCell;
 use std::collections::{BTreeMap, HashMap};
 use std::sync::Arc;
 
@@ -11,7 +12,7 @@ use super::editor::Editor;
 use super::filter::Filter;
 use crate::queue::ItemState;
 use super::phones::PhoneCheck;
-use crate::queue::{Candidate, Decision, Item, Ledger, Threshold};
+use crate::queue::{Candidate, Decision, Item, Ledger, Record, Threshold};
 use crate::variants::FeatureView;
 
 /// A word with one of its pronunciations, as shown in the neighbour and search panels.
@@ -191,6 +192,17 @@ pub enum SaveState {
     Failed(String),
 }
 
+/// How far the review is: see [`App::progress`].
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Progress {
+    /// Items decided, set aside or applied.
+    pub done: usize,
+    /// All items.
+    pub total: usize,
+    /// (done, total) per item origin (the file or profile an item came from, else its kind).
+    pub by_origin: BTreeMap<String, (usize, usize)>,
+}
+
 /// The whole screen state.
 pub struct App {
     /// Title (project folder or lexicon name).
@@ -199,8 +211,12 @@ pub struct App {
     pub items: Vec<Item>,
     /// `items[i].key()`, computed once.
     pub keys: Vec<String>,
-    /// Decisions in force (replayed from the journal, then kept up to date).
-    pub ledger: Ledger,
+    /// Decisions in force (replayed from the journal, then kept up to date through
+    /// [`App::record`], which also drops the memoised [`App::progress`]).
+    ledger: Ledger,
+    /// [`App::progress`], computed at most once between two decisions (a frame asks for it
+    /// twice, and at 50,000 items a count costs milliseconds).
+    progress_memo: OnceCell<Progress>,
     /// Index into `items` of the item on screen.
     pub cursor: usize,
     /// Index of the selected candidate of that item.
@@ -262,6 +278,7 @@ impl App {
             words,
             items,
             ledger,
+            progress_memo: OnceCell::new(),
             cursor: 0,
             selected: 0,
             mode: Mode::Normal,
@@ -362,19 +379,33 @@ impl App {
             .find(|&i| self.visible(i))
     }
 
-    /// Done (decided, set aside or applied) and total per item origin, plus the overall totals.
-    pub fn progress(&self) -> (usize, usize, BTreeMap<String, (usize, usize)>) {
-        let mut by: BTreeMap<&str, (usize, usize)> = BTreeMap::new();
-        let mut done = 0;
-        for (i, item) in self.items.iter().enumerate() {
-            let origin = if item.origin.is_empty() { item.kind.tag() } else { item.origin.as_str() };
-            let slot = by.entry(origin).or_default();
-            slot.1 += 1;
-            if self.state_of(i) != ItemState::Pending {
-                slot.0 += 1;
-                done += 1;
+    /// Decisions in force.
+    pub fn ledger(&self) -> &Ledger {
+        &self.ledger
+    }
+
+    /// Takes journal record `seq` into the ledger (after it was written).
+    pub fn record(&mut self, seq: u64, record: &Record) {
+        self.ledger.record(seq, record);
+        self.progress_memo = OnceCell::new();
+    }
+
+    /// Done (decided, set aside or applied) and total, overall and per item origin.
+    pub fn progress(&self) -> &Progress {
+        self.progress_memo.get_or_init(|| {
+            let mut by: BTreeMap<&str, (usize, usize)> = BTreeMap::new();
+            let mut done = 0;
+            for (i, item) in self.items.iter().enumerate() {
+                let origin = if item.origin.is_empty() { item.kind.tag() } else { item.origin.as_str() };
+                let slot = by.entry(origin).or_default();
+                slot.1 += 1;
+                if self.state_of(i) != ItemState::Pending {
+                    slot.0 += 1;
+                    done += 1;
+                }
             }
-        }
-        (done, self.items.len(), by.into_iter().map(|(origin, counts)| (origin.to_string(), counts)).collect())
+            let by_origin = by.into_iter().map(|(origin, counts)| (origin.to_string(), counts)).collect();
+            Progress { done, total: self.items.len(), by_origin }
+        })
     }
 }

@@ -308,7 +308,7 @@ fn decide(app: &mut App, action: Action, detail: String) -> Vec<Effect> {
         app.message = app.nothing_shown();
         return Vec::new();
     };
-    if app.ledger.is_applied(key) {
+    if app.ledger().is_applied(key) {
         app.message = format!("{} is already merged into the lexicon; search for it (/) to change the entry", item.word);
         return Vec::new();
     }
@@ -328,7 +328,7 @@ fn decide_on(app: &mut App, key: String, word: String, action: Action, detail: S
     let reviewer = if app.now == 0 { who } else { format!("{who} on {}", crate::support::clock::utc(app.now)) };
     let note = [reviewer, detail, typed].into_iter().filter(|part| !part.is_empty()).collect::<Vec<_>>().join("; ");
     let decision = Decision { item: key, word, action, note };
-    let question = match app.ledger.current(&decision.item) {
+    let question = match app.ledger().current(&decision.item) {
         Some((_, old)) if old.action == decision.action => {
             app.message = format!("{} is already {}", decision.word, describe(&decision.action));
             return Vec::new();
@@ -453,7 +453,7 @@ fn confirm_batch_key(app: &mut App, confirm: BatchConfirm, key: Key) -> Vec<Effe
 fn on_journaled_batch(app: &mut App, first: u64, records: Vec<Record>) -> Vec<Effect> {
     let count = records.len() as u64;
     for (seq, record) in (first..).zip(&records) {
-        app.ledger.record(seq, record);
+        app.record(seq, record);
         app.undo.push(seq);
     }
     app.redo.clear();
@@ -476,11 +476,11 @@ fn undo(app: &mut App) -> Vec<Effect> {
         app.message = "nothing to undo".into();
         return Vec::new();
     };
-    if seq <= app.ledger.applied_through() {
+    if seq <= app.ledger().applied_through() {
         app.message = "that decision is already merged into the lexicon; it cannot be undone here".into();
         return Vec::new();
     }
-    let decision = app.ledger.in_force(seq).cloned();
+    let decision = app.ledger().in_force(seq).cloned();
     app.undo.pop();
     match decision {
         Some(d) => {
@@ -513,7 +513,7 @@ fn redo(app: &mut App) -> Vec<Effect> {
 }
 
 fn on_journaled(app: &mut App, seq: u64, record: Record) -> Vec<Effect> {
-    app.ledger.record(seq, &record);
+    app.record(seq, &record);
     app.save = SaveState::Saved(seq);
     match (app.pending.take(), &record) {
         (Some(PendingWrite::Decide { redo }), Record::Decide(d)) => {

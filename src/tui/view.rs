@@ -137,7 +137,7 @@ pub fn draw(frame: &mut Frame, app: &App, color: bool) {
 }
 
 fn draw_top(frame: &mut Frame, app: &App, t: Theme, area: Rect) {
-    let (done, total, _) = app.progress();
+    let (done, total) = (app.progress().done, app.progress().total);
     let save = match &app.save {
         SaveState::Saved(0) => Span::styled("nothing decided yet", t.dim()),
         SaveState::Saved(seq) => Span::styled(format!("saved ✓ #{seq}"), t.good()),
@@ -195,7 +195,7 @@ fn word_panel(app: &App, t: Theme, w: usize) -> Vec<Line<'static>> {
         Span::styled(note, t.fg(Color::Yellow)),
     ];
     let mut lines = vec![fit_line(head, w)];
-    if let Some((seq, d)) = app.current_key().and_then(|k| app.ledger.current(k)) {
+    if let Some((seq, d)) = app.current_key().and_then(|k| app.ledger().current(k)) {
         let text = format!("decision #{seq}: {} — {}", describe_shown(app, &d.action), if d.note.is_empty() { "no note" } else { &d.note });
         lines.extend(wrap_text(&text, w, 2, t.warn()));
     }
@@ -596,7 +596,7 @@ fn draw_status(frame: &mut Frame, app: &App, t: Theme, area: Rect) {
     } else {
         Span::styled(format!("✓ valid in {} ({} phones)", app.phones.name(), verdicts.len()), t.good())
     };
-    let (_, _, by) = app.progress();
+    let by = &app.progress().by_origin;
     // "words:new-words.txt" is shown as "new-words" to keep the line short.
     let short = |k: &str| {
         let name = k.rsplit(':').next().unwrap_or(k);
@@ -734,7 +734,7 @@ fn draw_entry(frame: &mut Frame, app: &App, t: Theme, area: Rect, entry: &WordPr
         Span::styled(entry.word.clone(), t.word()),
         Span::raw(format!("  /{}/", app.shown_pronunciation(&entry.pronunciation))),
     ])];
-    if let Some((seq, d)) = app.ledger.current(&entry_key(&entry.word, &entry.pronunciation)) {
+    if let Some((seq, d)) = app.ledger().current(&entry_key(&entry.word, &entry.pronunciation)) {
         lines.extend(wrap_text(&format!("decision #{seq}: {} — {}", describe_shown(app, &d.action), d.note), 58, 3, t.warn()));
     }
     lines.push(Line::from(Span::styled("c: change it   v: add a variant   d: deprecate it   Esc: close", t.dim())));
