@@ -1,22 +1,24 @@
 //! Driving the real binary inside tmux: a detached session per run, `send-keys` to type,
 //! `capture-pane` to read the screen. Used by the terminal end-to-end test and the crash trials
-//! of the review screen; callers skip (with a message) when [`have_tmux`] is false. Each test
-//! process talks to its own tmux server (`tmux -L orthoepy-test-PID`), so tests never touch a
-//! person's sessions or each other's.
+//! of the review screen; callers skip (with a message) when [`have_tmux`] is false. Each session
+//! runs on its own tmux server (`tmux -L orthoepy-test-PID-NAME`), so tests never touch a
+//! person's sessions or each other's: with one server per test process, a session whose command
+//! exited shut the server down while a test running beside it was starting its own session
+//! ("server exited unexpectedly").
 
 use std::process::Command;
 use std::time::{Duration, Instant};
 
-/// `tmux` on this test process's own server.
-fn tmux() -> Command {
+/// `tmux` on the server of the session called `name`, private to this test process.
+fn tmux(name: &str) -> Command {
     let mut command = Command::new("tmux");
-    command.args(["-L", &format!("orthoepy-test-{}", std::process::id())]);
+    command.args(["-L", &format!("orthoepy-test-{}-{name}", std::process::id())]);
     command
 }
 
 /// Whether tmux is installed.
 pub fn have_tmux() -> bool {
-    tmux().arg("-V").output().is_ok_and(|o| o.status.success())
+    Command::new("tmux").arg("-V").output().is_ok_and(|o| o.status.success())
 }
 
 /// A detached tmux session running one command; killed when dropped.
@@ -25,7 +27,7 @@ pub struct Session(String);
 impl Session {
     /// Starts `command` in a new 100×30 session called `name`.
     pub fn start(name: &str, command: &str) -> Session {
-        let ok = tmux()
+        let ok = tmux(name)
             .args(["new-session", "-d", "-s", name, "-x", "100", "-y", "30", command])
             .env("NO_COLOR", "1")
             .status()
@@ -37,7 +39,7 @@ impl Session {
 
     /// The visible screen now.
     pub fn screen(&self) -> String {
-        let out = tmux().args(["capture-pane", "-p", "-t", &self.0]).output().unwrap();
+        let out = tmux(&self.0).args(["capture-pane", "-p", "-t", &self.0]).output().unwrap();
         String::from_utf8_lossy(&out.stdout).into_owned()
     }
 
@@ -57,7 +59,7 @@ impl Session {
     /// Sends tmux key names, one at a time.
     pub fn keys(&self, keys: &[&str]) {
         for k in keys {
-            let ok = tmux().args(["send-keys", "-t", &self.0, k]).status().unwrap().success();
+            let ok = tmux(&self.0).args(["send-keys", "-t", &self.0, k]).status().unwrap().success();
             assert!(ok);
             std::thread::sleep(Duration::from_millis(60));
         }
@@ -65,14 +67,14 @@ impl Session {
 
     /// Types `text` literally.
     pub fn literal(&self, text: &str) {
-        let ok = tmux().args(["send-keys", "-l", "-t", &self.0, text]).status().unwrap().success();
+        let ok = tmux(&self.0).args(["send-keys", "-l", "-t", &self.0, text]).status().unwrap().success();
         assert!(ok);
         std::thread::sleep(Duration::from_millis(60));
     }
 
     /// The process id of the command in the pane.
     pub fn pid(&self) -> String {
-        let out = tmux().args(["display-message", "-p", "-t", &self.0, "#{pane_pid}"]).output().unwrap();
+        let out = tmux(&self.0).args(["display-message", "-p", "-t", &self.0, "#{pane_pid}"]).output().unwrap();
         String::from_utf8_lossy(&out.stdout).trim().to_string()
     }
 }
@@ -80,6 +82,6 @@ impl Session {
 impl Drop for Session {
     fn drop(&mut self) {
         // The server is gone already when the session's command was killed; that is fine.
-        let _ = tmux().args(["kill-session", "-t", &self.0]).stderr(std::process::Stdio::null()).status();
+        let _ = tmux(&self.0).args(["kill-session", "-t", &self.0]).stderr(std::process::Stdio::null()).status();
     }
 }
