@@ -384,3 +384,52 @@ fn a_lexicon_entry_edited_from_the_search_is_merged_by_apply() {
     let again = apply_decisions(&mut changed, &Queue::new(), &ledger, &common::arpa());
     assert!(matches!(&again.outcomes[0], Outcome::Conflict { seq: 1, .. }), "{:?}", again.outcomes);
 }
+
+#[test]
+fn batch_accept_asks_with_count_and_expected_wrong_then_journals_each_item() {
+    let (_d, mut j) = journal();
+    let l = lookups();
+    let mut app = app();
+    // Best scores in the sample queue: Kelport 0.62, quayside 0.8, harbour (variant) 0.54.
+    press(&mut app, &[Key::Char('A')], &l, &mut j);
+    press(&mut app, &type_text("0.6"), &l, &mut j);
+    press(&mut app, &[Key::Enter], &l, &mut j);
+    let Mode::ConfirmBatch(confirm) = &app.mode else { panic!("{:?}", app.mode) };
+    // Expected wrong = Σ (1 − p) = 0.38 + 0.20 = 0.58, shown to one decimal.
+    assert!(confirm.question.starts_with("accept 2 shown pending item(s)"), "{}", confirm.question);
+    assert!(confirm.question.contains("expected wrong: 0.6"), "{}", confirm.question);
+    assert!(j.records().is_empty(), "nothing is written before the confirmation");
+    press(&mut app, &[Key::Char('y')], &l, &mut j);
+    assert_eq!(j.records().len(), 2, "one journal record per item");
+    assert_eq!(app.state_of(0), ItemState::Decided);
+    assert_eq!(app.state_of(1), ItemState::Decided);
+    assert_eq!(app.state_of(2), ItemState::Pending, "0.54 is below the threshold");
+    // Undo works on batch decisions one at a time, like single ones.
+    press(&mut app, &[Key::Char('u')], &l, &mut j);
+    assert_eq!(j.records().len(), 3, "the undo is journaled too");
+    let decided = (0..3).filter(|&i| app.state_of(i) == ItemState::Decided).count();
+    assert_eq!(decided, 1);
+    assert_eq!(Ledger::replay(j.records()).unapplied().len(), 1);
+}
+
+#[test]
+fn batch_reject_acts_only_on_the_items_the_filter_shows_and_can_be_declined() {
+    let (_d, mut j) = journal();
+    let l = lookups();
+    let mut app = app();
+    set_filter(&mut app, "kind=new", &l, &mut j);
+    // Below 0.7 among the shown (new-word) items: Kelport only; harbour (0.54) is a variant.
+    press(&mut app, &[Key::Char('X')], &l, &mut j);
+    press(&mut app, &type_text("0.7"), &l, &mut j);
+    press(&mut app, &[Key::Enter], &l, &mut j);
+    let Mode::ConfirmBatch(confirm) = &app.mode else { panic!("{:?}", app.mode) };
+    assert!(confirm.question.starts_with("reject 1 shown pending item(s)"), "{}", confirm.question);
+    press(&mut app, &[Key::Char('n')], &l, &mut j);
+    assert_eq!(app.mode, Mode::Normal);
+    assert!(j.records().is_empty(), "declined: nothing decided");
+    // A threshold that is not a probability is refused on the line itself.
+    press(&mut app, &[Key::Char('X')], &l, &mut j);
+    press(&mut app, &type_text("1.5"), &l, &mut j);
+    press(&mut app, &[Key::Enter], &l, &mut j);
+    assert!(matches!(&app.mode, Mode::Threshold(_, _, Some(why)) if why.contains("from 0 to 1")), "{:?}", app.mode);
+}
