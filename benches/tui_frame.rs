@@ -10,7 +10,7 @@ mod bench_util;
 use orthoepy::lexicon::{Entry, HeadwordPolicy, Lexicon};
 use orthoepy::phoneset::Phoneset;
 use orthoepy::queue::{Candidate, Item, Journal, Ledger};
-use orthoepy::tui::{dispatch, draw, App, Event, Key, Lookups, PhonesetCheck};
+use orthoepy::tui::{dispatch, draw, App, Event, Key, Lookups, PhoneCheck, PhonesetCheck};
 use ratatui::backend::TestBackend;
 use ratatui::Terminal;
 use std::sync::Arc;
@@ -46,11 +46,14 @@ fn main() {
     let queues: Vec<(usize, Vec<Item>)> = [10_000, 50_000].iter().map(|&n| (n, queue(&entries, n))).collect();
     let set = Phoneset::shipped("en-arpa").expect("en-arpa");
     let start = std::time::Instant::now();
-    let phones = Arc::new(PhonesetCheck::with_project(set.clone(), Default::default(), &entries));
-    let lexicon = Lexicon::from_entries(entries, HeadwordPolicy { fold_case: true });
-    let lookups = Lookups::new(lexicon, Some(set));
+    let lexicon = Arc::new(Lexicon::from_entries(entries, HeadwordPolicy { fold_case: true }));
+    let phones = Arc::new(PhonesetCheck::with_project(set.clone(), Default::default(), Some(lexicon.clone())));
+    let lookups = Lookups::shared(lexicon.clone(), Arc::new(lexicon.index()), Some(set));
     let build_ms = start.elapsed().as_secs_f64() * 1000.0;
-    println!("lexicon entries: {n_entries}; index + suffix table + IPA onsets build: {build_ms:.0} ms");
+    println!("lexicon entries: {n_entries}; index + suffix table build: {build_ms:.0} ms");
+    let onsets = std::time::Instant::now();
+    phones.ipa("K IY1");
+    println!("IPA onsets from every entry (on the first IPA rendering): {:.0} ms", onsets.elapsed().as_secs_f64() * 1000.0);
     for (n, items) in queues {
         let dir = tempfile::tempdir().expect("temp dir");
         let (mut journal, _) = Journal::open(&dir.path().join("journal.jsonl")).expect("journal");

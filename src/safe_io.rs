@@ -123,6 +123,31 @@ pub fn atomic_write(path: &Path, bytes: &[u8], keep_backup: bool) -> io::Result<
     }
 }
 
+/// Replaces `path` with `bytes` through a temporary file and a rename, without syncing: for
+/// derived files that carry their own integrity check and can be rebuilt from the data they
+/// derive from (the index cache beside a store, checked by CRC-32 on every open). A crash may
+/// leave such a file torn or empty; the next reader detects it and rebuilds, so the two
+/// fsyncs of [`atomic_write`] (about 12 ms for a 12 MB cache here) would buy nothing. Never
+/// use it for a user's data.
+///
+/// ```
+/// let dir = tempfile::tempdir().unwrap();
+/// let path = dir.path().join("derived.bin");
+/// orthoepy::safe_io::replace_derived(&path, b"v1").unwrap();
+/// orthoepy::safe_io::replace_derived(&path, b"v2").unwrap();
+/// assert_eq!(std::fs::read(&path).unwrap(), b"v2");
+/// assert_eq!(std::fs::read_dir(dir.path()).unwrap().count(), 1, "no temporary file left");
+/// ```
+pub fn replace_derived(path: &Path, bytes: &[u8]) -> io::Result<()> {
+    let _step = hold_writes();
+    let temp = temp_path(path, std::process::id());
+    let result = fs::write(&temp, bytes).and_then(|()| fs::rename(&temp, path));
+    if result.is_err() {
+        let _ = fs::remove_file(&temp);
+    }
+    result
+}
+
 /// Replaces `path` with `bytes` only if it still holds what was read, whose [`Fingerprint`] is
 /// `expected`.
 ///

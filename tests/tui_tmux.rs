@@ -134,3 +134,39 @@ fn sigterm_and_sighup_restore_the_terminal_and_keep_the_journal_whole() {
         assert!(!dir.join(".orthoepy.lock").exists(), "SIG{signal}: the lock is released");
     }
 }
+
+/// A terminal that goes away (the window closed: here the tmux session is killed, which closes
+/// the pane's pseudo-terminal) ends the screen as `q` does: the process exits, the lock is
+/// released and the journal keeps the decision. Before this was handled the screen kept running
+/// on a core at 100% for good, since the terminal library's wait retried a dead terminal.
+#[test]
+fn a_terminal_that_hangs_up_ends_the_screen() {
+    if !have_tmux() {
+        eprintln!("SKIPPED a_terminal_that_hangs_up_ends_the_screen: tmux is not installed (apt-get install tmux)");
+        return;
+    }
+    let tmp = tempfile::tempdir().unwrap();
+    let dir = tmp.path().join("coast");
+    let made = Command::new(bin()).args(["demo", "--no-review"]).arg(&dir).output().unwrap();
+    assert!(made.status.success(), "{}", String::from_utf8_lossy(&made.stderr));
+    let s = Session::start(&format!("orthoepy-hangup-{}", std::process::id()), &review_command(&dir));
+    s.wait_for("Kelport");
+    s.keys(&["Enter"]);
+    s.wait_for("saved ✓ #1");
+    let pid: i32 = s.pid().parse().unwrap();
+    drop(s); // kill-session: the pseudo-terminal closes
+    let start = Instant::now();
+    // SAFETY: signal 0 only asks whether the process exists.
+    while unsafe { libc::kill(pid, 0) } == 0 {
+        if start.elapsed() > Duration::from_secs(10) {
+            // SAFETY: ends the process this test started.
+            unsafe { libc::kill(pid, libc::SIGKILL) };
+            panic!("the review screen still runs 10 s after its terminal hung up");
+        }
+        std::thread::sleep(Duration::from_millis(50));
+    }
+    assert!(!dir.join(".orthoepy.lock").exists(), "the lock is released");
+    let check = Command::new(bin()).args(["journal", "check", "--project"]).arg(&dir).output().unwrap();
+    assert!(check.status.success(), "{}", String::from_utf8_lossy(&check.stdout));
+    assert_eq!(std::fs::read_to_string(dir.join("journal.jsonl")).unwrap().lines().count(), 1);
+}

@@ -8,6 +8,7 @@ use orthoepy::tui::{self, App, Lookups, PhonesetCheck, Services};
 use orthoepy::workspace::Workspace;
 use std::io::IsTerminal;
 use std::process::ExitCode;
+use std::io::Write;
 use std::sync::Arc;
 
 /// Review queued items: accept, edit, reject or set aside their candidate pronunciations.
@@ -52,7 +53,7 @@ pub fn open_review(project: Project, reviewer: Option<String>) -> anyhow::Result
     let phones = Arc::new(PhonesetCheck::with_project(
         workspace.phoneset().clone(),
         project.stress.clone(),
-        workspace.lexicon().entries(),
+        Some(workspace.shared_lexicon().0),
     ));
     let title = project.root.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default();
     let mut app = App::new(&title, files.queue.items().to_vec(), files.ledger, phones);
@@ -75,7 +76,9 @@ pub fn open_review(project: Project, reviewer: Option<String>) -> anyhow::Result
     save_guessed(&project.queue, guessed).context("cannot save guessed candidates to the queue")?;
     drop(lock);
     let pending = app.ledger().unapplied().len();
-    println!(
+    // After a hang-up the terminal is gone and this line has nowhere to go: not an error.
+    let _ = writeln!(
+        std::io::stdout(),
         "{pending} decision(s) in {} waiting to be merged; run `orthoepy apply --project {}`",
         project.journal.display(),
         project.root.display()

@@ -5,7 +5,8 @@
 //! headword policy, the stress marks) and opens `.orthoepy-index/NAME.idx` beside it. The cache is
 //! never trusted blindly: its magic, version, length, a CRC-32 over all its bytes and the key must
 //! all match, and its parts must have the shapes the index expects; otherwise it is rebuilt from
-//! a full parse and replaced atomically (`safe_io::atomic_write`). A folder that cannot be written
+//! a full parse and replaced by rename (`safe_io::replace_derived`: not synced, since a cache torn
+//! by a crash fails those checks and is rebuilt). A folder that cannot be written
 //! (read-only media, another user's project) only means no cache is saved: the command works from
 //! the index it just built, and [`CacheState::Unsaved`] says why.
 //!
@@ -445,12 +446,13 @@ fn open_cache(path: &Path, key: &StoreKey, policy: HeadwordPolicy, options: &Ind
     Ok(Opened { index, rows, header_len, entries })
 }
 
-/// Writes the cache file atomically, creating its folder.
+/// Writes the cache file by rename, creating its folder; unsynced, since a torn cache fails
+/// its CRC on the next open and is rebuilt (see [`crate::safe_io::replace_derived`]).
 fn write_cache(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
     if let Some(folder) = path.parent() {
         std::fs::create_dir_all(folder)?;
     }
-    crate::safe_io::atomic_write(path, bytes, false)
+    crate::safe_io::replace_derived(path, bytes)
 }
 
 #[cfg(test)]

@@ -425,6 +425,30 @@ impl LexiconIndex {
         self.words.map.len()
     }
 
+    /// True when some headword starts with `prefix` (normalised like a headword). Walks the
+    /// FST's transitions for the prefix's bytes and stops there: every state of a minimal FST
+    /// lies on a path to a key, so reaching the prefix's state is enough, and nothing is
+    /// allocated (the compound splitter asks this for every split point of every word).
+    ///
+    /// ```
+    /// use orthoepy::lexicon::{Entry, HeadwordPolicy, Lexicon};
+    /// let lexicon = Lexicon::from_entries(vec![Entry::new("harbour", "HH AA1 R B ER0")], HeadwordPolicy::default());
+    /// let index = lexicon.index();
+    /// assert!(index.has_prefix("harb") && index.has_prefix("harbour") && index.has_prefix(""));
+    /// assert!(!index.has_prefix("harbours") && !index.has_prefix("hb"));
+    /// ```
+    pub fn has_prefix(&self, prefix: &str) -> bool {
+        let fst = self.words.map.as_fst();
+        let mut node = fst.root();
+        for &byte in self.key(prefix).as_bytes() {
+            match node.find_input(byte) {
+                Some(i) => node = fst.node(node.transition(i).addr),
+                None => return false,
+            }
+        }
+        !fst.is_empty()
+    }
+
     /// Headwords starting with `prefix`, in key order, at most `limit` of them.
     pub fn prefix(&self, prefix: &str, limit: usize) -> Vec<(String, Vec<EntryId>)> {
         let key = self.key(prefix);
@@ -511,6 +535,26 @@ mod tests {
         let keys: Vec<_> = index.prefix("fe", 10).into_iter().map(|(k, _)| k).collect();
         assert_eq!(keys, ["ferries", "ferry"]);
         assert_eq!(index.prefix("fe", 1).len(), 1);
+    }
+
+    #[test]
+    fn has_prefix_agrees_with_the_prefix_search() {
+        let index = sample().index();
+        let mut probes: Vec<String> = Vec::new();
+        for key in index.keys() {
+            let chars: Vec<char> = key.chars().collect();
+            for end in 0..=chars.len() {
+                let head: String = chars[..end].iter().collect();
+                probes.push(format!("{head}x"));
+                probes.push(head.to_uppercase());
+                probes.push(head);
+            }
+        }
+        for probe in probes {
+            assert_eq!(index.has_prefix(&probe), !index.prefix(&probe, 1).is_empty(), "{probe:?}");
+        }
+        let empty = Lexicon::from_entries(Vec::new(), HeadwordPolicy::default()).index();
+        assert!(!empty.has_prefix("") && !empty.has_prefix("a"));
     }
 
     #[test]

@@ -50,16 +50,34 @@ impl LexiconStats {
         let (words, variants_per_word) = count_headwords(lexicon);
         let mut statuses = [0usize; Status::ALL.len()];
         let mut sources: FastMap<&str, usize> = FastMap::default();
-        let mut phone_counts: FastMap<&str, usize> = FastMap::default();
+        let mut short_phones: FastMap<u64, usize> = FastMap::default();
+        let mut long_phones: FastMap<&str, usize> = FastMap::default();
         let mut phones = 0usize;
+        // Rows of one source come in long runs (an import), so a run is counted once.
+        let mut source_run: Option<(&str, usize)> = None;
         for entry in lexicon.entries() {
             statuses[entry.status as usize] += 1; // `Status::ALL` is in declaration order
-            *sources.entry(entry.source.as_str()).or_insert(0) += 1;
+            match &mut source_run {
+                Some((source, n)) if *source == entry.source => *n += 1,
+                _ => {
+                    if let Some((source, n)) = source_run.replace((entry.source.as_str(), 1)) {
+                        *sources.entry(source).or_insert(0) += n;
+                    }
+                }
+            }
             for phone in entry.phones() {
                 phones += 1;
-                *phone_counts.entry(phone).or_insert(0) += 1;
+                match pack_phone(phone) {
+                    Some(packed) => *short_phones.entry(packed).or_insert(0) += 1,
+                    None => *long_phones.entry(phone).or_insert(0) += 1,
+                }
             }
         }
+        if let Some((source, n)) = source_run {
+            *sources.entry(source).or_insert(0) += n;
+        }
+        let mut phone_frequencies: BTreeMap<String, usize> = long_phones.into_iter().map(|(p, n)| (p.to_string(), n)).collect();
+        phone_frequencies.extend(short_phones.into_iter().map(|(packed, n)| (unpack_phone(packed), n)));
         let entries = lexicon.entries().len();
         LexiconStats {
             entries,
@@ -73,7 +91,7 @@ impl LexiconStats {
                 .collect(),
             sources: sources.into_iter().map(|(s, n)| (s.to_string(), n)).collect(),
             mean_phones_per_entry: if entries == 0 { 0.0 } else { phones as f64 / entries as f64 },
-            phone_frequencies: phone_counts.into_iter().map(|(p, n)| (p.to_string(), n)).collect(),
+            phone_frequencies,
         }
     }
 
@@ -90,6 +108,26 @@ impl Lexicon {
     pub fn headword_count(&self) -> usize {
         count_headwords(self).0
     }
+}
+
+/// A phone token of at most seven bytes packed into one integer (its bytes, then its length in
+/// the top byte), so that counting hashes a number instead of a string; `None` for longer
+/// tokens, which are counted by string.
+fn pack_phone(phone: &str) -> Option<u64> {
+    let bytes = phone.as_bytes();
+    (bytes.len() <= 7).then(|| {
+        let mut packed = [0u8; 8];
+        packed[..bytes.len()].copy_from_slice(bytes);
+        packed[7] = bytes.len() as u8;
+        u64::from_le_bytes(packed)
+    })
+}
+
+/// The token [`pack_phone`] packed.
+fn unpack_phone(packed: u64) -> String {
+    let bytes = packed.to_le_bytes();
+    let len = usize::from(bytes[7]).min(7);
+    String::from_utf8_lossy(&bytes[..len]).into_owned()
 }
 
 /// Distinct normalised headwords, and how many of them have N entries, by N.
@@ -130,5 +168,25 @@ mod tests {
         assert_eq!(stats.variants_per_word, BTreeMap::from([(2, 2), (3, 1)]));
         assert_eq!(stats.statuses, BTreeMap::from([("accepted".to_string(), 7)]));
         assert_eq!(stats.phone_frequencies["EY1"], 7);
+    }
+
+    #[test]
+    fn short_and_long_phones_and_source_runs_are_counted_alike() {
+        // Phones of 1 to 9 bytes (IPA with diacritics runs past the seven packed bytes), and
+        // sources in runs and interleaved.
+        let rows = [("a", "t͡ʃʰ ɑː t", "x"), ("b", "t͡ʃʰː t", "x"), ("c", "t t͡ʃʰ", "y"), ("d", "ɑː", "x"), ("e", "A\u{0} A", "")];
+        let entries = rows.iter().map(|(w, p, s)| Entry { source: s.to_string(), ..Entry::new(w, p) }).collect();
+        let stats = LexiconStats::of(&Lexicon::from_entries(entries, HeadwordPolicy::default()));
+        let mut expected: BTreeMap<String, usize> = BTreeMap::new();
+        for (_, p, _) in rows {
+            for phone in p.split(' ') {
+                *expected.entry(phone.to_string()).or_insert(0) += 1;
+            }
+        }
+        assert_eq!(stats.phone_frequencies, expected);
+        assert_eq!(stats.sources, BTreeMap::from([(String::new(), 1), ("x".to_string(), 3), ("y".to_string(), 1)]));
+        for phone in ["", "A", "t͡ʃʰ", "t͡ʃʰː", "1234567"] {
+            assert_eq!(pack_phone(phone).map(unpack_phone).as_deref(), (phone.len() <= 7).then_some(phone));
+        }
     }
 }

@@ -8,9 +8,10 @@
 //! [`PRONUNCIATION_CHECKS`]) and writes pronunciations in IPA as the PLS export does.
 
 use std::collections::BTreeSet;
+use std::sync::{Arc, OnceLock};
 
 use crate::audit::{Check, Context, Severity, StressPolicy};
-use crate::lexicon::{Entry, HeadwordPolicy};
+use crate::lexicon::{Entry, HeadwordPolicy, Lexicon};
 use crate::phoneset::Phoneset;
 use crate::phoneset::{Alphabet, Onsets};
 use crate::queue::PRONUNCIATION_CHECKS;
@@ -129,30 +130,35 @@ pub struct PhonesetCheck {
     list: SymbolList,
     stress: StressPolicy,
     checks: Vec<Box<dyn Check>>,
-    onsets: Onsets,
+    /// The lexicon whose word-initial clusters give the onsets, and the onsets themselves,
+    /// worked out on the first IPA rendering (a pass over every entry: ~50 ms on CMUdict, kept
+    /// off the review screen's start).
+    lexicon: Option<Arc<Lexicon>>,
+    onsets: OnceLock<Onsets>,
 }
 
 impl PhonesetCheck {
     /// Wrap a phoneset, with the default stress policy and no lexicon (IPA stress marks then
     /// go before the nucleus's nearest consonant; see [`with_project`](Self::with_project)).
     pub fn new(set: Phoneset) -> PhonesetCheck {
-        PhonesetCheck::with_project(set, StressPolicy::default(), &[])
+        PhonesetCheck::with_project(set, StressPolicy::default(), None)
     }
 
-    /// Wrap a phoneset with the project's stress policy and its lexicon's entries (whose
-    /// word-initial clusters are the legal onsets for IPA stress placement, as in the PLS export).
+    /// Wrap a phoneset with the project's stress policy and its lexicon (whose word-initial
+    /// clusters are the legal onsets for IPA stress placement, as in the PLS export; read on
+    /// the first IPA rendering).
     ///
     /// ```
     /// use orthoepy::audit::{PrimaryStressPolicy, StressPolicy};
     /// use orthoepy::phoneset::Phoneset;
     /// use orthoepy::tui::{PhoneCheck, PhonesetCheck};
     /// let set = Phoneset::shipped("en-arpa").unwrap();
-    /// let check = PhonesetCheck::with_project(set, StressPolicy::default(), &[]);
+    /// let check = PhonesetCheck::with_project(set, StressPolicy::default(), None);
     /// let verdicts = check.audit("kelport", "K EH0 L P AO0 R T");
     /// assert!(verdicts.iter().any(|v| v.check == "missing-primary-stress" && v.problem.is_some()));
     /// assert_eq!(check.ipa("K IY1").as_deref(), Some("ˈki"));
     /// ```
-    pub fn with_project(set: Phoneset, stress: StressPolicy, entries: &[Entry]) -> PhonesetCheck {
+    pub fn with_project(set: Phoneset, stress: StressPolicy, lexicon: Option<Arc<Lexicon>>) -> PhonesetCheck {
         let marks: Vec<&str> = set.stress_marks().iter().map(|s| s.mark.as_str()).collect();
         let mut tokens = BTreeSet::new();
         for p in set.phones() {
@@ -168,8 +174,7 @@ impl PhonesetCheck {
         let list = SymbolList { name: set.id().to_string(), tokens };
         // The ids are the queue's own constants, all registered audit checks.
         let checks = crate::audit::select_checks(&PRONUNCIATION_CHECKS).unwrap_or_default();
-        let onsets = crate::pls::lexicon_onsets(entries, &set);
-        PhonesetCheck { set, list, stress, checks, onsets }
+        PhonesetCheck { set, list, stress, checks, lexicon, onsets: OnceLock::new() }
     }
 }
 
@@ -227,6 +232,10 @@ impl PhoneCheck for PhonesetCheck {
 
     fn ipa(&self, pronunciation: &str) -> Option<String> {
         let pron = self.set.parse(pronunciation).ok()?;
-        Some(self.set.render_with(&pron, Alphabet::Ipa, &self.onsets))
+        let onsets = self.onsets.get_or_init(|| {
+            let entries = self.lexicon.as_deref().map_or(&[][..], Lexicon::entries);
+            crate::pls::lexicon_onsets(entries, &self.set)
+        });
+        Some(self.set.render_with(&pron, Alphabet::Ipa, onsets))
     }
 }

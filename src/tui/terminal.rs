@@ -4,7 +4,8 @@
 //! thread whose progress shows as a gauge. The terminal is restored on quit, on error, on
 //! panic (a panic hook restores it before the message prints) and on SIGTERM and SIGHUP: those
 //! signals only set a flag, and the loop then leaves between two events exactly as `q` does, so
-//! a journal append in progress is finished first and nothing is written half-way.
+//! a journal append in progress is finished first and nothing is written half-way. A terminal
+//! that hangs up (its window closed) ends the loop the same way.
 
 use std::collections::VecDeque;
 use std::io;
@@ -117,6 +118,72 @@ impl Drop for StopSignals {
     }
 }
 
+/// Whether crossterm has an event ready, without waiting.
+fn ready_now() -> io::Result<bool> {
+    match event::poll(Duration::ZERO) {
+        Ok(ready) => Ok(ready),
+        // A signal arrived: look at the flag again.
+        Err(e) if e.kind() == io::ErrorKind::Interrupted => Ok(false),
+        Err(e) => Err(e),
+    }
+}
+
+/// What [`TtyWatch::wait`] saw.
+#[derive(Debug, PartialEq, Eq)]
+enum TtyState {
+    /// Input is waiting, or the wait ended (time out, a signal): ask crossterm.
+    Go,
+    /// The terminal hung up.
+    HungUp,
+}
+
+/// Waits on the terminal the screen reads (standard input when it is a terminal, else
+/// `/dev/tty`, as crossterm chooses) with poll(2), so that a hang-up is seen: crossterm's own
+/// poll keeps retrying a terminal that is gone and never returns, which left a closed screen
+/// spinning on a core for good.
+struct TtyWatch {
+    #[cfg(unix)]
+    fd: Option<std::os::fd::RawFd>,
+    #[cfg(unix)]
+    _opened: Option<std::fs::File>,
+}
+
+impl TtyWatch {
+    fn open() -> TtyWatch {
+        #[cfg(unix)]
+        {
+            use std::os::fd::AsRawFd;
+            use std::io::IsTerminal;
+            if io::stdin().is_terminal() {
+                return TtyWatch { fd: Some(0), _opened: None };
+            }
+            let opened = std::fs::File::open("/dev/tty").ok();
+            TtyWatch { fd: opened.as_ref().map(|f| f.as_raw_fd()), _opened: opened }
+        }
+        #[cfg(not(unix))]
+        TtyWatch {}
+    }
+
+    /// Waits up to `timeout` for input or a hang-up.
+    fn wait(&self, timeout: Duration) -> TtyState {
+        #[cfg(unix)]
+        if let Some(fd) = self.fd {
+            let mut watched = libc::pollfd { fd, events: libc::POLLIN, revents: 0 };
+            let millis = libc::c_int::try_from(timeout.as_millis()).unwrap_or(libc::c_int::MAX);
+            // SAFETY: one valid pollfd for the length given; the fd stays open while `self` lives.
+            let ready = unsafe { libc::poll(&mut watched, 1, millis) };
+            let gone = libc::POLLHUP | libc::POLLERR | libc::POLLNVAL;
+            if ready > 0 && watched.revents & gone != 0 {
+                return TtyState::HungUp;
+            }
+            return TtyState::Go;
+        }
+        // No descriptor to watch: let crossterm wait.
+        let _ = event::poll(timeout);
+        TtyState::Go
+    }
+}
+
 fn restore_terminal() {
     let _ = disable_raw_mode();
     let _ = execute!(io::stdout(), LeaveAlternateScreen, crossterm::cursor::Show);
@@ -191,16 +258,18 @@ pub fn run(mut app: App, mut services: Services) -> io::Result<App> {
             start_guessing(&app, g, tx);
         }
         dispatch(&mut app, Event::Resize(0, 0), &services.lookups, &mut services.journal);
+        let tty = TtyWatch::open();
         while !app.quitting && !STOP_REQUESTED.load(Ordering::SeqCst) {
             terminal.draw(|f| draw(f, &app, services.color))?;
             app.now = crate::support::clock::now_secs();
-            let ready = match event::poll(Duration::from_millis(50)) {
-                Ok(ready) => ready,
-                // A signal arrived while waiting: look at the flag again.
-                Err(e) if e.kind() == io::ErrorKind::Interrupted => false,
-                Err(e) => return Err(e),
-            };
-            if ready {
+            if tty.wait(Duration::from_millis(50)) == TtyState::HungUp {
+                // The terminal is gone (its window closed, the tmux session killed): nothing
+                // can be read or drawn any more, so leave as `q` does.
+                break;
+            }
+            // Every event ready now, then one frame; resizes come through here too (crossterm
+            // turns SIGWINCH into an event), at most 50 ms late.
+            while ready_now()? {
                 let ev = match event::read() {
                     Ok(TermEvent::Key(k)) if k.kind != KeyEventKind::Release => map_key(k.code, k.modifiers).map(Event::Key),
                     Ok(TermEvent::Resize(w, h)) => Some(Event::Resize(w, h)),

@@ -216,7 +216,7 @@ impl Lookup<'_> {
 
     /// True when some headword starts with `prefix`.
     fn has_prefix(&self, prefix: &str) -> bool {
-        !self.index.prefix(prefix, 1).is_empty()
+        self.index.has_prefix(prefix)
     }
 
     /// The first pronunciation of `word` that parses in the phoneset (entries in file order).
