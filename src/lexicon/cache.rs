@@ -2,7 +2,9 @@
 //! command that looks a few words up opens it by memory map instead of parsing the whole store.
 //!
 //! [`IndexedStore::open`] reads the store, takes its key (length and CRC-32 of every byte, the
-//! headword policy, the stress marks) and opens `.orthoepy-index/NAME.idx` beside it. The cache is
+//! headword policy, the stress marks) and opens `.orthoepy-index/NAME.idx` beside it; the
+//! sounds-like maps live in `NAME.sounds` and are read (or built and saved) only when a
+//! sounds-like query first asks, since they are two thirds of the index. The cache is
 //! never trusted blindly: its magic, version, length, a CRC-32 over all its bytes and the key must
 //! all match, and its parts must have the shapes the index expects; otherwise it is rebuilt from
 //! a full parse and replaced by rename (`safe_io::replace_derived`: not synced, since a cache torn
@@ -26,7 +28,7 @@
 //! read, not mapped. This module writes nothing but the cache file and its folder.
 
 use super::entry::Entry;
-use super::index::{read_u32, Section, INDEX_PARTS};
+use super::index::{read_u32, Section, SoundLoader, SoundMaps, SOUND_PARTS, WORD_PARTS};
 use super::store::{LoadMode, MAX_LEXICON};
 use super::{EntryId, HeadwordPolicy, IndexOptions, Lexicon, LexiconError, LexiconIndex};
 use crate::support::read::read_capped;
@@ -37,20 +39,29 @@ use std::sync::{Arc, OnceLock};
 /// The hidden folder beside a store that holds its index cache.
 pub const CACHE_FOLDER: &str = ".orthoepy-index";
 
-/// The first bytes of every index cache file.
+/// The first bytes of every headword cache file (`NAME.idx`).
 const MAGIC: &[u8; 8] = b"OEPYIDX\x1a";
 
-/// The cache format written and read; a file of another version is rebuilt.
-const VERSION: u32 = 1;
+/// The first bytes of every sounds-like cache file (`NAME.sounds`).
+const SOUNDS_MAGIC: &[u8; 8] = b"OEPYSND\x1a";
 
-/// Parts after the index's own: the row table and the stress marks.
-const PARTS: usize = INDEX_PARTS + 2;
+/// The cache format written and read; a file of another version is rebuilt. Version 2 moved
+/// the sounds-like maps into a file of their own, read only when a sounds-like query asks.
+const VERSION: u32 = 2;
+
+/// Parts of the headword file: the index's own, the row table and the stress marks.
+const PARTS: usize = WORD_PARTS + 2;
+
+/// Parts of the sounds-like file: the maps' own and the stress marks.
+const SOUND_FILE_PARTS: usize = SOUND_PARTS + 1;
 
 /// Fixed header: magic, version, flags, store length, store CRC, entries, header length, padding.
 const FIXED: usize = 40;
 
-/// Header with the part table (offset and length, `u64` each, per part).
-const HEADER: usize = FIXED + PARTS * 16;
+/// Header with the part table (offset and length, `u64` each, per part) of a file of `parts`.
+const fn header_size(parts: usize) -> usize {
+    FIXED + parts * 16
+}
 
 /// Bytes per row of the row table: byte offset and line of the entry's record (`u32` each).
 const ROW_BYTES: usize = 8;
@@ -58,7 +69,8 @@ const ROW_BYTES: usize = 8;
 const FOLD_CASE: u32 = 1;
 const HAS_ROWS: u32 = 2;
 
-/// The path of the index cache of the store at `store`: `.orthoepy-index/NAME.idx` beside it.
+/// The path of the index cache of the store at `store`: `.orthoepy-index/NAME.idx` beside it
+/// (its sounds-like maps go in `NAME.sounds` next to it).
 ///
 /// ```
 /// use std::path::Path;
@@ -147,7 +159,7 @@ impl StoreKey {
 /// ```
 pub struct IndexedStore {
     path: PathBuf,
-    bytes: Vec<u8>,
+    bytes: Arc<Vec<u8>>,
     policy: HeadwordPolicy,
     index: LexiconIndex,
     rows: Option<Section>,
@@ -162,11 +174,12 @@ impl IndexedStore {
     /// from a full (strict) parse and saved to the cache. Errors are the store's own (unreadable,
     /// malformed); a cache that cannot be used or written is never an error.
     pub fn open(path: &Path, policy: HeadwordPolicy) -> Result<IndexedStore, LexiconError> {
-        let bytes = read_capped(path, MAX_LEXICON)?;
+        let bytes = Arc::new(read_capped(path, MAX_LEXICON)?);
         let options = IndexOptions::default();
         let key = StoreKey::of(&bytes, policy, &options);
         let cache = cache_path(path);
-        let stale = match open_cache(&cache, &key, policy, &options) {
+        let loader = sound_loader(Arc::clone(&bytes), path, &key, policy, &options);
+        let stale = match open_cache(&cache, &key, policy, &options, Arc::clone(&loader)) {
             Ok(opened) => {
                 let store = IndexedStore {
                     path: path.to_path_buf(),
@@ -184,12 +197,16 @@ impl IndexedStore {
             Err(stale) => stale,
         };
         let lexicon = Lexicon::from_file_bytes(&bytes, path, policy, LoadMode::Strict)?;
-        let index = LexiconIndex::build(&lexicon, options);
+        let index = LexiconIndex::build_words(&lexicon, options, loader);
         let (rows, header_len) = match row_table(&bytes, lexicon.entries(), path, policy) {
             Some((rows, header_len)) => (Some(rows), header_len),
             None => (None, 0),
         };
-        let file = encode(&key, &index, rows.as_deref(), header_len, lexicon.entries().len());
+        let mut parts: Vec<&[u8]> = index.word_parts().to_vec();
+        parts.push(rows.as_deref().unwrap_or(&[]));
+        parts.push(&key.marks);
+        let flags = if rows.is_some() { HAS_ROWS } else { 0 };
+        let file = encode(MAGIC, &key, &parts, flags, header_len, lexicon.entries().len());
         let state = match write_cache(&cache, &file) {
             Ok(()) => CacheState::Rebuilt(stale),
             Err(reason) => CacheState::Unsaved { stale, reason: reason.to_string() },
@@ -341,16 +358,15 @@ fn parse_row(bytes: &[u8], header_len: usize, start: usize, end: usize, path: &P
     one.pop().filter(|_| one.is_empty())
 }
 
-/// The bytes of a cache file.
-fn encode(key: &StoreKey, index: &LexiconIndex, rows: Option<&[u8]>, header_len: usize, entries: usize) -> Vec<u8> {
-    let index_parts = index.parts();
-    let mut parts: Vec<&[u8]> = index_parts.to_vec();
-    parts.push(rows.unwrap_or(&[]));
-    parts.push(&key.marks);
-    let flags = if key.fold_case { FOLD_CASE } else { 0 } | if rows.is_some() { HAS_ROWS } else { 0 };
-    let total = HEADER + parts.iter().map(|p| p.len()).sum::<usize>() + 4;
+/// The bytes of a cache file: `magic`, the header (with the store's key, `flags` beside the
+/// headword policy's, the store's header length and entry count), the part table, the parts,
+/// and a CRC-32 of all that.
+fn encode(magic: &[u8; 8], key: &StoreKey, parts: &[&[u8]], flags: u32, header_len: usize, entries: usize) -> Vec<u8> {
+    let flags = flags | if key.fold_case { FOLD_CASE } else { 0 };
+    let header = header_size(parts.len());
+    let total = header + parts.iter().map(|p| p.len()).sum::<usize>() + 4;
     let mut out = Vec::with_capacity(total);
-    out.extend_from_slice(MAGIC);
+    out.extend_from_slice(magic);
     out.extend_from_slice(&VERSION.to_le_bytes());
     out.extend_from_slice(&flags.to_le_bytes());
     out.extend_from_slice(&key.length.to_le_bytes());
@@ -358,18 +374,56 @@ fn encode(key: &StoreKey, index: &LexiconIndex, rows: Option<&[u8]>, header_len:
     out.extend_from_slice(&(entries as u32).to_le_bytes());
     out.extend_from_slice(&(header_len as u32).to_le_bytes());
     out.resize(FIXED, 0);
-    let mut offset = HEADER as u64;
-    for part in &parts {
+    let mut offset = header as u64;
+    for part in parts {
         out.extend_from_slice(&offset.to_le_bytes());
         out.extend_from_slice(&(part.len() as u64).to_le_bytes());
         offset += part.len() as u64;
     }
-    for part in &parts {
+    for part in parts {
         out.extend_from_slice(part);
     }
     let crc = crc32fast::hash(&out);
     out.extend_from_slice(&crc.to_le_bytes());
     out
+}
+
+/// The path of the sounds-like cache beside the headword cache `cache`.
+fn sounds_path(cache: &Path) -> PathBuf {
+    cache.with_extension("sounds")
+}
+
+/// Where an index opened for the store `bytes` (at `path`) gets its sounds-like maps when a
+/// query first asks: the sounds cache when it matches the store, else built from a parse of the
+/// bytes already read and saved to that cache.
+fn sound_loader(bytes: Arc<Vec<u8>>, path: &Path, key: &StoreKey, policy: HeadwordPolicy, options: &IndexOptions) -> SoundLoader {
+    let (path, key, options) = (path.to_path_buf(), key.clone(), options.clone());
+    Arc::new(move || {
+        let cache = sounds_path(&cache_path(&path));
+        if let Ok(maps) = open_sounds(&cache, &key) {
+            return maps;
+        }
+        // The headword cache matched these very bytes or they were just parsed, so a parse
+        // failure here cannot happen short of memory running out; no maps then, no panic.
+        let Ok(lexicon) = Lexicon::parse(&bytes, &path, policy, LoadMode::Strict) else {
+            return SoundMaps::empty();
+        };
+        let maps = SoundMaps::build(&lexicon, &options);
+        let mut parts: Vec<&[u8]> = maps.parts().to_vec();
+        parts.push(&key.marks);
+        // A sounds cache that cannot be written only means the next query builds again.
+        let _ = write_cache(&cache, &encode(SOUNDS_MAGIC, &key, &parts, 0, 0, lexicon.entries().len()));
+        maps
+    })
+}
+
+/// Maps and checks the sounds-like cache at `path` against `key`.
+fn open_sounds(path: &Path, key: &StoreKey) -> Result<SoundMaps, Stale> {
+    let checked = open_checked(path, SOUNDS_MAGIC, key, SOUND_FILE_PARTS)?;
+    let mut sections = checked.sections;
+    sections.pop(); // the stress marks, compared by `open_checked`
+    let parts: [Section; SOUND_PARTS] = sections.try_into().map_err(|_| Stale::Damaged("parts missing"))?;
+    SoundMaps::from_parts(parts).ok_or(Stale::Damaged("sounds-like parts malformed"))
 }
 
 /// A cache file opened and checked.
@@ -384,8 +438,18 @@ fn u64_at(bytes: &[u8], at: usize) -> u64 {
     u64::from(read_u32(bytes, at)) | (u64::from(read_u32(bytes, at + 4)) << 32)
 }
 
-/// Maps and checks the cache at `path` against `key`.
-fn open_cache(path: &Path, key: &StoreKey, policy: HeadwordPolicy, options: &IndexOptions) -> Result<Opened, Stale> {
+/// A cache file mapped, its checksum, key and settings checked, cut into its parts (the last
+/// being the stress marks).
+struct Checked {
+    sections: Vec<Section>,
+    flags: u32,
+    entries: usize,
+    header_len: usize,
+}
+
+/// Maps the cache file at `path` and checks it: `magic`, version, CRC-32, the store's key, the
+/// headword policy and stress marks, and `parts` parts inside the file.
+fn open_checked(path: &Path, magic: &[u8; 8], key: &StoreKey, parts: usize) -> Result<Checked, Stale> {
     let file = match std::fs::File::open(path) {
         Ok(file) => file,
         Err(err) if err.kind() == std::io::ErrorKind::NotFound => return Err(Stale::Missing),
@@ -398,10 +462,10 @@ fn open_cache(path: &Path, key: &StoreKey, policy: HeadwordPolicy, options: &Ind
         Err(_) => return Err(Stale::Damaged("cannot be mapped")),
     };
     let bytes: &[u8] = &map;
-    if bytes.len() < HEADER + 4 {
+    if bytes.len() < header_size(parts) + 4 {
         return Err(Stale::Damaged("truncated"));
     }
-    if &bytes[..MAGIC.len()] != MAGIC {
+    if &bytes[..magic.len()] != magic {
         return Err(Stale::Damaged("not an index cache"));
     }
     let version = read_u32(bytes, 8);
@@ -418,8 +482,8 @@ fn open_cache(path: &Path, key: &StoreKey, policy: HeadwordPolicy, options: &Ind
     }
     let entries = read_u32(bytes, 28) as usize;
     let header_len = read_u32(bytes, 32) as usize;
-    let mut sections = Vec::with_capacity(PARTS);
-    for i in 0..PARTS {
+    let mut sections = Vec::with_capacity(parts);
+    for i in 0..parts {
         let (offset, len) = (u64_at(bytes, FIXED + i * 16), u64_at(bytes, FIXED + i * 16 + 8));
         let section = usize::try_from(offset)
             .ok()
@@ -428,10 +492,18 @@ fn open_cache(path: &Path, key: &StoreKey, policy: HeadwordPolicy, options: &Ind
             .and_then(|(offset, len)| Section::mapped(&map, offset, len));
         sections.push(section.ok_or(Stale::Damaged("a part lies outside the file"))?);
     }
-    let marks = sections.pop().ok_or(Stale::Damaged("parts missing"))?;
+    let marks = sections.last().ok_or(Stale::Damaged("parts missing"))?;
     if (flags & FOLD_CASE != 0) != key.fold_case || marks.as_ref() != key.marks.as_slice() {
         return Err(Stale::OtherSettings);
     }
+    Ok(Checked { sections, flags, entries, header_len })
+}
+
+/// Maps and checks the headword cache at `path` against `key`; the index it opens gets its
+/// sounds-like maps from `loader`.
+fn open_cache(path: &Path, key: &StoreKey, policy: HeadwordPolicy, options: &IndexOptions, loader: SoundLoader) -> Result<Opened, Stale> {
+    let Checked { mut sections, flags, entries, header_len } = open_checked(path, MAGIC, key, PARTS)?;
+    sections.pop(); // the stress marks
     let rows = sections.pop().ok_or(Stale::Damaged("parts missing"))?;
     let rows = if flags & HAS_ROWS != 0 {
         if rows.as_ref().len() != entries * ROW_BYTES {
@@ -441,8 +513,8 @@ fn open_cache(path: &Path, key: &StoreKey, policy: HeadwordPolicy, options: &Ind
     } else {
         None
     };
-    let parts: [Section; INDEX_PARTS] = sections.try_into().map_err(|_| Stale::Damaged("parts missing"))?;
-    let index = LexiconIndex::from_parts(parts, policy, options.clone()).ok_or(Stale::Damaged("index parts malformed"))?;
+    let parts: [Section; WORD_PARTS] = sections.try_into().map_err(|_| Stale::Damaged("parts missing"))?;
+    let index = LexiconIndex::from_word_parts(parts, policy, options.clone(), loader).ok_or(Stale::Damaged("index parts malformed"))?;
     Ok(Opened { index, rows, header_len, entries })
 }
 
@@ -458,6 +530,9 @@ fn write_cache(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// Header of the headword file.
+    const HEADER: usize = header_size(PARTS);
 
     const HEADER_LINE: &str = "word,pronunciation,status,source,score,note\n";
 
@@ -529,6 +604,35 @@ mod tests {
             assert_eq!(std::fs::read(&cache).unwrap(), good, "byte {at}: rebuilt to the same bytes");
         }
         assert_same_as_full_load(&path, HeadwordPolicy::default());
+    }
+
+    #[test]
+    fn sounds_like_maps_are_cached_apart_checked_and_rebuilt() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = store(dir.path(), &sample());
+        let sounds = sounds_path(&cache_path(&path));
+        let first = IndexedStore::open(&path, HeadwordPolicy::default()).unwrap();
+        assert_eq!(first.index().lookup("word007"), &[8, 9]);
+        assert!(!sounds.exists(), "a headword look-up reads no sounds-like map");
+        let expected = first.index().sounds_like_unstressed("W ER D").to_vec();
+        assert_eq!(expected.len(), 43);
+        let good = std::fs::read(&sounds).unwrap();
+        let fresh = || IndexedStore::open(&path, HeadwordPolicy::default()).unwrap();
+        assert_eq!(fresh().index().sounds_like_unstressed("W ER D"), expected, "read back from the sounds cache");
+        for at in [0, 8, 16, 24, FIXED, header_size(SOUND_FILE_PARTS), good.len() / 2, good.len() - 1] {
+            let mut bad = good.clone();
+            bad[at] ^= 0x20;
+            std::fs::write(&sounds, &bad).unwrap();
+            let opened = fresh();
+            assert_eq!(opened.state(), &CacheState::Reused, "the headword cache is still good");
+            assert_eq!(opened.index().sounds_like_unstressed("W ER D"), expected, "byte {at}");
+            assert_eq!(opened.index().sounds_like("W ER1 D").len(), 43, "byte {at}");
+            assert_eq!(std::fs::read(&sounds).unwrap(), good, "byte {at}: rebuilt to the same bytes");
+        }
+        // The store changes: its sounds cache no longer matches and is rebuilt.
+        std::fs::write(&path, format!("{HEADER_LINE}word001,W ER1 D,imported,test,,\n")).unwrap();
+        assert_eq!(fresh().index().sounds_like_unstressed("W ER D"), &[0]);
+        assert_ne!(std::fs::read(&sounds).unwrap(), good);
     }
 
     #[test]

@@ -10,7 +10,9 @@
 //!
 //! Every part is a flat byte [`Section`] (little-endian numbers), either just built or a range of
 //! the memory-mapped cache file (see `cache.rs`), so a built index and a cached one are read by
-//! the same code; posting lists are decoded into memory on first use only.
+//! the same code; posting lists are decoded into memory on first use only. An index opened from
+//! the cache gets its sounds-like maps on the first sounds-like query, through a loader the
+//! cache gives it.
 
 use super::normalize::normalize_key;
 use super::store::Lexicon;
@@ -313,8 +315,8 @@ impl SoundMap {
     }
 }
 
-/// How many byte parts an index has (see [`LexiconIndex::parts`]).
-pub(crate) const INDEX_PARTS: usize = 8;
+/// How many byte parts the headword map has (see [`LexiconIndex::word_parts`]).
+pub(crate) const WORD_PARTS: usize = 2;
 
 /// The index of one lexicon snapshot.
 ///
@@ -334,71 +336,123 @@ pub(crate) const INDEX_PARTS: usize = 8;
 #[derive(Debug, Clone)]
 pub struct LexiconIndex {
     words: PostingMap,
-    pronunciations: SoundMap,
-    unstressed: SoundMap,
+    sounds: LazySounds,
     policy: super::HeadwordPolicy,
     options: IndexOptions,
+}
+
+/// The two sounds-like maps: pronunciation → entries, with and without stress marks.
+#[derive(Debug, Clone)]
+pub(crate) struct SoundMaps {
+    pronunciations: SoundMap,
+    unstressed: SoundMap,
+}
+
+/// How many byte parts the sounds-like maps have (see [`SoundMaps::parts`]).
+pub(crate) const SOUND_PARTS: usize = 6;
+
+impl SoundMaps {
+    /// Both maps of `lexicon`'s entries (built side by side).
+    pub(crate) fn build(lexicon: &Lexicon, options: &IndexOptions) -> SoundMaps {
+        let entries = lexicon.entries();
+        let (pronunciations, unstressed) = rayon::join(
+            || SoundMap::build(entries.len(), |i, out| out.push_str(&entries[i].pronunciation)),
+            || SoundMap::build(entries.len(), |i, out| options.push_stripped(&entries[i].pronunciation, out)),
+        );
+        SoundMaps { pronunciations, unstressed }
+    }
+
+    /// Maps with no keys.
+    pub(crate) fn empty() -> SoundMaps {
+        SoundMaps { pronunciations: SoundMap::build(0, |_, _| ()), unstressed: SoundMap::build(0, |_, _| ()) }
+    }
+
+    /// The bytes of each part, in the order [`from_parts`](Self::from_parts) takes them: text,
+    /// spans and postings of the stressed map, then of the unstressed one.
+    pub(crate) fn parts(&self) -> [&[u8]; SOUND_PARTS] {
+        let (p, u) = (&self.pronunciations, &self.unstressed);
+        [p.text.as_ref(), p.spans.as_ref(), p.ids.bytes.as_ref(), u.text.as_ref(), u.spans.as_ref(), u.ids.bytes.as_ref()]
+    }
+
+    /// Maps over parts written by [`parts`](Self::parts), checking their shapes (whole numbers
+    /// of spans, one id per span); `None` when they do not fit.
+    pub(crate) fn from_parts(parts: [Section; SOUND_PARTS]) -> Option<SoundMaps> {
+        let [text, spans, ids, bare_text, bare_spans, bare_ids] = parts;
+        let sound_map = |text: Section, spans: Section, ids: Section| {
+            let fits = spans.as_ref().len() % SPAN_BYTES == 0 && ids.as_ref().len() * 4 == spans.as_ref().len();
+            fits.then(|| SoundMap { text, spans, ids: Postings::opened(ids) })
+        };
+        Some(SoundMaps { pronunciations: sound_map(text, spans, ids)?, unstressed: sound_map(bare_text, bare_spans, bare_ids)? })
+    }
+}
+
+/// Where an index opened from a cache gets its sounds-like maps the first time a sounds-like
+/// query asks: their own cache file, or a parse of the store (see `cache.rs`).
+pub(crate) type SoundLoader = Arc<dyn Fn() -> SoundMaps + Send + Sync>;
+
+/// The sounds-like maps, built with the index or loaded on first use: a command that only looks
+/// headwords up (`find WORD`, most of the review screen) never reads them. On CMUdict they are
+/// two thirds of the index (9 MB of 13), on a 2,000,000-entry lexicon 169 MB of 220.
+#[derive(Clone)]
+struct LazySounds {
+    maps: OnceLock<SoundMaps>,
+    loader: Option<SoundLoader>,
+}
+
+impl LazySounds {
+    fn get(&self) -> &SoundMaps {
+        self.maps.get_or_init(|| self.loader.as_ref().map_or_else(SoundMaps::empty, |load| load()))
+    }
+}
+
+impl std::fmt::Debug for LazySounds {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.debug_struct("LazySounds").field("loaded", &self.maps.get().is_some()).finish()
+    }
 }
 
 impl LexiconIndex {
     /// Builds the index of a lexicon with the given options.
     pub fn build(lexicon: &Lexicon, options: IndexOptions) -> LexiconIndex {
+        let (words, sounds) = rayon::join(|| LexiconIndex::word_map(lexicon), || SoundMaps::build(lexicon, &options));
+        let sounds = LazySounds { maps: OnceLock::from(sounds), loader: None };
+        LexiconIndex { words, sounds, policy: *lexicon.policy(), options }
+    }
+
+    /// The headword part of the index only; the sounds-like maps come from `loader` when first
+    /// asked for.
+    pub(crate) fn build_words(lexicon: &Lexicon, options: IndexOptions, loader: SoundLoader) -> LexiconIndex {
+        let words = LexiconIndex::word_map(lexicon);
+        LexiconIndex { words, sounds: LazySounds { maps: OnceLock::new(), loader: Some(loader) }, policy: *lexicon.policy(), options }
+    }
+
+    fn word_map(lexicon: &Lexicon) -> PostingMap {
         let policy = *lexicon.policy();
-        let entries = lexicon.entries();
-        let ((words, pronunciations), unstressed) = rayon::join(
-            || {
-                rayon::join(
-                    || {
-                        let keys = entries.iter().enumerate();
-                        PostingMap::build(keys.map(|(id, e)| (normalize_key(e.word.trim(), &policy), id)).collect())
-                    },
-                    || SoundMap::build(entries.len(), |i, out| out.push_str(&entries[i].pronunciation)),
-                )
-            },
-            || SoundMap::build(entries.len(), |i, out| options.push_stripped(&entries[i].pronunciation, out)),
-        );
-        LexiconIndex { words, pronunciations, unstressed, policy, options }
+        let keys = lexicon.entries().iter().enumerate();
+        PostingMap::build(keys.map(|(id, e)| (normalize_key(e.word.trim(), &policy), id)).collect())
     }
 
-    /// The bytes of each part, in the order [`from_parts`](Self::from_parts) takes them: the
-    /// headword FST, its postings, then text, spans and postings of each sound map.
-    pub(crate) fn parts(&self) -> [&[u8]; INDEX_PARTS] {
-        let (p, u) = (&self.pronunciations, &self.unstressed);
-        [
-            self.words.map.as_fst().as_bytes(),
-            self.words.ids.bytes.as_ref(),
-            p.text.as_ref(),
-            p.spans.as_ref(),
-            p.ids.bytes.as_ref(),
-            u.text.as_ref(),
-            u.spans.as_ref(),
-            u.ids.bytes.as_ref(),
-        ]
+    /// The bytes of the headword parts, in the order [`from_word_parts`](Self::from_word_parts)
+    /// takes them: the headword FST, then its postings.
+    pub(crate) fn word_parts(&self) -> [&[u8]; WORD_PARTS] {
+        [self.words.map.as_fst().as_bytes(), self.words.ids.bytes.as_ref()]
     }
 
-    /// An index over parts written by [`parts`](Self::parts), checking their shapes (the FST's
-    /// header, whole numbers of ids and spans, one id per span); `None` when they do not fit.
-    pub(crate) fn from_parts(
-        parts: [Section; INDEX_PARTS],
+    /// An index over headword parts written by [`word_parts`](Self::word_parts), checking their
+    /// shapes (the FST's header, a whole number of ids); `None` when they do not fit. The
+    /// sounds-like maps come from `loader` when first asked for.
+    pub(crate) fn from_word_parts(
+        parts: [Section; WORD_PARTS],
         policy: super::HeadwordPolicy,
         options: IndexOptions,
+        loader: SoundLoader,
     ) -> Option<LexiconIndex> {
-        let [words, word_ids, text, spans, ids, bare_text, bare_spans, bare_ids] = parts;
-        let sound_map = |text: Section, spans: Section, ids: Section| {
-            let fits = spans.as_ref().len() % SPAN_BYTES == 0 && ids.as_ref().len() * 4 == spans.as_ref().len();
-            fits.then(|| SoundMap { text, spans, ids: Postings::opened(ids) })
-        };
+        let [words, word_ids] = parts;
         if word_ids.as_ref().len() % 4 != 0 {
             return None;
         }
         let words = PostingMap { map: Map::new(words).ok()?, ids: Postings::opened(word_ids) };
-        Some(LexiconIndex {
-            words,
-            pronunciations: sound_map(text, spans, ids)?,
-            unstressed: sound_map(bare_text, bare_spans, bare_ids)?,
-            policy,
-            options,
-        })
+        Some(LexiconIndex { words, sounds: LazySounds { maps: OnceLock::new(), loader: Some(loader) }, policy, options })
     }
 
     /// The options the sounds-like maps were built with.
@@ -470,12 +524,12 @@ impl LexiconIndex {
     /// Entries whose pronunciation is exactly `pronunciation` (stress marks included).
     pub fn sounds_like(&self, pronunciation: &str) -> &[EntryId] {
         let folded = crate::lexicon::join_phones(pronunciation.split_whitespace());
-        self.pronunciations.get(&folded)
+        self.sounds.get().pronunciations.get(&folded)
     }
 
     /// Entries whose pronunciation equals `pronunciation` once stress marks are removed from both.
     pub fn sounds_like_unstressed(&self, pronunciation: &str) -> &[EntryId] {
-        self.unstressed.get(&self.options.strip_stress(pronunciation))
+        self.sounds.get().unstressed.get(&self.options.strip_stress(pronunciation))
     }
 
     /// Every normalised headword, in key order.
