@@ -25,6 +25,8 @@ pub enum ExportLayout {
 pub enum PlsAlphabet {
     /// IPA with stress marks before stressed syllables.
     Ipa,
+    /// X-SAMPA (Wells 1995) with stress marks " and % before stressed syllables.
+    XSampa,
     /// The phoneset's own symbols (alphabet x-orthoepy-<phoneset>).
     Symbols,
 }
@@ -99,6 +101,7 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
             let set = super::resolve_phoneset(None, project.as_ref())?;
             let alphabet = match args.alphabet {
                 PlsAlphabet::Ipa => orthoepy::pls::Alphabet::Ipa,
+                PlsAlphabet::XSampa => orthoepy::pls::Alphabet::XSampa,
                 PlsAlphabet::Symbols => orthoepy::pls::Alphabet::Symbols,
             };
             orthoepy::pls::write_pls(lexicon.entries(), lexicon.policy(), &set, alphabet, &args.lang)?
