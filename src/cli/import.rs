@@ -10,7 +10,8 @@ use std::process::ExitCode;
 /// Layouts `import` reads.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
 pub enum ImportLayout {
-    /// `word PH PH ...` per line, optional `(2)` variant suffix, `#` comments.
+    /// `word PH PH ...` per line, optional `(2)` variant suffix, `#` comments; `word PROB PH ...`
+    /// (a probability in 0..=1 as the second field) stores PROB as the entry's score.
     Plain,
     /// A W3C PLS 1.0 document, alphabet `ipa`, `x-sampa` or `x-orthoepy-<phoneset>`.
     Pls,
