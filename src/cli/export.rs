@@ -25,6 +25,8 @@ pub enum ExportLayout {
 pub enum PlsAlphabet {
     /// IPA with stress marks before stressed syllables.
     Ipa,
+    /// X-SAMPA (Wells 1995) with stress marks " and % before stressed syllables.
+    XSampa,
     /// The phoneset's own symbols (alphabet x-orthoepy-<phoneset>).
     Symbols,
 }
@@ -35,8 +37,12 @@ pub enum PlsAlphabet {
 /// OUT.sha256, written last, lists the files written (check it with `sha256sum -c` in OUT's
 /// folder before a build uses them: an export that was killed halfway leaves no list).
 ///
+/// With --with-probability each line is WORD<TAB>PROBABILITY<TAB>PHONES: an entry's score, or 1
+/// for an entry without one, normalised per word to sum to 1 (four decimals).
+///
 /// Examples:
 ///   orthoepy export lexicon.csv --format plain -o build/lexicon.txt --phones build/phones.txt
+///   orthoepy export lexicon.csv --with-probability -o build/lexiconp.txt
 ///   orthoepy export lexicon.csv --format pls --alphabet ipa --lang en-GB -o lexicon.pls
 #[derive(Debug, clap::Args)]
 #[command(verbatim_doc_comment)]
@@ -58,6 +64,9 @@ pub struct Args {
     /// Mark second and later pronunciations with (2), (3), ...
     #[arg(long)]
     variant_suffix: bool,
+    /// Plain only: a pronunciation-probability column after the word (WORD<TAB>PROB<TAB>PHONES).
+    #[arg(long)]
+    with_probability: bool,
     /// PLS only: the phoneme alphabet.
     #[arg(long, value_enum, default_value = "ipa")]
     alphabet: PlsAlphabet,
@@ -79,6 +88,9 @@ fn checksum_list_path(output: &Path) -> PathBuf {
 }
 
 pub fn run(args: Args) -> anyhow::Result<ExitCode> {
+    if args.with_probability && args.format != ExportLayout::Plain {
+        anyhow::bail!("--with-probability adds a column to the plain layout; PLS has no place for it (drop the option or use --format plain)");
+    }
     super::refuse_overwrite(&args.output, args.force)?;
     let to_stdout = args.output.as_os_str() == "-";
     let manifest = (!to_stdout).then(|| checksum_list_path(&args.output));
@@ -91,7 +103,12 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     let outputs: Vec<&Path> = [Some(&args.output), args.phones.as_ref(), manifest.as_ref()].into_iter().flatten().map(PathBuf::as_path).collect();
     super::remove_output_leftovers(&outputs)?;
     let (lexicon, project) = args.project.load_lexicon(args.lexicon.as_deref())?;
-    let options = PlainExport { strip_stress: args.strip_stress, variant_suffix: args.variant_suffix, ..Default::default() };
+    let options = PlainExport {
+        strip_stress: args.strip_stress,
+        variant_suffix: args.variant_suffix,
+        probability: args.with_probability,
+        ..Default::default()
+    };
     let build = write_plain(lexicon.entries(), lexicon.policy(), &options);
     let text = match args.format {
         ExportLayout::Plain => build.text.clone(),
@@ -99,6 +116,7 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
             let set = super::resolve_phoneset(None, project.as_ref())?;
             let alphabet = match args.alphabet {
                 PlsAlphabet::Ipa => orthoepy::pls::Alphabet::Ipa,
+                PlsAlphabet::XSampa => orthoepy::pls::Alphabet::XSampa,
                 PlsAlphabet::Symbols => orthoepy::pls::Alphabet::Symbols,
             };
             orthoepy::pls::write_pls(lexicon.entries(), lexicon.policy(), &set, alphabet, &args.lang)?

@@ -10,9 +10,10 @@ use std::process::ExitCode;
 /// Layouts `import` reads.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
 pub enum ImportLayout {
-    /// `word PH PH ...` per line, optional `(2)` variant suffix, `#` comments.
+    /// `word PH PH ...` per line, optional `(2)` variant suffix, `#` comments; `word PROB PH ...`
+    /// (a probability in 0..=1 as the second field) stores PROB as the entry's score.
     Plain,
-    /// A W3C PLS 1.0 document, alphabet `ipa` or `x-orthoepy-<phoneset>`.
+    /// A W3C PLS 1.0 document, alphabet `ipa`, `x-sampa` or `x-orthoepy-<phoneset>`.
     Pls,
 }
 
@@ -62,21 +63,36 @@ fn project_of(output: &Path) -> Option<Project> {
     (absolute(&project.lexicon)? == target).then_some(project)
 }
 
-/// Reads `file` in `layout`: the entries, and one message per item that could not be read.
-pub fn read_layout(
-    layout: ImportLayout,
-    file: &Path,
-    phoneset: &orthoepy::phoneset::Phoneset,
-    source: &str,
-) -> anyhow::Result<(Vec<orthoepy::lexicon::Entry>, Vec<String>)> {
+/// What was read from a file in another layout.
+pub struct LayoutRead {
+    /// The entries.
+    pub entries: Vec<orthoepy::lexicon::Entry>,
+    /// One message per item that could not be read.
+    pub rejected: Vec<String>,
+    /// One message per item kept with a remark (a PLS alias nothing in the document pronounces).
+    pub notes: Vec<String>,
+}
+
+impl LayoutRead {
+    /// Prints the rejected items and the notes on stderr.
+    pub fn report(&self) {
+        for line in self.rejected.iter().chain(&self.notes) {
+            eprintln!("{line}");
+        }
+    }
+}
+
+/// Reads `file` in `layout`.
+pub fn read_layout(layout: ImportLayout, file: &Path, phoneset: &orthoepy::phoneset::Phoneset, source: &str) -> anyhow::Result<LayoutRead> {
+    let lines = |items: &[orthoepy::support::located::Located]| items.iter().map(ToString::to_string).collect();
     Ok(match layout {
         ImportLayout::Plain => {
             let import = read_plain_file(file, source)?;
-            (import.entries, import.rejected.iter().map(ToString::to_string).collect())
+            LayoutRead { rejected: lines(&import.rejected), entries: import.entries, notes: Vec::new() }
         }
         ImportLayout::Pls => {
             let import = orthoepy::pls::read_pls_file(file, phoneset, source)?;
-            (import.entries, import.rejected.iter().map(ToString::to_string).collect())
+            LayoutRead { rejected: lines(&import.rejected), notes: lines(&import.notes), entries: import.entries }
         }
     })
 }
@@ -93,15 +109,14 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
         args.file.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_default()
     });
     let phoneset = super::resolve_phoneset(Some(&args.phoneset), None)?;
-    let (entries, rejected) = read_layout(args.layout, &args.file, &phoneset, &source)?;
-    for bad in &rejected {
-        eprintln!("{bad}");
-    }
-    if args.strict && !rejected.is_empty() {
-        anyhow::bail!("{} item(s) could not be read; nothing was written", rejected.len());
+    let read = read_layout(args.layout, &args.file, &phoneset, &source)?;
+    read.report();
+    let rejected = read.rejected.len();
+    if args.strict && rejected > 0 {
+        anyhow::bail!("{rejected} item(s) could not be read; nothing was written");
     }
     let policy = orthoepy::lexicon::HeadwordPolicy { fold_case: args.fold_case };
-    let mut lexicon = Lexicon::from_entries(entries, policy);
+    let mut lexicon = Lexicon::from_entries(read.entries, policy);
     let outside = lexicon.entries().iter().filter(|e| phoneset.parse(&e.pronunciation).is_err()).count();
     let words = lexicon.headword_count();
     lexicon.save_as(&args.output).context("cannot write the lexicon")?;
@@ -110,7 +125,7 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
         lexicon.entries().len(),
         words,
         args.output.display(),
-        rejected.len(),
+        rejected,
         outside,
         phoneset.id(),
     );

@@ -68,11 +68,9 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
             let is_pls = file.extension().is_some_and(|e| e.eq_ignore_ascii_case("pls") || e.eq_ignore_ascii_case("xml"));
             let layout = if is_pls { ImportLayout::Pls } else { ImportLayout::Plain };
             let source = file.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_default();
-            let (entries, rejected) = read_layout(layout, file, &phoneset, &source)?;
-            for bad in &rejected {
-                eprintln!("{bad}");
-            }
-            entries
+            let read = read_layout(layout, file, &phoneset, &source)?;
+            read.report();
+            read.entries
         }
     };
     std::fs::create_dir_all(&dir).with_context(|| format!("cannot create {}", dir.display()))?;

@@ -2,10 +2,15 @@
 //!
 //! A line is a headword, whitespace, then phone symbols separated by whitespace. A headword may
 //! carry a `(2)`-style variant suffix, text after `#` is a comment, and blank lines are skipped.
+//! A line whose second field is a decimal number (`0.25`, `.5`, `1`, `2e-3`) is in the layout
+//! with a pronunciation-probability column that recogniser builds take (word, probability,
+//! phones; common practice): the number, which must lie in 0..=1, becomes the entry's score.
+//! Phone symbols are never numbers, so a lexicon without the column reads as before.
 //! Reading keeps every line it can split into a headword and phones, whatever the phones are (the
 //! audit judges them), and reports each line it cannot take with its number. Writing produces the
-//! deterministic build lexicon: sorted, one line per pronunciation, stress kept or stripped, and the
-//! phone inventory that goes with it. This module does not validate phones against a phoneset.
+//! deterministic build lexicon: sorted, one line per pronunciation, stress kept or stripped, with
+//! or without the probability column, and the phone inventory that goes with it. This module
+//! does not validate phones against a phoneset.
 
 use super::entry::{join_phones, Entry, Status};
 use super::index::IndexOptions;
@@ -57,6 +62,8 @@ pub fn read_plain_file(path: &Path, source: &str) -> Result<PlainImport, ReadErr
 /// assert_eq!(import.entries.len(), 2);
 /// assert_eq!(import.entries[1].note, "rare");
 /// assert_eq!(import.rejected[0].line(), Some(5)); // a word with no phones
+/// let with = read_plain(b"quay\t0.75\tK IY1\nquay\t0.25\tK EY1\n", "p.dict", "p");
+/// assert_eq!((with.entries[1].pronunciation.as_str(), with.entries[1].score), ("K EY1", Some(0.25)));
 /// ```
 pub fn read_plain(bytes: &[u8], origin: &str, source: &str) -> PlainImport {
     let mut import = PlainImport::default();
@@ -82,8 +89,9 @@ pub fn read_plain(bytes: &[u8], origin: &str, source: &str) -> PlainImport {
         }
         import.content_lines += 1;
         match parse_line(content) {
-            Ok((word, phones)) => {
+            Ok((word, probability, phones)) => {
                 let mut entry = Entry::new(word, phones);
+                entry.score = probability;
                 entry.status = Status::Imported;
                 entry.source = source.to_string();
                 entry.note = comment.to_string();
@@ -96,7 +104,9 @@ pub fn read_plain(bytes: &[u8], origin: &str, source: &str) -> PlainImport {
     import
 }
 
-fn parse_line(content: &str) -> Result<(&str, &str), (usize, String)> {
+/// A content line's headword, probability (when the line has the column) and phones; or the
+/// character column and message of why it cannot be read.
+fn parse_line(content: &str) -> Result<(&str, Option<f64>, &str), (usize, String)> {
     let start = content.len() - content.trim_start().len();
     let rest = &content[start..];
     let split = rest.find(char::is_whitespace).unwrap_or(rest.len());
@@ -119,7 +129,49 @@ fn parse_line(content: &str) -> Result<(&str, &str), (usize, String)> {
             return Err((offset + at, format!("{what} holds the control character U+{:04X}; remove it", control as u32)));
         }
     }
-    Ok((word, phones.trim()))
+    let (probability, phones) = split_probability(word, phones, rest_column)?;
+    Ok((word, probability, phones))
+}
+
+/// Splits a leading probability off `rest` (what follows the headword, starting at character
+/// `column`) when its first field is a number; the number must be a probability and be followed
+/// by phones that do not start with a second number.
+fn split_probability<'a>(word: &str, rest: &'a str, column: usize) -> Result<(Option<f64>, &'a str), (usize, String)> {
+    let trimmed = rest.trim_start();
+    let column = column + rest[..rest.len() - trimmed.len()].chars().count();
+    let end = trimmed.find(char::is_whitespace).unwrap_or(trimmed.len());
+    let (field, phones) = (&trimmed[..end], trimmed[end..].trim());
+    let Some(value) = number(field) else { return Ok((None, trimmed.trim_end())) };
+    if !(0.0..=1.0).contains(&value) {
+        return Err((column, format!("{field} after {word:?} reads as a pronunciation probability but is not in 0 to 1; write a probability, or remove the column")));
+    }
+    let phones_column = column + field.chars().count() + trimmed[end..].chars().take_while(|c| c.is_whitespace()).count();
+    match phones.split_whitespace().next() {
+        None => Err((phones_column, format!("{word:?} has a probability but no pronunciation; add phones after it or delete the line"))),
+        Some(next) if number(next).is_some() => Err((
+            phones_column,
+            format!("{next} is a second number after the probability of {word:?}; this layout is WORD PROBABILITY PHONES with one number (other columns are not read)"),
+        )),
+        Some(_) => Ok((Some(value), phones)),
+    }
+}
+
+/// `field` as a number when it is written as one: an optional sign, digits with an optional
+/// decimal point (`1`, `0.25`, `.5`, `1.`), an optional exponent (`2e-3`). Nothing else, so no
+/// phone symbol is ever taken for one.
+fn number(field: &str) -> Option<f64> {
+    let unsigned = field.strip_prefix(['+', '-']).unwrap_or(field);
+    let (mantissa, exponent) = match unsigned.find(['e', 'E']) {
+        Some(i) => (&unsigned[..i], Some(&unsigned[i + 1..])),
+        None => (unsigned, None),
+    };
+    let digits = |s: &str| !s.is_empty() && s.bytes().all(|b| b.is_ascii_digit());
+    let mantissa_ok = match mantissa.split_once('.') {
+        Some((whole, fraction)) => (digits(whole) || digits(fraction)) && [whole, fraction].iter().all(|p| p.is_empty() || digits(p)),
+        None => digits(mantissa),
+    };
+    let exponent_ok = exponent.map_or(true, |e| digits(e.strip_prefix(['+', '-']).unwrap_or(e)));
+    (mantissa_ok && exponent_ok).then(|| field.parse().ok()).flatten()
 }
 
 /// Removes a `(N)` variant suffix: `quay(2)` → `quay`.
@@ -148,14 +200,23 @@ pub struct PlainExport {
     pub strip_stress: bool,
     /// Mark second and later pronunciations of a word with `(2)`, `(3)`, ...
     pub variant_suffix: bool,
+    /// Write `WORD<TAB>PROBABILITY<TAB>PHONES` (see [`write_plain`]).
+    pub probability: bool,
     /// How stress marks are written (used when `strip_stress` is set).
     pub index_options: IndexOptions,
 }
 
+/// Decimal places of a written pronunciation probability.
+pub const PROBABILITY_DECIMALS: usize = 4;
+
+/// The probabilities of a word's pronunciations are written as whole multiples of one in this.
+const PROBABILITY_UNITS: u32 = 10u32.pow(PROBABILITY_DECIMALS as u32);
+
 /// The build lexicon: its text and the phone inventory it uses.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct BuildLexicon {
-    /// One line per pronunciation: normalised headword, a space, phones.
+    /// One line per pronunciation: normalised headword, a space (a tab, the probability and a
+    /// tab with [`PlainExport::probability`]), phones.
     pub text: String,
     /// Every phone symbol used, sorted by code point.
     pub phones: BTreeSet<String>,
@@ -163,9 +224,33 @@ pub struct BuildLexicon {
     pub lines: usize,
 }
 
+impl BuildLexicon {
+    fn push_line(&mut self, word: &str, rank: usize, units: Option<u32>, phones: &str, variant_suffix: bool) {
+        self.text.push_str(word);
+        if variant_suffix && rank > 0 {
+            self.text.push_str(&format!("({})", rank + 1));
+        }
+        match units {
+            Some(units) => self.text.push_str(&format!("\t{}\t", probability_text(units))),
+            None => self.text.push(' '),
+        }
+        self.text.push_str(phones);
+        self.text.push('\n');
+        self.lines += 1;
+        self.phones.extend(phones.split(' ').map(str::to_string));
+    }
+}
+
 /// Writes the build lexicon from entries: deprecated entries are left out; headwords are written as
 /// their normalised key (NFC, case-folded when the policy folds case); lines are sorted by headword,
 /// then by the order of the word's pronunciations in `entries`.
+///
+/// With [`PlainExport::probability`] each line is `WORD<TAB>PROBABILITY<TAB>PHONES`: an entry
+/// weighs its score (below zero counts as zero), an entry without a score weighs 1, lines that
+/// are one pronunciation (after stress is stripped, say) add their weights, and each word's
+/// weights are normalised to sum to 1 (all zero: equal shares). Probabilities are written with
+/// [`PROBABILITY_DECIMALS`] decimals, rounded so that a word's written values sum to exactly 1
+/// (largest remainders) and a pronunciation of weight above zero never shows 0.
 ///
 /// ```
 /// use orthoepy::lexicon::{Entry, HeadwordPolicy};
@@ -175,9 +260,12 @@ pub struct BuildLexicon {
 /// let build = write_plain(&entries, &HeadwordPolicy::default(), &options);
 /// assert_eq!(build.text, "ferry F EH R IY\nquay K IY\n");
 /// assert_eq!(build.phones.into_iter().collect::<Vec<_>>(), ["EH", "F", "IY", "K", "R"]);
+/// let options = PlainExport { probability: true, ..Default::default() };
+/// let build = write_plain(&entries, &HeadwordPolicy::default(), &options);
+/// assert_eq!(build.text, "ferry\t1.0000\tF EH1 R IY0\nquay\t0.5000\tK IY1\nquay\t0.5000\tK IY0\n");
 /// ```
 pub fn write_plain(entries: &[Entry], policy: &HeadwordPolicy, options: &PlainExport) -> BuildLexicon {
-    let mut rows: Vec<(String, usize, String)> = entries
+    let mut rows: Vec<(String, usize, String, f64)> = entries
         .iter()
         .enumerate()
         .filter(|(_, e)| e.status != Status::Deprecated && !e.pronunciation.trim().is_empty())
@@ -187,33 +275,69 @@ pub fn write_plain(entries: &[Entry], policy: &HeadwordPolicy, options: &PlainEx
             } else {
                 join_phones(e.pronunciation.split_whitespace())
             };
-            (normalize_key(e.word.trim(), policy).into_owned(), i, phones)
+            (normalize_key(e.word.trim(), policy).into_owned(), i, phones, weight(e))
         })
         .collect();
-    rows.sort();
+    rows.sort_by(|a, b| (&a.0, a.1).cmp(&(&b.0, b.1)));
     let mut build = BuildLexicon { text: String::new(), phones: BTreeSet::new(), lines: 0 };
-    let mut seen_for_word: Vec<&str> = Vec::new();
-    let mut current: Option<&str> = None;
-    for (word, _, phones) in &rows {
-        if current != Some(word.as_str()) {
-            current = Some(word);
-            seen_for_word.clear();
+    for word in rows.chunk_by(|a, b| a.0 == b.0) {
+        let lines = merged(word);
+        let units = options.probability.then(|| shares(&lines.iter().map(|l| l.1).collect::<Vec<_>>()));
+        for (rank, (phones, _)) in lines.iter().enumerate() {
+            let share = units.as_ref().and_then(|u| u.get(rank).copied());
+            build.push_line(&word[0].0, rank, share, phones, options.variant_suffix);
         }
-        if seen_for_word.contains(&phones.as_str()) {
-            continue;
-        }
-        seen_for_word.push(phones);
-        build.text.push_str(word);
-        if options.variant_suffix && seen_for_word.len() > 1 {
-            build.text.push_str(&format!("({})", seen_for_word.len()));
-        }
-        build.text.push(' ');
-        build.text.push_str(phones);
-        build.text.push('\n');
-        build.lines += 1;
-        build.phones.extend(phones.split(' ').map(str::to_string));
     }
     build
+}
+
+/// The weight of an entry's pronunciation: its score (at least 0), else 1.
+fn weight(entry: &Entry) -> f64 {
+    entry.score.filter(|s| s.is_finite()).map_or(1.0, |s| s.max(0.0))
+}
+
+/// One word's distinct phone strings in order, each with the sum of its rows' weights.
+fn merged(rows: &[(String, usize, String, f64)]) -> Vec<(&str, f64)> {
+    let mut lines: Vec<(&str, f64)> = Vec::new();
+    for (_, _, phones, weight) in rows {
+        match lines.iter_mut().find(|(p, _)| p == phones) {
+            Some(line) => line.1 += weight,
+            None => lines.push((phones, *weight)),
+        }
+    }
+    lines
+}
+
+/// Weights as shares of [`PROBABILITY_UNITS`] that sum to it exactly: each share rounded down,
+/// the units left over given to the largest remainders (first in order on a tie), then every
+/// share of a weight above zero raised to at least one unit, taken from the largest share.
+fn shares(weights: &[f64]) -> Vec<u32> {
+    let top = weights.iter().copied().fold(0.0, f64::max);
+    // Scaled by the largest first, so sums of huge scores do not overflow.
+    let scaled: Vec<f64> = weights.iter().map(|&w| if top > 0.0 { w / top } else { 1.0 }).collect();
+    let total: f64 = scaled.iter().sum();
+    let exact: Vec<f64> = scaled.iter().map(|w| w / total * f64::from(PROBABILITY_UNITS)).collect();
+    let mut units: Vec<u32> = exact.iter().map(|x| x.floor() as u32).collect();
+    let short = PROBABILITY_UNITS.saturating_sub(units.iter().sum());
+    let mut by_remainder: Vec<usize> = (0..units.len()).collect();
+    by_remainder.sort_by(|&a, &b| (exact[b] - exact[b].floor()).total_cmp(&(exact[a] - exact[a].floor())).then(a.cmp(&b)));
+    for &i in by_remainder.iter().cycle().take(short as usize) {
+        units[i] += 1;
+    }
+    for i in 0..units.len() {
+        let largest = (0..units.len()).max_by_key(|&j| (units[j], std::cmp::Reverse(j)));
+        if let Some(j) = largest.filter(|&j| units[i] == 0 && scaled[i] > 0.0 && units[j] > 1) {
+            units[j] -= 1;
+            units[i] = 1;
+        }
+    }
+    units
+}
+
+/// A share of [`PROBABILITY_UNITS`] as a decimal: `2500` → `0.2500`.
+fn probability_text(units: u32) -> String {
+    let scale = PROBABILITY_UNITS;
+    format!("{}.{:0width$}", units / scale, units % scale, width = PROBABILITY_DECIMALS)
 }
 
 #[cfg(test)]
@@ -261,5 +385,64 @@ mod tests {
         let build = write_plain(&entries, &HeadwordPolicy::default(), &options);
         assert_eq!(build.text, "pier P IH1 R\nquay K IY1\nquay(2) K EY1\n");
         assert_eq!(build.lines, 3);
+    }
+
+    #[test]
+    fn a_number_after_the_word_is_a_probability() {
+        let import = read_plain(b"quay\t0.75\tK IY1\nquay .25 K EY1\nferry F EH1 R IY0\npier 1 P IH1 R\n", "t.dict", "t");
+        assert!(import.rejected.is_empty(), "{:?}", import.rejected);
+        let got: Vec<(&str, Option<f64>)> = import.entries.iter().map(|e| (e.pronunciation.as_str(), e.score)).collect();
+        assert_eq!(got, [("K IY1", Some(0.75)), ("K EY1", Some(0.25)), ("F EH1 R IY0", None), ("P IH1 R", Some(1.0))]);
+    }
+
+    #[test]
+    fn numbers_that_are_not_a_probability_are_rejected_where_they_stand() {
+        let import = read_plain(b"quay 1.5 K IY1\nquay 0.5\nquay 0.5 0.1 K IY1\nquay -0.2 K IY1\n", "t.dict", "t");
+        assert!(import.entries.is_empty());
+        let found: Vec<(usize, usize)> = import.rejected.iter().map(|r| (r.line().unwrap_or(0), r.column().unwrap_or(0))).collect();
+        assert_eq!(found, [(1, 6), (2, 9), (3, 10), (4, 6)]);
+        assert!(import.rejected[0].message.contains("not in 0 to 1"), "{}", import.rejected[0]);
+        assert!(import.rejected[1].message.contains("no pronunciation"), "{}", import.rejected[1]);
+        assert!(import.rejected[2].message.contains("second number"), "{}", import.rejected[2]);
+    }
+
+    #[test]
+    fn only_numbers_written_as_numbers_are_taken() {
+        for (field, value) in [("0.25", Some(0.25)), (".5", Some(0.5)), ("1.", Some(1.0)), ("1e-4", Some(0.0001)), ("+1", Some(1.0))] {
+            assert_eq!(number(field), value, "{field}");
+        }
+        // Phone symbols of the shipped sets (AH0, ˈa) and things Rust's float parser would take.
+        for not in ["AH0", "1a", ".", "e5", "", "0.5.1", "inf", "NaN", "1e", "-", "ˈa", "1_000"] {
+            assert_eq!(number(not), None, "{not}");
+        }
+    }
+
+    #[test]
+    fn shares_sum_to_one_and_keep_small_ones_visible() {
+        let sum = |u: &[u32]| u.iter().sum::<u32>();
+        assert_eq!(shares(&[1.0, 1.0, 1.0]), [3334, 3333, 3333]);
+        assert_eq!(shares(&[0.0, 0.0]), [5000, 5000]);
+        assert_eq!(shares(&[1.0, 0.0]), [10_000, 0]);
+        let tiny = shares(&[1.0, 1e-9, 1e-9]);
+        assert_eq!(tiny, [9998, 1, 1]);
+        let huge = shares(&[f64::MAX, f64::MAX, 1.0]);
+        assert_eq!((sum(&huge), huge[0] + huge[1], huge[2]), (10_000, 9999, 1));
+        let odd = shares(&[0.2857, 0.7143]);
+        assert_eq!(odd, [2857, 7143]);
+        assert_eq!(probability_text(2857), "0.2857");
+        assert_eq!(probability_text(10_000), "1.0000");
+    }
+
+    #[test]
+    fn probabilities_come_from_scores_and_merged_lines_add() {
+        let mut variant = Entry::new("butter", "B AH1 DX ER0");
+        variant.score = Some(0.25);
+        let entries = [Entry::new("butter", "B AH1 T ER0"), variant, Entry::new("quay", "K IY1"), Entry::new("quay", "K IY0"), Entry::new("quay", "K EY1")];
+        let options = PlainExport { probability: true, ..Default::default() };
+        let build = write_plain(&entries, &HeadwordPolicy::default(), &options);
+        assert_eq!(build.text, "butter\t0.8000\tB AH1 T ER0\nbutter\t0.2000\tB AH1 DX ER0\nquay\t0.3334\tK IY1\nquay\t0.3333\tK IY0\nquay\t0.3333\tK EY1\n");
+        let stripped = PlainExport { strip_stress: true, variant_suffix: true, ..options };
+        let build = write_plain(&entries, &HeadwordPolicy::default(), &stripped);
+        assert!(build.text.ends_with("quay\t0.6667\tK IY\nquay(2)\t0.3333\tK EY\n"), "{}", build.text);
     }
 }

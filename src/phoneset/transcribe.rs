@@ -14,11 +14,17 @@
 //! Reading segments by longest match over the phones' renderings, phonemes before allophones
 //! of the same length; a mark gives the next nucleus its level, a stress-dependent rendering
 //! gives its own level (ə → `AH` unstressed), and other nuclei are unstressed when the
-//! phoneset declares an unstressed mark.
+//! phoneset declares an unstressed mark. Renderings and the text read are compared in Unicode
+//! canonical decomposition (NFD, UAX #15), so a precomposed ĩ matches i + U+0303 COMBINING
+//! TILDE; a diacritic (ː, ˑ, ̃, ̩ ...) is read only as part of a phone the phoneset lists with
+//! it, and one that follows a phone without forming a listed phone is an error naming the
+//! symbol, the phone it follows and the phoneset.
 
 use std::collections::HashSet;
 
 use thiserror::Error;
+use unicode_normalization::char::{canonical_combining_class, decompose_canonical};
+use unicode_normalization::UnicodeNormalization;
 
 use super::phone::Phone;
 use super::pronunciation::{PhoneToken, Pronunciation, PronunciationError};
@@ -66,6 +72,23 @@ impl Alphabet {
             (Alphabet::XSampa, StressLevel::Primary) => Some('"'),
             (Alphabet::XSampa, StressLevel::Secondary) => Some('%'),
             _ => None,
+        }
+    }
+
+    /// Whether `c` is a diacritic of this alphabet: a mark that modifies the phone before it and
+    /// never starts one. IPA: combining marks, and the spacing modifier letters, superscripts and
+    /// phonetic-extension modifiers (ː ˑ ʰ ʷ ʲ ⁿ ...; IPA chart 2020, diacritics and
+    /// suprasegmentals); X-SAMPA: `: = ~ _ ` ' \` (Wells 1995).
+    fn is_diacritic(self, c: char) -> bool {
+        match self {
+            Alphabet::Ipa => {
+                unicode_normalization::char::is_combining_mark(c)
+                    || ('\u{02B0}'..='\u{02FF}').contains(&c)
+                    || ('\u{1D2C}'..='\u{1DBF}').contains(&c)
+                    || ('\u{2070}'..='\u{209F}').contains(&c)
+            }
+            Alphabet::XSampa => matches!(c, ':' | '=' | '~' | '_' | '`' | '\'' | '\\'),
+            Alphabet::Symbols => false,
         }
     }
 
@@ -133,13 +156,16 @@ impl Onsets {
 #[derive(Debug, Clone, PartialEq, Error)]
 pub enum TranscriptionError {
     /// A stretch of the transcription is the rendering of no phone.
-    #[error("{alphabet} {found:?} at character {column} matches no phone of {phoneset}")]
+    #[error("{}", no_phone_message(.alphabet, .found, .after.as_deref(), *.column, .phoneset))]
     NoPhone {
         /// The alphabet read (`ipa`, `x-sampa`).
         alphabet: &'static str,
-        /// The first unmatched character.
+        /// The unmatched characters (up to where a phone or a break starts again), in NFD.
         found: String,
-        /// Its 1-based character column.
+        /// The rendering of the phone read just before, when `found` is a diacritic that follows
+        /// it directly (ː after i): the phoneset has no phone written as the two together.
+        after: Option<String>,
+        /// The 1-based character column of `found` in the text as given.
         column: usize,
         /// The phoneset id.
         phoneset: String,
@@ -147,6 +173,38 @@ pub enum TranscriptionError {
     /// Phoneset symbols that do not parse.
     #[error(transparent)]
     Symbols(#[from] PronunciationError),
+}
+
+/// The message of [`TranscriptionError::NoPhone`]: the characters with their code points, and
+/// the phone they follow when they follow one.
+fn no_phone_message(alphabet: &str, found: &str, after: Option<&str>, column: usize, phoneset: &str) -> String {
+    let points: Vec<String> = found.chars().map(|c| format!("U+{:04X}", c as u32)).collect();
+    let points = points.join(" ");
+    match after {
+        Some(before) => format!(
+            "{alphabet} {found:?} ({points}) after {before:?} at character {column}: {phoneset} has no phone written {:?}; \
+             use a phoneset that lists it, or write the phone as {phoneset} does",
+            format!("{before}{found}")
+        ),
+        None => format!("{alphabet} {found:?} ({points}) at character {column} matches no phone of {phoneset}"),
+    }
+}
+
+/// `text` in canonical decomposition (NFD, UAX #15), each character paired with the index of
+/// the character of `text` it comes from (so errors name the column the writer sees).
+fn decomposed(text: &str) -> Vec<(char, usize)> {
+    let mut out: Vec<(char, usize)> = Vec::with_capacity(text.len());
+    for (i, c) in text.chars().enumerate() {
+        decompose_canonical(c, |d| out.push((d, i)));
+    }
+    // Canonical ordering: each run of combining marks sorted (stably) by combining class.
+    let mut start = 0;
+    while start < out.len() {
+        let run = out[start..].iter().take_while(|(c, _)| canonical_combining_class(*c) != 0).count();
+        out[start..start + run].sort_by_key(|(c, _)| canonical_combining_class(*c));
+        start += run.max(1);
+    }
+    out
 }
 
 /// One rendering a reader may meet: its characters, the phone, the level it implies.
@@ -172,9 +230,9 @@ impl Forms {
             let mut forms: Vec<(bool, Form)> = Vec::new();
             for (i, p) in phones.iter().enumerate() {
                 let phone = i as PhoneId;
-                forms.push((p.is_allophone(), Form { text: plain(p).chars().collect(), phone, level: None }));
+                forms.push((p.is_allophone(), Form { text: plain(p).nfd().collect(), phone, level: None }));
                 for f in &p.by_stress {
-                    forms.push((p.is_allophone(), Form { text: stressed(f).chars().collect(), phone, level: Some(f.level) }));
+                    forms.push((p.is_allophone(), Form { text: stressed(f).nfd().collect(), phone, level: Some(f.level) }));
                 }
             }
             forms.retain(|(_, f)| !f.text.is_empty());
@@ -225,29 +283,42 @@ impl Phoneset {
         let tokens: Vec<(PhoneId, &Phone, Option<StressLevel>)> =
             pron.phones.iter().filter_map(|t| self.get(t.phone).map(|p| (t.phone, p, t.stress))).collect();
         let marks = mark_positions(&tokens, alphabet, onsets);
-        let texts: Vec<Vec<char>> = tokens
+        let texts: Vec<&str> = tokens
             .iter()
             .map(|(_, p, level)| match alphabet {
-                Alphabet::XSampa => p.xsampa_at(*level).chars().collect(),
-                _ => p.ipa_at(*level).chars().collect(),
+                Alphabet::XSampa => p.xsampa_at(*level),
+                _ => p.ipa_at(*level),
             })
             .collect();
-        let all: Vec<char> = texts.iter().flatten().copied().collect();
+        let breaks = self.breaks(&texts, &marks, alphabet);
         let mut out = String::new();
-        let mut at = 0;
         for (i, text) in texts.iter().enumerate() {
             if let Some(mark) = marks.get(i).copied().flatten() {
                 out.push(mark);
             }
-            out.extend(text.iter());
-            let next_unmarked = i + 1 < texts.len() && marks.get(i + 1).is_some_and(Option::is_none);
-            let merges = self.forms.longest(alphabet, &all[at..]).is_some_and(|f| f.text.len() != text.len());
-            if next_unmarked && merges {
+            out.push_str(text);
+            if breaks.get(i).copied().unwrap_or(false) {
                 out.push('.');
             }
-            at += text.len();
         }
         out
+    }
+
+    /// After which rendered tokens a `.` goes: where the next token has no stress mark before it
+    /// and a reader would take this token and what follows as one longer phone.
+    fn breaks(&self, texts: &[&str], marks: &[Option<char>], alphabet: Alphabet) -> Vec<bool> {
+        let nfd: Vec<Vec<char>> = texts.iter().map(|t| t.nfd().collect()).collect();
+        let all: Vec<char> = nfd.iter().flatten().copied().collect();
+        let mut at = 0;
+        nfd.iter()
+            .enumerate()
+            .map(|(i, text)| {
+                let next_unmarked = i + 1 < nfd.len() && marks.get(i + 1).is_some_and(Option::is_none);
+                let merges = self.forms.longest(alphabet, &all[at..]).is_some_and(|f| f.text.len() != text.len());
+                at += text.len();
+                next_unmarked && merges
+            })
+            .collect()
     }
 
     /// Reads a transcription written in `alphabet` back into phones of this set (see the module
@@ -261,16 +332,18 @@ impl Phoneset {
     /// let about = set.read_transcription("@\"baUt", Alphabet::XSampa).unwrap();
     /// assert_eq!(about.render(&set), "AH0 B AW1 T");
     /// assert!(set.read_transcription("ʘ", Alphabet::Ipa).is_err());
+    /// let long = set.read_transcription("ˈsiːt", Alphabet::Ipa).unwrap_err().to_string();
+    /// assert!(long.contains("after \"i\" at character 4: en-arpa has no phone written \"iː\""), "{long}");
     /// ```
     pub fn read_transcription(&self, text: &str, alphabet: Alphabet) -> Result<Pronunciation, TranscriptionError> {
         if alphabet == Alphabet::Symbols {
             return Ok(self.parse(text)?);
         }
-        let chars: Vec<char> = text.chars().collect();
-        let is_boundary = |c: char| c.is_whitespace() || c == '.';
-        let declared = |level: StressLevel| self.mark_for(level).is_some().then_some(level);
+        let (chars, origin): (Vec<char>, Vec<usize>) = decomposed(text).into_iter().unzip();
         let mut phones = Vec::new();
         let mut pending: Option<StressLevel> = None;
+        // The form read last and the index just after it.
+        let mut previous: Option<(usize, &Form)> = None;
         let mut i = 0;
         while let Some(&c) = chars.get(i) {
             if let Some(level) = alphabet.level_of_mark(c) {
@@ -285,24 +358,40 @@ impl Phoneset {
             // A phone never spans a syllable break or a space.
             let end = chars[i..].iter().position(|&c| is_boundary(c)).map_or(chars.len(), |n| i + n);
             let Some(form) = self.forms.longest(alphabet, &chars[i..end]) else {
-                return Err(TranscriptionError::NoPhone {
-                    alphabet: alphabet.name(),
-                    found: c.to_string(),
-                    column: i + 1,
-                    phoneset: self.id.clone(),
-                });
+                let found: String = chars[i..self.unmatched_end(alphabet, &chars[..end], i)].iter().collect();
+                let after = previous.filter(|(e, _)| *e == i && alphabet.is_diacritic(c)).map(|(_, f)| f.text.iter().collect());
+                let column = origin.get(i).map_or(i, |&o| o) + 1;
+                return Err(TranscriptionError::NoPhone { alphabet: alphabet.name(), found, after, column, phoneset: self.id.clone() });
             };
-            let nucleus = self.get(form.phone).is_some_and(Phone::is_nucleus);
-            let stress = if nucleus {
-                pending.take().or(form.level).or(Some(StressLevel::Unstressed)).and_then(declared)
-            } else {
-                None
-            };
-            phones.push(PhoneToken { phone: form.phone, stress });
+            phones.push(PhoneToken { phone: form.phone, stress: self.stress_read(form, &mut pending) });
             i += form.text.len();
+            previous = Some((i, form));
         }
         Ok(Pronunciation { phones })
     }
+
+    /// The stress a form read gets: a nucleus takes the pending mark, else its form's own level,
+    /// else unstressed; levels the phoneset declares no mark for are dropped.
+    fn stress_read(&self, form: &Form, pending: &mut Option<StressLevel>) -> Option<StressLevel> {
+        if !self.get(form.phone).is_some_and(Phone::is_nucleus) {
+            return None;
+        }
+        let level = pending.take().or(form.level).unwrap_or(StressLevel::Unstressed);
+        self.mark_for(level).is_some().then_some(level)
+    }
+
+    /// Where a stretch that no rendering starts at, from `start`, ends: at the next character a
+    /// rendering or a stress mark starts at, or the end of `chars`.
+    fn unmatched_end(&self, alphabet: Alphabet, chars: &[char], start: usize) -> usize {
+        (start + 1..chars.len())
+            .find(|&k| alphabet.level_of_mark(chars[k]).is_some() || self.forms.longest(alphabet, &chars[k..]).is_some())
+            .unwrap_or(chars.len())
+    }
+}
+
+/// A syllable break or a space: never inside a phone.
+fn is_boundary(c: char) -> bool {
+    c.is_whitespace() || c == '.'
 }
 
 /// For each token, the stress mark written before it: before the longest legal onset that
@@ -375,10 +464,28 @@ mod tests {
         assert_eq!(set.read_transcription(&xsampa, Alphabet::XSampa).unwrap(), drawing);
     }
 
+    /// `decomposed` gives NFD (UAX #15: canonical decomposition, then canonical ordering of
+    /// combining marks), each character with the index of the one it came from.
+    #[test]
+    fn decomposition_is_nfd_and_keeps_origins() {
+        for text in ["ĩː", "ç", "q\u{303}\u{323}", "ạ̃", "l̩", "t͡ʃ", "ǖ"] {
+            let got: String = decomposed(text).into_iter().map(|(c, _)| c).collect();
+            assert_eq!(got, text.nfd().collect::<String>(), "{text}");
+        }
+        assert_eq!(decomposed("ĩx"), [('i', 0), ('\u{303}', 0), ('x', 1)]);
+    }
+
     #[test]
     fn unknown_characters_are_located() {
         let err = arpa().read_transcription("ˈkʘt", Alphabet::Ipa).unwrap_err();
-        assert_eq!(err.to_string(), "ipa \"ʘ\" at character 3 matches no phone of en-arpa");
+        assert_eq!(err.to_string(), "ipa \"ʘ\" (U+0298) at character 3 matches no phone of en-arpa");
+        // A diacritic the phoneset has no phone for is named with the phone it follows: the
+        // nasalisation tilde U+0303 and the X-SAMPA length mark `:` (IPA chart 2020; Wells 1995).
+        let err = arpa().read_transcription("ˈkɑ\u{303}t", Alphabet::Ipa).unwrap_err().to_string();
+        // (Debug quoting shows a lone combining mark as an escape.)
+        assert!(err.starts_with("ipa \"\\u{303}\" (U+0303) after \"ɑ\" at character 4: en-arpa has no phone written \"ɑ\\u{303}\""), "{err}");
+        let err = arpa().read_transcription("\"si:t", Alphabet::XSampa).unwrap_err().to_string();
+        assert!(err.starts_with("x-sampa \":\" (U+003A) after \"i\" at character 4: en-arpa has no phone written \"i:\""), "{err}");
     }
 
     #[test]

@@ -28,6 +28,53 @@ pub fn line_column(bytes: &[u8], offset: usize) -> (usize, usize) {
     (line, column)
 }
 
+/// Line and column of byte offsets asked for in increasing order, counted on from the last one:
+/// a reader that places many items of one large text (a document on a single line of 256 MiB)
+/// pays one pass over it, not one per item. An offset before the last one counts again from
+/// the start. Agrees with [`line_column`] on UTF-8 text.
+///
+/// ```
+/// use orthoepy::support::located::{Cursor, Position};
+/// let text = "quay\nfé rry";
+/// let mut cursor = Cursor::new(text.as_bytes());
+/// assert_eq!(cursor.position(2), Position::new(1, 3));
+/// assert_eq!(cursor.position(text.find('r').unwrap()), Position::new(2, 4));
+/// assert_eq!(cursor.position(0), Position::new(1, 1));
+/// ```
+#[derive(Debug, Clone)]
+pub struct Cursor<'a> {
+    text: &'a [u8],
+    offset: usize,
+    line: usize,
+    column: usize,
+}
+
+impl<'a> Cursor<'a> {
+    /// A cursor at the start of `text`.
+    pub fn new(text: &'a [u8]) -> Cursor<'a> {
+        Cursor { text, offset: 0, line: 1, column: 1 }
+    }
+
+    /// The position of byte `offset` (clamped to the end).
+    pub fn position(&mut self, offset: usize) -> Position {
+        let offset = offset.min(self.text.len());
+        if offset < self.offset {
+            *self = Cursor::new(self.text);
+        }
+        for &byte in &self.text[self.offset..offset] {
+            if byte == b'\n' {
+                self.line += 1;
+                self.column = 1;
+            } else if byte & 0xC0 != 0x80 {
+                // Every byte but a UTF-8 continuation byte starts a character.
+                self.column += 1;
+            }
+        }
+        self.offset = offset;
+        Position::new(self.line, self.column)
+    }
+}
+
 /// A place in a text file: a 1-based line and, where known, a 1-based character column.
 ///
 /// ```
@@ -205,6 +252,16 @@ mod tests {
         assert_eq!(line_column(b"ab\r\ncd", 5), (2, 2));
         assert_eq!(line_column("é€x".as_bytes(), 5), (1, 3));
         assert_eq!(line_column(b"\xffab", 2), (1, 3));
+    }
+
+    #[test]
+    fn the_cursor_agrees_with_line_column() {
+        let text = "é\nab\r\n€x\n\nq".as_bytes();
+        let mut cursor = Cursor::new(text);
+        for offset in 0..=text.len() + 2 {
+            let (line, column) = line_column(text, offset);
+            assert_eq!(cursor.position(offset), Position::new(line, column), "offset {offset}");
+        }
     }
 
     #[test]
