@@ -6,7 +6,7 @@
 #![no_main]
 
 use libfuzzer_sys::fuzz_target;
-use orthoepy::g2p::hybrid::{Guesser, LanguageConfig};
+use orthoepy::g2p::hybrid::{HybridGuesser, LanguageConfig};
 use orthoepy_fuzz::{demo_index, demo_lexicon, demo_model, phoneset};
 
 fuzz_target!(|data: &[u8]| {
@@ -33,7 +33,7 @@ fuzz_target!(|data: &[u8]| {
 
     let set = phoneset("en-arpa");
     let Ok(config) = LanguageConfig::shipped("en", set) else { return };
-    let guesser = Guesser::new(demo_lexicon(), demo_index(), set, &config).with_model(model);
+    let guesser = HybridGuesser::new(demo_lexicon(), demo_index(), set, &config).with_model(model);
     let candidates = guesser.guess(&word, n);
     assert!(candidates.len() <= n);
     for pair in candidates.windows(2) {

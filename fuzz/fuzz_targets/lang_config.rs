@@ -5,8 +5,8 @@
 #![no_main]
 
 use libfuzzer_sys::fuzz_target;
-use orthoepy::g2p::hybrid::{Guesser, LanguageConfig};
-use orthoepy::g2p::lts::RuleSet;
+use orthoepy::g2p::hybrid::{HybridGuesser, LanguageConfig};
+use orthoepy::g2p::lts::LetterToSoundRules;
 use orthoepy_fuzz::{demo_index, demo_lexicon, phoneset, PROBE_WORDS};
 
 fuzz_target!(|data: &[u8]| {
@@ -14,8 +14,8 @@ fuzz_target!(|data: &[u8]| {
     for (id, lts) in [("en-arpa", "en"), ("es-ipa", "es")] {
         let set = phoneset(id);
         let Ok(config) = LanguageConfig::parse(text, "fuzz.toml", set) else { continue };
-        let Ok(rules) = RuleSet::shipped(lts, set) else { continue };
-        let guesser = Guesser::new(demo_lexicon(), demo_index(), set, &config).with_rules(&rules);
+        let Ok(rules) = LetterToSoundRules::shipped(lts, set) else { continue };
+        let guesser = HybridGuesser::new(demo_lexicon(), demo_index(), set, &config).with_rules(&rules);
         let limit = 4;
         for word in PROBE_WORDS {
             let candidates = guesser.guess(word, limit);

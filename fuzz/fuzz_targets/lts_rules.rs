@@ -1,18 +1,18 @@
-//! Letter-to-sound rule files (`g2p::lts::RuleSet::parse`) on arbitrary text, against en-arpa
+//! Letter-to-sound rule files (`g2p::lts::LetterToSoundRules::parse`) on arbitrary text, against en-arpa
 //! and es-ipa: it never panics; with a rule set it accepts, a word the rules cover transcribes
 //! (as `covers` promises), the result renders into something the phoneset parses, and `trace`
 //! accounts for the word's letters.
 #![no_main]
 
 use libfuzzer_sys::fuzz_target;
-use orthoepy::g2p::lts::RuleSet;
+use orthoepy::g2p::lts::LetterToSoundRules;
 use orthoepy_fuzz::{phoneset, PROBE_WORDS};
 
 fuzz_target!(|data: &[u8]| {
     let Ok(text) = std::str::from_utf8(data) else { return };
     for id in ["en-arpa", "es-ipa"] {
         let set = phoneset(id);
-        let Ok(rules) = RuleSet::parse(text, "fuzz.toml", set) else { continue };
+        let Ok(rules) = LetterToSoundRules::parse(text, "fuzz.toml", set) else { continue };
         for word in PROBE_WORDS {
             let covered = rules.covers(word);
             match rules.transcribe(word) {

@@ -1,6 +1,7 @@
 //! Plain-text lexicon import (`read_plain`) on arbitrary bytes: it never panics, every line is
 //! accounted for (an entry or a rejection, never both), and the build lexicon written from what
-//! it read reads back, with no line rejected, to entries that write the same build lexicon.
+//! it read reads back, with no line rejected, to entries that write the same build lexicon (also
+//! in the layout with a probability column).
 #![no_main]
 
 use libfuzzer_sys::fuzz_target;
@@ -8,7 +9,7 @@ use orthoepy::lexicon::plain::{read_plain, write_plain, PlainExport};
 use orthoepy::lexicon::HeadwordPolicy;
 
 fuzz_target!(|data: &[u8]| {
-    let import = read_plain(data, "fuzz");
+    let import = read_plain(data, "fuzz", "fuzz");
     assert_eq!(import.entries.len() + import.rejected.len(), import.content_lines);
     for e in &import.entries {
         assert!(!e.word.is_empty(), "empty headword from line {}", e.line);
@@ -19,9 +20,10 @@ fuzz_target!(|data: &[u8]| {
         PlainExport::default(),
         PlainExport { strip_stress: true, ..PlainExport::default() },
         PlainExport { variant_suffix: true, ..PlainExport::default() },
+        PlainExport { probability: true, ..PlainExport::default() },
     ] {
         let first = write_plain(&import.entries, &policy, &options);
-        let again = read_plain(first.text.as_bytes(), "fuzz");
+        let again = read_plain(first.text.as_bytes(), "fuzz", "fuzz");
         assert!(again.rejected.is_empty(), "the written build lexicon has lines it cannot read ({options:?}): {:?}", again.rejected);
         assert_eq!(again.entries.len(), first.lines, "{options:?}");
         // The second pass does not strip again: a token such as `A11` is the symbol `A1` with a

@@ -1,5 +1,5 @@
 //! PLS import (`read_pls`) on arbitrary bytes, against the shipped phonesets: it never panics,
-//! and what it accepts, written back as PLS (IPA and phoneset symbols) and read again, is the
+//! and what it accepts, written back as PLS (IPA, X-SAMPA and phoneset symbols) and read again, is the
 //! same document on a second pass.
 #![no_main]
 
@@ -20,18 +20,18 @@ fuzz_target!(|data: &[u8]| {
 });
 
 fn round_trip(data: &[u8], set: &Phoneset) {
-    let Ok(import) = read_pls(data, set, "fuzz") else { return };
+    let Ok(import) = read_pls(data, "fuzz", set, "fuzz") else { return };
     let policy = HeadwordPolicy::default();
-    for alphabet in [Alphabet::Ipa, Alphabet::Symbols] {
+    for alphabet in [Alphabet::Ipa, Alphabet::XSampa, Alphabet::Symbols] {
         let Ok(first) = write_pls(&import.entries, &policy, set, alphabet, "en-US") else { continue };
-        let again = match read_pls(first.as_bytes(), set, "fuzz") {
+        let again = match read_pls(first.as_bytes(), "fuzz", set, "fuzz") {
             Ok(i) => i,
             Err(e) => panic!("written PLS does not read again: {e}\n{first}"),
         };
         let second = write_pls(&again.entries, &policy, set, alphabet, "en-US")
             .unwrap_or_else(|e| panic!("entries read from our own PLS cannot be written: {e}"));
         assert_eq!(first, second, "PLS changed on a second pass");
-        let third = read_pls(second.as_bytes(), set, "fuzz").map(|i| pairs(&i.entries)).ok();
+        let third = read_pls(second.as_bytes(), "fuzz", set, "fuzz").map(|i| pairs(&i.entries)).ok();
         assert_eq!(Some(pairs(&again.entries)), third);
     }
 }
