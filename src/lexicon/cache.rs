@@ -197,8 +197,12 @@ impl IndexedStore {
             Err(stale) => stale,
         };
         let lexicon = Lexicon::from_file_bytes(&bytes, path, policy, LoadMode::Strict)?;
-        let index = LexiconIndex::build_words(&lexicon, options, loader);
-        let (rows, header_len) = match row_table(&bytes, lexicon.entries(), path, policy) {
+        // The FST build (the longest step) and the row table need only the parsed entries.
+        let (index, table) = rayon::join(
+            || LexiconIndex::build_words(&lexicon, options, loader),
+            || row_table(&bytes, lexicon.entries(), path, policy),
+        );
+        let (rows, header_len) = match table {
             Some((rows, header_len)) => (Some(rows), header_len),
             None => (None, 0),
         };
