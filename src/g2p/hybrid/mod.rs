@@ -2,7 +2,9 @@
 //! sources and merged on one score scale.
 //!
 //! Sources, in the order they are tried: initialisms spelled out with the language's letter
-//! names ([`acronym`]); compounds of two or more lexicon words ([`compound`]); a lexicon stem plus
+//! names, one candidate per stress pattern ([`acronym`]; for a word that may be spelled out the
+//! other sources' candidates are weighed by the chance it is read otherwise, and an
+//! all-capitals word gets no candidate without a syllable nucleus); compounds of two or more lexicon words ([`compound`]); a lexicon stem plus
 //! a suffix rule with allomorphs chosen by phone features ([`derivation`]); the N-best list of
 //! a trained model ([`Nbest`]); and, only when there is no model, letter-to-sound rules.
 //!
@@ -21,7 +23,7 @@ mod compound;
 mod config;
 mod derivation;
 
-pub use config::{Allomorph, CompoundLimits, ConfigError, LanguageConfig, Scores, Suffix};
+pub use config::{Allomorph, CompoundLimits, ConfigError, Initialism, LanguageConfig, ReadAsWord, Scores, StressPattern, StressShare, Suffix};
 
 use crate::g2p::lts::LetterToSoundRules;
 use crate::g2p::AlignedPiece;
@@ -188,19 +190,28 @@ impl<'a> HybridGuesser<'a> {
 
     /// Candidates for `word`, best first, merged across sources; at most `limit`.
     pub fn guess(&self, word: &str, limit: usize) -> Vec<Proposal> {
-        let mut found: Vec<(Pronunciation, f64, Source)> = Vec::new();
-        found.extend(acronym::candidates(word, self.config, self.phoneset));
+        let spelling = acronym::spell(word, self.config, self.phoneset);
+        // For a word that may be spelled out, every other source's reading is weighed by the
+        // chance that the word is said that way at all (see `acronym`).
+        let weigh = |pronunciation: &str, score: f64| spelling.as_ref().map_or(score, |s| score * s.factor(pronunciation, self.phoneset));
+        let mut found: Vec<(String, f64, Source)> = Vec::new();
         let key = word.to_lowercase();
         let lookup = Lookup { lexicon: self.lexicon, index: self.index, phoneset: self.phoneset };
-        found.extend(compound::candidates(&key, &lookup, self.config));
-        found.extend(derivation::candidates(&key, &lookup, self.config));
-        let mut merged = merge(found.into_iter().map(|(p, s, src)| (p.render(self.phoneset), s, src)));
+        found.extend(compound::candidates(&key, &lookup, self.config).into_iter().map(|(p, s, src)| (p.render(self.phoneset), s, src)));
+        found.extend(derivation::candidates(&key, &lookup, self.config).into_iter().map(|(p, s, src)| (p.render(self.phoneset), s, src)));
+        let spelled = spelling.iter().flat_map(|s| s.candidates.iter().map(|(p, score, src)| (p.render(self.phoneset), *score, src.clone())));
+        let weighed = found.into_iter().map(|(p, s, src)| {
+            let s = weigh(&p, s);
+            (p, s, src)
+        });
+        let mut merged = merge(spelled.chain(weighed));
         match (self.model, self.rules) {
             (Some(model), _) => {
                 let factor = self.config.scores.model;
                 let list = model.nbest_list(&key, limit.max(1));
                 for (rank, (p, post, alignment)) in list.hypotheses.into_iter().enumerate() {
-                    merged = merge_into(merged, std::iter::once((p.clone(), (post * factor).clamp(0.0, 1.0), Source::Model { rank })));
+                    let score = weigh(&p, (post * factor).clamp(0.0, 1.0));
+                    merged = merge_into(merged, std::iter::once((p.clone(), score, Source::Model { rank })));
                     if let Some(proposal) = merged.iter_mut().find(|c| c.pronunciation == p) {
                         if proposal.alignment.is_empty() {
                             proposal.alignment = alignment;
@@ -213,7 +224,8 @@ impl<'a> HybridGuesser<'a> {
                 if let Ok(p) = rules.transcribe(&key) {
                     let source = Source::Rules { language: rules.language().to_string() };
                     let pronunciation = p.render(self.phoneset);
-                    merged = merge_into(merged, std::iter::once((pronunciation.clone(), self.config.scores.rules, source)));
+                    let score = weigh(&pronunciation, self.config.scores.rules);
+                    merged = merge_into(merged, std::iter::once((pronunciation.clone(), score, source)));
                     if let Some(proposal) = merged.iter_mut().find(|c| c.pronunciation == pronunciation) {
                         warn(proposal, &rules_warnings(rules, &key));
                     }
@@ -221,9 +233,18 @@ impl<'a> HybridGuesser<'a> {
             }
             (None, None) => {}
         }
+        if spelling.is_some_and(|s| s.capitals) {
+            merged.retain(|c| self.has_nucleus(&c.pronunciation));
+        }
         merged.sort_by(|a, b| b.score.total_cmp(&a.score));
         merged.truncate(limit);
         merged
+    }
+
+    /// Whether a pronunciation has a syllable nucleus (one that does not parse is kept: the
+    /// audit, not the guesser, reports it).
+    fn has_nucleus(&self, pronunciation: &str) -> bool {
+        self.phoneset.parse(pronunciation).map_or(true, |p| p.phones.iter().any(|t| self.phoneset.phone(t.phone).is_nucleus()))
     }
 }
 
