@@ -51,7 +51,7 @@ struct RawConfig {
     scores: Spanned<Scores>,
     letter_names: BTreeMap<String, Spanned<String>>,
     #[serde(default)]
-    initialism: Option<Spanned<RawInitialism>>,
+    initialism: Option<RawInitialism>,
     compound: CompoundLimits,
     #[serde(default)]
     suffix: Vec<RawSuffix>,
@@ -60,12 +60,12 @@ struct RawConfig {
 #[derive(Debug, Deserialize)]
 #[serde(deny_unknown_fields)]
 struct RawInitialism {
-    stress: Vec<StressShare>,
+    stress: Spanned<Vec<Spanned<StressShare>>>,
     #[serde(default)]
-    onsets: Vec<String>,
+    onsets: Vec<Spanned<String>>,
     #[serde(default)]
-    codas: Vec<String>,
-    read_as_word: ReadAsWord,
+    codas: Vec<Spanned<String>>,
+    read_as_word: Spanned<ReadAsWord>,
 }
 
 #[derive(Debug, Deserialize)]
@@ -346,25 +346,37 @@ impl LanguageConfig {
         let vowel_letters: Vec<char> = raw.vowel_letters.chars().collect();
         let initialism = match raw.initialism {
             None => Initialism::plain(),
-            Some(table) => {
-                let place = table.span().start;
-                let t = table.into_inner();
-                let r = t.read_as_word;
-                let shares = t.stress.iter().map(|s| ("stress share", s.share));
-                for (name, value) in shares.chain([("read_as_word.syllables", r.syllables), ("read_as_word.no_syllables", r.no_syllables), ("read_as_word.vowelless", r.vowelless)]) {
-                    if !(0.0..=1.0).contains(&value) {
-                        return Err(at(place, format!("[initialism] {name} = {value} is not a probability; write a value between 0 and 1")));
+            Some(t) => {
+                let probability = |place: usize, name: &str, value: f64| {
+                    if (0.0..=1.0).contains(&value) {
+                        Ok(())
+                    } else {
+                        Err(at(place, format!("[initialism] {name} = {value} is not a probability; write a value between 0 and 1")))
                     }
+                };
+                if t.stress.get_ref().is_empty() {
+                    return Err(at(t.stress.span().start, "[initialism] stress lists no pattern; give at least one".to_string()));
                 }
-                if t.stress.is_empty() {
-                    return Err(at(place, "[initialism] stress lists no pattern; give at least one".to_string()));
+                for share in t.stress.get_ref() {
+                    probability(share.span().start, "stress share", share.get_ref().share)?;
+                }
+                let r = *t.read_as_word.get_ref();
+                let place = t.read_as_word.span().start;
+                for (name, value) in [("syllables", r.syllables), ("no_syllables", r.no_syllables), ("vowelless", r.vowelless)] {
+                    probability(place, &format!("read_as_word.{name}"), value)?;
                 }
                 for cluster in t.onsets.iter().chain(&t.codas) {
-                    if cluster.is_empty() || cluster.chars().any(|c| vowel_letters.contains(&c) || !c.is_lowercase()) {
-                        return Err(at(place, format!("[initialism] cluster `{cluster}` must be lower-case consonant letters")));
+                    let c = cluster.get_ref();
+                    if c.is_empty() || c.chars().any(|l| vowel_letters.contains(&l) || !l.is_lowercase()) {
+                        return Err(at(cluster.span().start, format!("[initialism] cluster `{c}` must be lower-case consonant letters")));
                     }
                 }
-                Initialism { stress: t.stress, onsets: t.onsets, codas: t.codas, read_as_word: r }
+                Initialism {
+                    stress: t.stress.into_inner().into_iter().map(Spanned::into_inner).collect(),
+                    onsets: t.onsets.into_iter().map(Spanned::into_inner).collect(),
+                    codas: t.codas.into_iter().map(Spanned::into_inner).collect(),
+                    read_as_word: r,
+                }
             }
         };
         let mut suffixes = Vec::with_capacity(raw.suffix.len());
@@ -425,6 +437,21 @@ mod tests {
         assert!(err.starts_with(&format!("en.toml:{scores_line}:")), "{err}");
         let negative = bad.replace("initialism = 1.9", "initialism = -0.1");
         assert!(LanguageConfig::parse(&negative, "en.toml", &set).is_err());
+    }
+
+    #[test]
+    fn initialism_probabilities_and_clusters_are_checked_with_their_place() {
+        let set = Phoneset::shipped("en-arpa").unwrap();
+        let text = shipped_text("en").unwrap();
+        let line = text.lines().position(|l| l.starts_with("stress = [")).unwrap() + 1;
+        let share = text.replace("pattern = \"names\", share = 0.62", "pattern = \"names\", share = 1.62");
+        let err = LanguageConfig::parse(&share, "en.toml", &set).unwrap_err().to_string();
+        assert!(err.starts_with(&format!("en.toml:{line}:11:")) && err.contains("stress share = 1.62 is not a probability"), "{err}");
+        let vowel = text.replace("\"bl\", \"br\"", "\"bla\", \"br\"");
+        let err = LanguageConfig::parse(&vowel, "en.toml", &set).unwrap_err().to_string();
+        assert!(err.contains("cluster `bla` must be lower-case consonant letters"), "{err}");
+        let none = text.replace("stress = [{ pattern = \"names\", share = 0.62 }, { pattern = \"last\", share = 0.27 }]", "stress = []");
+        assert!(LanguageConfig::parse(&none, "en.toml", &set).unwrap_err().to_string().contains("lists no pattern"));
     }
 
     #[test]
