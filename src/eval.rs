@@ -18,7 +18,8 @@
 //! **Calibration.** For a model, the top hypothesis's score (its calibrated probability of
 //! being right) is compared with whether it is right (stress as written) in a reliability
 //! table of ten equal-width bins with the expected calibration error (Guo et al. 2017; see
-//! [`crate::g2p::reliability`]).
+//! [`crate::g2p::reliability`]). For the hybrid guesser's rule-based sources, every candidate of
+//! each source is compared the same way, one table per source ([`evaluate_sources`]).
 
 use std::collections::BTreeMap;
 
@@ -26,7 +27,8 @@ use rayon::prelude::*;
 use serde::Serialize;
 use unicode_normalization::UnicodeNormalization;
 
-use crate::g2p::{reliability, strip_stress, DecodeOptions, Model, Reliability};
+use crate::g2p::hybrid::HybridGuesser;
+use crate::g2p::{reliability, strip_stress, DecodeOptions, Model, Reliability, SymbolOptions};
 use crate::support::align::{align as align_positions, closest};
 
 pub use crate::support::split::{is_test_word, split_by_word, word_hash};
@@ -164,6 +166,55 @@ pub struct Evaluation {
     /// Reliability of the top hypotheses' scores (only when a model was evaluated).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub calibration: Option<Reliability>,
+    /// Reliability of each rule-based source of the hybrid guesser (only when measured).
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub sources: Vec<SourceReliability>,
+}
+
+/// How well one rule-based source's scores match how often its candidates are right.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct SourceReliability {
+    /// The source's calibration name (`initialism`, `vowelless`, `compound`, `derivation`,
+    /// `rules`).
+    pub source: String,
+    /// Whether its scores come from a map fitted with the model (else the configured constant).
+    pub fitted: bool,
+    /// Candidates it made for the test words.
+    pub candidates: usize,
+    /// Their mean score.
+    pub mean_score: f64,
+    /// The share of them that are right (stress as written).
+    pub share_right: f64,
+    /// The reliability table of their scores.
+    pub reliability: Reliability,
+}
+
+/// Every rule-based source's candidates for the test words ([`HybridGuesser::source_candidates`]),
+/// each compared with the word's references normalised by `symbols` (as the model was trained),
+/// one reliability table per source, sources in name order.
+pub fn evaluate_sources(guesser: &HybridGuesser<'_>, test: &[(String, Vec<String>)], symbols: SymbolOptions) -> Vec<SourceReliability> {
+    let mut by_source: BTreeMap<&'static str, Vec<(f64, bool)>> = BTreeMap::new();
+    for (word, refs) in group_references(test) {
+        let references: Vec<Vec<String>> = refs.iter().map(|r| r.iter().map(|p| symbols.phone(p)).collect()).collect();
+        for c in guesser.source_candidates(&word) {
+            let phones: Vec<String> = c.pronunciation.split(' ').map(|p| symbols.phone(p)).collect();
+            by_source.entry(c.calibration).or_default().push((c.score, references.contains(&phones)));
+        }
+    }
+    by_source
+        .into_iter()
+        .map(|(source, scored)| {
+            let n = scored.len().max(1) as f64;
+            SourceReliability {
+                source: source.to_string(),
+                fitted: guesser.calibration().is_some_and(|c| c.get(source).is_some()),
+                candidates: scored.len(),
+                mean_score: scored.iter().map(|s| s.0).sum::<f64>() / n,
+                share_right: scored.iter().filter(|s| s.1).count() as f64 / n,
+                reliability: reliability(&scored),
+            }
+        })
+        .collect()
 }
 
 /// One wrongly guessed word.

@@ -77,6 +77,34 @@ pub enum WorkspaceError {
     },
 }
 
+/// The language configuration and letter-to-sound rules a guesser uses in `phoneset`, given a
+/// project's `letter_to_sound` setting (a shipped id or a rule file): the configuration of
+/// that shipped id, else the one shipped for the phoneset; the rules only when named. Training
+/// and evaluation, which calibrate and measure the guesser's sources, take them from here too.
+///
+/// ```
+/// use orthoepy::phoneset::Phoneset;
+/// let en = Phoneset::shipped("en-arpa").unwrap();
+/// let (config, rules) = orthoepy::workspace::language_parts(Some("en"), &en).unwrap();
+/// assert_eq!((config.language.as_str(), rules.map(|r| r.language().to_string())), ("en", Some("en".to_string())));
+/// assert!(orthoepy::workspace::language_parts(None, &en).unwrap().1.is_none());
+/// ```
+pub fn language_parts(letter_to_sound: Option<&str>, phoneset: &Phoneset) -> Result<(LanguageConfig, Option<LetterToSoundRules>), WorkspaceError> {
+    let language_id = match letter_to_sound {
+        Some(id) if LetterToSoundRules::is_shipped(id) => id.to_string(),
+        _ => match LetterToSoundRules::shipped_for_phoneset(phoneset.id()) {
+            Some(id) => id.to_string(),
+            None => {
+                let shipped: Vec<&str> = crate::g2p::lts::SHIPPED.iter().map(|(id, _)| *id).collect();
+                return Err(WorkspaceError::NoLanguage { phoneset: phoneset.id().to_string(), shipped: shipped.join(", ") });
+            }
+        },
+    };
+    let language = LanguageConfig::shipped(&language_id, phoneset)?;
+    let rules = letter_to_sound.map(|spec| LetterToSoundRules::resolve(spec, phoneset)).transpose()?;
+    Ok((language, rules))
+}
+
 /// A project with its files loaded: lexicon and index, phoneset, language configuration,
 /// letter-to-sound rules and model.
 ///
@@ -114,21 +142,7 @@ impl Workspace {
         // The small files first: one that fails to load stops the command before the store is
         // opened, so a refused project leaves even its index cache as it was.
         let phoneset = Phoneset::resolve(&project.phoneset, &project.root)?;
-        let language_id = match project.letter_to_sound.as_deref() {
-            Some(id) if LetterToSoundRules::is_shipped(id) => id.to_string(),
-            _ => match LetterToSoundRules::shipped_for_phoneset(phoneset.id()) {
-                Some(id) => id.to_string(),
-                None => {
-                    let shipped: Vec<&str> = crate::g2p::lts::SHIPPED.iter().map(|(id, _)| *id).collect();
-                    return Err(WorkspaceError::NoLanguage { phoneset: phoneset.id().to_string(), shipped: shipped.join(", ") });
-                }
-            },
-        };
-        let language = LanguageConfig::shipped(&language_id, &phoneset)?;
-        let rules = match project.letter_to_sound.as_deref() {
-            Some(spec) => Some(LetterToSoundRules::resolve(spec, &phoneset)?),
-            None => None,
-        };
+        let (language, rules) = language_parts(project.letter_to_sound.as_deref(), &phoneset)?;
         let model = match model {
             Some(path) if !path.exists() => return Err(WorkspaceError::MissingModel { path: path.to_path_buf() }),
             Some(path) => Some(Model::load(path)?),

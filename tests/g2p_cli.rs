@@ -68,3 +68,32 @@ fn missing_model_inside_a_project_is_an_error_not_a_word() {
     std::fs::write(d.join("orthoepy.toml"), "lexicon = \"lexicon.csv\"\n").expect("write project");
     orthoepy(d).args(["guess", "models/typo.g2p", "quay"]).assert().code(2).stdout("").stderr(predicates::str::contains("no model file models/typo.g2p"));
 }
+
+#[test]
+fn train_calibrates_the_other_sources_and_evaluate_reports_each() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let d = dir.path();
+    let csv = write_sample(d);
+    orthoepy(d).args(["split", csv.to_str().unwrap_or_default(), "--test-percent", "10", "--train", "train.csv", "--test", "test.csv"]).assert().success();
+    // With the phoneset known, the held-out words calibrate the letter-to-sound rules (every
+    // held-out word has a rules candidate); without it, a note says they were not.
+    let out = orthoepy(d).args(["train", "train.csv", "-o", "model.g2p", "--order", "2", "--threads", "1", "--phoneset", "en-arpa"]).assert().success().get_output().stderr.clone();
+    let said = String::from_utf8_lossy(&out);
+    assert!(said.contains("calibrated on held-out words: ") && said.contains("rules ("), "{said}");
+    let out = orthoepy(d).args(["train", "train.csv", "-o", "plain.g2p", "--order", "1", "--threads", "1"]).assert().success().get_output().stderr.clone();
+    assert!(String::from_utf8_lossy(&out).contains("keep their configured scores"));
+    let out = orthoepy(d).args(["evaluate", "model.g2p", "test.csv", "--lexicon", "train.csv"]).assert().success().get_output().stdout.clone();
+    let text = String::from_utf8_lossy(&out);
+    assert!(text.contains("reliability of the other sources"), "{text}");
+    let rules = text.lines().find(|l| l.trim_start().starts_with("rules ")).unwrap_or_else(|| panic!("a line for the rules:\n{text}"));
+    assert!(rules.ends_with("fitted"), "{rules}");
+    let out = orthoepy(d).args(["evaluate", "model.g2p", "test.csv", "--lexicon", "train.csv", "--format", "json"]).assert().success().get_output().stdout.clone();
+    let json: serde_json::Value = serde_json::from_slice(&out).expect("evaluate prints JSON");
+    let sources = json["sources"].as_array().expect("a reliability per source");
+    let rules = sources.iter().find(|s| s["source"] == "rules").expect("rules measured");
+    assert_eq!(rules["fitted"], true);
+    assert!(rules["candidates"].as_u64().unwrap_or(0) > 0);
+    assert_eq!(rules["reliability"]["bins"].as_array().map(Vec::len), Some(10), "ten equal-width bins (Guo et al. 2017)");
+    // A model without a known phoneset: the model's tables only, and a note.
+    orthoepy(d).args(["evaluate", "plain.g2p", "test.csv"]).assert().success().stderr(predicates::str::contains("--phoneset"));
+}

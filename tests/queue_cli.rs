@@ -216,3 +216,49 @@ fn review_needs_a_terminal_and_demo_makes_a_ready_project() {
     // A second demo into the same folder refuses rather than overwrite.
     bin().arg("demo").arg(&dir).assert().code(2);
 }
+
+/// A queue file line as written before candidates carried warnings (no `warnings` key).
+const OLD_QUEUE: &str = "{\"orthoepy_queue\":1}\n\
+{\"word\":\"Kelport\",\"kind\":\"new_word\",\"count\":3,\"counts\":{\"corpus:q.txt\":3},\"context\":\"The ferry to Kelport.\",\
+\"candidates\":[{\"pronunciation\":\"K EH1 L P AO2 R T\",\"source\":\"model:1\",\"score\":0.62}],\"origin\":\"corpus:q.txt\"}\n";
+
+#[test]
+fn letters_read_as_their_base_letter_are_warned_about_in_the_queue() {
+    // NFD (Unicode Standard Annex #15): é = e + U+0301, ë = e + U+0308. Neither is a letter of
+    // the shipped English rules, so both are read as e, and the warning must reach the queue
+    // file and `queue list`, not be dropped on the way.
+    let tmp = tempfile::tempdir().unwrap();
+    project(tmp.path());
+    let toml = tmp.path().join("orthoepy.toml");
+    let text = std::fs::read_to_string(&toml).unwrap();
+    std::fs::write(&toml, format!("{text}letter_to_sound = \"en\"\n")).unwrap();
+    std::fs::write(tmp.path().join("w.txt"), "café\nZoë\n").unwrap();
+    let w = tmp.path().join("w.txt").display().to_string();
+    orthoepy(tmp.path(), &["queue", "add", "--words", &w]).assert().success();
+    let file = std::fs::read_to_string(tmp.path().join("queue.jsonl")).unwrap();
+    for (word, pair) in [("café", "é as e"), ("Zoë", "ë as e")] {
+        let line = file.lines().find(|l| l.contains(&format!("\"word\":\"{word}\""))).unwrap_or_else(|| panic!("{word} queued:\n{file}"));
+        assert!(line.contains("\"warnings\"") && line.contains(pair), "{word}: {line}");
+    }
+    let out = orthoepy(tmp.path(), &["queue", "list"]).output().unwrap();
+    let listed = String::from_utf8(out.stdout).unwrap();
+    let cafe = listed.lines().find(|l| l.contains("café")).unwrap();
+    assert!(cafe.contains("(warning: ") && cafe.contains("é as e"), "{listed}");
+    let json = list(tmp.path());
+    let zoe = json.as_array().unwrap().iter().find(|i| i["word"] == "Zoë").unwrap();
+    assert!(zoe["candidates"][0]["warnings"][0].as_str().unwrap().contains("ë as e"), "{zoe}");
+}
+
+#[test]
+fn a_queue_file_written_before_warnings_loads_and_saves_the_same_bytes() {
+    let path = std::path::Path::new("queue.jsonl");
+    let queue = orthoepy::queue::Queue::parse(OLD_QUEUE.as_bytes(), path).expect("old queue files still load");
+    assert!(queue.items()[0].warnings().is_empty());
+    assert_eq!(String::from_utf8(queue.to_bytes().unwrap()).unwrap(), OLD_QUEUE, "no warnings: nothing new is written");
+    let tmp = tempfile::tempdir().unwrap();
+    project(tmp.path());
+    std::fs::write(tmp.path().join("queue.jsonl"), OLD_QUEUE).unwrap();
+    let out = orthoepy(tmp.path(), &["queue", "list"]).output().unwrap();
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    assert!(String::from_utf8(out.stdout).unwrap().contains("Kelport"));
+}

@@ -320,3 +320,23 @@ fn progress_counts_follow_each_decision() {
     let screen = text(&render(&app, 80, 24, false));
     assert!(screen.contains("1/3 done"), "{screen}");
 }
+
+#[test]
+fn a_candidate_warning_is_shown_beside_the_item() {
+    // NFD (Unicode Standard Annex #15): é = e + U+0301, so the guesser read "café" as "cafe"
+    // and said so; the screen must show that next to the word, not drop it.
+    let mut items = items();
+    let mut cafe = orthoepy::queue::Item::new_word("café");
+    let mut c = candidate("K AE0 F EY1", "model:1", 0.44);
+    c.warnings.push("letters never seen in training were read as their base letter: é as e".into());
+    cafe.candidates.push(c);
+    items.insert(0, cafe);
+    let mut app = App::new("coast", items, Default::default(), app().phones.clone());
+    let dir = tempfile::tempdir().unwrap();
+    let (mut j, _) = Journal::open(&dir.path().join("j.jsonl")).unwrap();
+    orthoepy::tui::dispatch(&mut app, Event::Resize(80, 24), &lookups(), &mut j);
+    let screen = screen_at(&app, 80, 24);
+    let word_row = screen.lines().position(|l| l.contains("café")).expect("headword shown");
+    let warning_row = screen.lines().position(|l| l.contains("⚠") && l.contains("é as e")).unwrap_or_else(|| panic!("warning shown\n{screen}"));
+    assert_eq!(warning_row, word_row + 1, "the warning is on the line under the headword\n{screen}");
+}

@@ -4,9 +4,10 @@
 
 use super::DataFormat;
 use anyhow::Context;
-use orthoepy::g2p::hybrid::{LanguageConfig, Proposal, Source};
+use orthoepy::g2p::hybrid::{HybridGuesser, LanguageConfig, Proposal};
 use orthoepy::g2p::lts::{LetterToSoundRules, SHIPPED};
 use orthoepy::g2p::{Guess, Model};
+use orthoepy::lexicon::{HeadwordPolicy, Lexicon};
 use orthoepy::phoneset::Phoneset;
 use orthoepy::project::Project;
 use orthoepy::workspace::Workspace;
@@ -20,7 +21,7 @@ use std::process::ExitCode;
 /// the only word is `-`.
 ///
 /// With MODEL only: the model's N-best list. With `--rules LANG`: a shipped letter-to-sound rule
-/// set alone (`en`, `es`; no model argument). Inside a project whose orthoepy.toml names a
+/// set (`en`, `es`; no model argument) with its language's initialisms, no lexicon. Inside a project whose orthoepy.toml names a
 /// lexicon: the hybrid guesser over that lexicon, with MODEL (or the project's model), else
 /// the project's letter-to-sound rules. Scores are calibrated probabilities in 0..1.
 ///
@@ -81,7 +82,17 @@ fn candidate_lines(word: &WordCandidates) -> Vec<String> {
         .collect()
 }
 
+/// Prints the candidates, and each word's warnings once on standard error.
 fn print_candidates(all: &[WordCandidates], format: DataFormat) -> anyhow::Result<()> {
+    for word in all {
+        let mut said: Vec<&str> = Vec::new();
+        for w in word.candidates.iter().flat_map(|c| &c.warnings) {
+            if !said.contains(&w.as_str()) {
+                eprintln!("warning: {}: {w}", word.word);
+                said.push(w);
+            }
+        }
+    }
     match format {
         DataFormat::Json => super::print_json(&all)?,
         DataFormat::Text => all.iter().flat_map(candidate_lines).for_each(|l| println!("{l}")),
@@ -89,8 +100,10 @@ fn print_candidates(all: &[WordCandidates], format: DataFormat) -> anyhow::Resul
     Ok(())
 }
 
-/// `--rules LANG`: the shipped rule set alone, in the phoneset it is written for.
-fn with_rules(lang: &str, words: &[String], format: DataFormat) -> anyhow::Result<ExitCode> {
+/// `--rules LANG`: the shipped rule set with its language configuration and no lexicon (so
+/// initialisms are spelled out as in a project, and nothing else is looked up), in the phoneset
+/// the rules are written for.
+fn with_rules(lang: &str, words: &[String], args: &Args) -> anyhow::Result<ExitCode> {
     let Some((_, phoneset_id)) = SHIPPED.iter().find(|(id, _)| *id == lang) else {
         let known: Vec<&str> = SHIPPED.iter().map(|(id, _)| *id).collect();
         anyhow::bail!("no shipped letter-to-sound rules for `{lang}`; choose one of: {}", known.join(", "));
@@ -98,15 +111,15 @@ fn with_rules(lang: &str, words: &[String], format: DataFormat) -> anyhow::Resul
     let phoneset = Phoneset::shipped(phoneset_id)?;
     let rules = LetterToSoundRules::shipped(lang, &phoneset)?;
     let config = LanguageConfig::shipped(lang, &phoneset)?;
+    let lexicon = Lexicon::from_entries(Vec::new(), HeadwordPolicy::default());
+    let index = lexicon.index();
+    let guesser = HybridGuesser::new(&lexicon, &index, &phoneset, &config).with_rules(&rules);
     let mut all = Vec::with_capacity(words.len());
     for word in words {
-        let pronunciation = rules.transcribe(word).with_context(|| format!("cannot transcribe `{word}`"))?;
-        let source = Source::Rules { language: lang.to_string() };
-        let proposal =
-            Proposal { pronunciation: pronunciation.render(&phoneset), score: config.scores.rules, sources: vec![source], alignment: Vec::new() };
-        all.push(WordCandidates { word: word.clone(), candidates: vec![proposal] });
+        rules.transcribe(word).with_context(|| format!("cannot transcribe `{word}`"))?;
+        all.push(WordCandidates { word: word.clone(), candidates: guesser.guess(word, args.nbest) });
     }
-    print_candidates(&all, format)?;
+    print_candidates(&all, args.format)?;
     Ok(ExitCode::SUCCESS)
 }
 
@@ -135,7 +148,7 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     };
     if let Some(lang) = &args.rules {
         let words = read_words(if read_stdin { Vec::new() } else { positional })?;
-        return with_rules(lang, &words, args.format);
+        return with_rules(lang, &words, &args);
     }
     if let Some(project) = args.project.find()? {
         // Inside a project the first argument is a model only if it is an existing file; one

@@ -313,7 +313,8 @@ fn list(project: &Project, format: DataFormat) -> anyhow::Result<ExitCode> {
         DataFormat::Text => {
             let mut out = std::io::stdout().lock();
             for l in &listed {
-                writeln!(out, "{:<8} {:<7} {:>5}  {:<20} {}", l.state.name(), l.item.kind.tag(), l.item.count, l.item.word, shown(l))?;
+                let warnings: String = l.item.warnings().iter().map(|w| format!("  (warning: {w})")).collect();
+                writeln!(out, "{:<8} {:<7} {:>5}  {:<20} {}{warnings}", l.state.name(), l.item.kind.tag(), l.item.count, l.item.word, shown(l))?;
             }
         }
     }

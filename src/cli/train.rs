@@ -1,13 +1,20 @@
-//! `orthoepy train`: trains a joint-sequence G2P model from a lexicon and writes the model file.
+//! `orthoepy train`: trains a joint-sequence G2P model from a lexicon and writes the model file,
+//! with the calibration of the hybrid guesser's rule-based sources when the phoneset is known.
 
 use super::ProjectArgs;
 use anyhow::Context;
-use orthoepy::g2p::{train, training_pairs, LetterUnit, SymbolOptions, TrainOptions};
+use orthoepy::g2p::lts::LetterToSoundRules;
+use orthoepy::g2p::{train_with_sources, training_pairs, LetterUnit, RuleSources, SymbolOptions, TrainOptions};
+use orthoepy::workspace::language_parts;
 use std::path::PathBuf;
 use std::process::ExitCode;
 
 /// Train a grapheme-to-phoneme model (joint-sequence graphone n-gram) from imported and
 /// accepted entries of a lexicon.
+///
+/// Inside a project (or with --phoneset) the words held out to calibrate the model's scores
+/// also calibrate the hybrid guesser's other sources (initialisms, compounds, derivations,
+/// letter-to-sound rules), stored with the model.
 ///
 /// Example: orthoepy train lexicon.csv -o model.g2p --order 8 --threads 2
 #[derive(Debug, clap::Args)]
@@ -47,6 +54,10 @@ pub struct Args {
     /// Percent of training words held out to tune discounts (0..=50).
     #[arg(long, value_name = "P")]
     heldout_percent: Option<u32>,
+    /// The lexicon's phoneset (a shipped id or a file; default: the project's). Without one
+    /// outside a project, the guesser's other sources are not calibrated.
+    #[arg(long, value_name = "PHONESET")]
+    phoneset: Option<String>,
     /// Print nothing but errors.
     #[arg(long)]
     quiet: bool,
@@ -78,10 +89,26 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
         phoneset_id: project.as_ref().map(|p| p.phoneset.clone()).unwrap_or_default(),
         ..defaults
     };
+    // The guesser's sources are calibrated in the phoneset the lexicon is written in, with the
+    // project's language configuration and rules (outside a project: the shipped ones).
+    let phoneset = match (&args.phoneset, &project) {
+        (None, None) => None,
+        (explicit, _) => Some(super::resolve_phoneset(explicit.as_deref(), project.as_ref())?),
+    };
+    let parts = match (&phoneset, &project) {
+        (Some(set), Some(p)) => Some(language_parts(p.letter_to_sound.as_deref(), set)?),
+        (Some(set), None) => Some(language_parts(LetterToSoundRules::shipped_for_phoneset(set.id()), set)?),
+        (None, _) => None,
+    };
+    let sources = match (&phoneset, &parts) {
+        (Some(phoneset), Some((config, rules))) => Some(RuleSources { phoneset, config, rules: rules.as_ref() }),
+        _ => None,
+    };
+    let opts = TrainOptions { phoneset_id: phoneset.as_ref().map(|p| p.id().to_string()).unwrap_or(opts.phoneset_id), ..opts };
     let pairs = training_pairs(lexicon.entries());
     let bar = if args.quiet { indicatif::ProgressBar::hidden() } else { super::progress_bar_with_status(opts.order as u64, "training") };
     let start = std::time::Instant::now();
-    let model = train(&pairs, &opts, &mut |p| {
+    let model = train_with_sources(&pairs, &opts, sources.as_ref(), &mut |p| {
         bar.set_position(p.order as u64 - 1);
         // One line of at most 80 columns: LL is the log-likelihood (natural log, summed).
         let per = p.heldout_per.map(|x| format!(", PER {:.2}%", 100.0 * x)).unwrap_or_default();
@@ -104,6 +131,14 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
             model.ngram_count(),
             output.display()
         );
+        match model.source_calibration() {
+            Some(fitted) => {
+                let fits: Vec<String> = fitted.fits().iter().map(|f| format!("{} ({})", f.source, f.observations)).collect();
+                eprintln!("calibrated on held-out words: {}", fits.join(", "));
+            }
+            None if sources.is_none() => eprintln!("note: no phoneset known (no project, no --phoneset): the guesser's other sources keep their configured scores"),
+            None => eprintln!("note: too few held-out candidates: the guesser's other sources keep their configured scores"),
+        }
     }
     Ok(ExitCode::SUCCESS)
 }

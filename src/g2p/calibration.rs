@@ -11,8 +11,18 @@
 //! not sigmoid-shaped (over-confident near 1, roughly right in the middle) and the held-out
 //! part of a lexicon of any useful size has thousands of words, enough for a non-parametric fit
 //! without over-fitting; it keeps the order of the scores (a monotone map), so rankings within
-//! a rank group do not change. Between the fitted blocks the map interpolates linearly, so
-//! distinct posteriors keep distinct scores.
+//! a rank group do not change. The fitted function is the pooled block's share right over the
+//! block's whole range of raw scores (the step function of pool-adjacent-violators) and linear
+//! in the gaps between blocks, so the map is continuous; a block's own scores are not spread
+//! around its mean, which for a feature with few distinct values (one over a word's length)
+//! would move a large block's members towards its neighbours' shares.
+//!
+//! **Sources without a model.** The hybrid guesser's rule-based sources (initialisms,
+//! compounds, derivations, letter-to-sound rules) get a [`SourceCalibration`]: per source one
+//! isotonic map, by the same method, from a feature of the candidate to P(right), fitted on the
+//! same held-out words as the model's (the features are the guesser's, see
+//! [`crate::g2p::hybrid`]). A source with fewer than [`MIN_SOURCE_OBSERVATIONS`] held-out
+//! candidates gets no map and keeps its configured constant.
 //!
 //! **Measure.** The reliability table puts scores in ten equal-width bins and compares each
 //! bin's mean score with the share of right candidates in it; the expected calibration error is
@@ -37,36 +47,46 @@ impl IsotonicMap {
     /// ```
     /// use orthoepy::g2p::IsotonicMap;
     /// // A worked example: the violators 0.6 → right, 0.7 → wrong are pooled into one block
-    /// // with share right 1/2 at raw score 0.65.
+    /// // with share right 1/2 over raw scores 0.6 to 0.7.
     /// let map = IsotonicMap::fit(&[(0.2, false), (0.6, true), (0.7, false), (0.9, true)]).unwrap();
-    /// let expected = [(0.2, 0.0), (0.65, 0.5), (0.9, 1.0)];
+    /// let expected = [(0.2, 0.0), (0.6, 0.5), (0.7, 0.5), (0.9, 1.0)];
     /// assert_eq!(map.knots().len(), expected.len());
     /// for (&(x, y), (ex, ey)) in map.knots().iter().zip(expected) {
     ///     assert!((x - ex).abs() < 1e-12 && (y - ey).abs() < 1e-12, "{:?}", map.knots());
     /// }
     /// assert!((map.apply(0.65) - 0.5).abs() < 1e-12);
+    /// assert!((map.apply(0.8) - 0.75).abs() < 1e-12); // linear in the gap between blocks
     /// ```
     pub fn fit(observations: &[(f64, bool)]) -> Option<IsotonicMap> {
         let mut sorted: Vec<(f64, bool)> = observations.iter().copied().filter(|(x, _)| x.is_finite()).collect();
         sorted.sort_by(|a, b| a.0.total_cmp(&b.0));
-        // Blocks of (sum of raw scores, right count, observations); equal raw scores start pooled.
-        let mut blocks: Vec<(f64, f64, f64)> = Vec::new();
+        // Blocks of (right count, observations, lowest and highest raw score); equal raw scores
+        // always share a block, so blocks never overlap.
+        let mut blocks: Vec<(f64, f64, f64, f64)> = Vec::new();
         for (x, right) in sorted {
             let y = f64::from(u8::from(right));
             match blocks.last_mut() {
-                Some(last) if last.0 / last.2 == x => *last = (last.0 + x, last.1 + y, last.2 + 1.0),
-                _ => blocks.push((x, y, 1.0)),
+                Some(last) if last.3 == x => *last = (last.0 + y, last.1 + 1.0, last.2, x),
+                _ => blocks.push((y, 1.0, x, x)),
             }
             while blocks.len() >= 2 {
                 let (b, a) = (blocks[blocks.len() - 1], blocks[blocks.len() - 2]);
-                if a.1 / a.2 < b.1 / b.2 {
+                if a.0 / a.1 < b.0 / b.1 {
                     break;
                 }
                 blocks.pop();
-                *blocks.last_mut()? = (a.0 + b.0, a.1 + b.1, a.2 + b.2);
+                *blocks.last_mut()? = (a.0 + b.0, a.1 + b.1, a.2, b.3);
             }
         }
-        let knots: Vec<(f64, f64)> = blocks.iter().map(|&(sx, sy, n)| (sx / n, sy / n)).collect();
+        // The fitted function is the block's share right over the block's whole range of raw
+        // scores: a knot at each end of the range (one for a block of equal scores).
+        let mut knots: Vec<(f64, f64)> = Vec::with_capacity(2 * blocks.len());
+        for &(right, n, lo, hi) in &blocks {
+            knots.push((lo, right / n));
+            if hi > lo {
+                knots.push((hi, right / n));
+            }
+        }
         IsotonicMap::from_knots(knots)
     }
 
@@ -115,6 +135,82 @@ impl Calibration {
     /// The calibrated probability of a hypothesis of 0-based `rank` with `posterior`.
     pub fn apply(&self, rank: usize, posterior: f64) -> f64 {
         if rank == 0 { &self.top } else { &self.rest }.apply(posterior)
+    }
+}
+
+/// The fewest held-out candidates a source needs for a fitted map: below this the share right
+/// has a standard error above 0.09 at p = 0.5 (√(0.25/30)), no better than the configured
+/// constant it would replace.
+pub const MIN_SOURCE_OBSERVATIONS: usize = 30;
+
+/// One source's fitted map.
+#[derive(Clone, Debug, PartialEq)]
+pub struct SourceFit {
+    /// The source's name (`initialism`, `compound`, `derivation`, `rules`).
+    pub source: String,
+    /// Held-out candidates the map was fitted on.
+    pub observations: u32,
+    /// Feature → probability right.
+    pub map: IsotonicMap,
+}
+
+/// Calibration of rule-based candidate sources: one isotonic map per source, from a feature of
+/// its candidate to the probability that the candidate is right.
+///
+/// ```
+/// use orthoepy::g2p::SourceCalibration;
+/// // 40 rule candidates: 30 with feature 0.5, 20 of them right; 10 with feature 0.25, all wrong.
+/// let mut obs = vec![("rules", 0.5, true); 20];
+/// obs.extend(vec![("rules", 0.5, false); 10]);
+/// obs.extend(vec![("rules", 0.25, false); 10]);
+/// obs.push(("compound", 1.0, true)); // one compound: too few to fit
+/// let fitted = SourceCalibration::fit(&obs);
+/// let rules = fitted.get("rules").unwrap();
+/// assert_eq!(rules.observations, 40);
+/// assert!((rules.map.apply(0.5) - 2.0 / 3.0).abs() < 1e-12);
+/// assert!(fitted.get("compound").is_none());
+/// ```
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct SourceCalibration {
+    fits: Vec<SourceFit>,
+}
+
+impl SourceCalibration {
+    /// Fits a map per source on (source, feature, right) observations; sources with fewer than
+    /// [`MIN_SOURCE_OBSERVATIONS`] get none.
+    pub fn fit(observations: &[(&str, f64, bool)]) -> SourceCalibration {
+        let mut names: Vec<&str> = observations.iter().map(|o| o.0).collect();
+        names.sort_unstable();
+        names.dedup();
+        let fits = names
+            .into_iter()
+            .filter_map(|name| {
+                let own: Vec<(f64, bool)> = observations.iter().filter(|o| o.0 == name).map(|o| (o.1, o.2)).collect();
+                let map = IsotonicMap::fit(&own).filter(|_| own.len() >= MIN_SOURCE_OBSERVATIONS)?;
+                Some(SourceFit { source: name.to_string(), observations: u32::try_from(own.len()).unwrap_or(u32::MAX), map })
+            })
+            .collect();
+        SourceCalibration { fits }
+    }
+
+    /// A calibration from stored fits; `None` unless the source names are strictly increasing.
+    pub fn from_fits(fits: Vec<SourceFit>) -> Option<SourceCalibration> {
+        fits.windows(2).all(|w| w[0].source < w[1].source).then_some(SourceCalibration { fits })
+    }
+
+    /// The fits, by source name.
+    pub fn fits(&self) -> &[SourceFit] {
+        &self.fits
+    }
+
+    /// The fit of one source, if it has one.
+    pub fn get(&self, source: &str) -> Option<&SourceFit> {
+        self.fits.iter().find(|f| f.source == source)
+    }
+
+    /// True when no source has a fit.
+    pub fn is_empty(&self) -> bool {
+        self.fits.is_empty()
     }
 }
 
@@ -190,6 +286,21 @@ mod tests {
         let obs: Vec<(f64, bool)> = (0..100).map(|i| (i as f64 / 100.0, (i * 7919) % 10 < i / 10)).collect();
         let map = IsotonicMap::fit(&obs).unwrap();
         assert!(map.knots().windows(2).all(|w| w[0].1 <= w[1].1));
+    }
+
+    #[test]
+    fn many_equal_raw_scores_still_give_increasing_knots() {
+        // A feature with few distinct values (one over a word's length): each value's map is
+        // its own block's share right, not moved towards a neighbour's by interpolating
+        // between block means.
+        let mut obs: Vec<(f64, bool)> = (0..700).map(|i| (1.0 / 7.0, i % 3 == 0)).collect();
+        obs.extend((0..700).map(|i| (1.0 / 6.0, i % 2 == 0)));
+        obs.extend((0..500).map(|i| (0.125, i % 5 == 0)));
+        let map = IsotonicMap::fit(&obs).expect("a map");
+        assert_eq!(map.knots().len(), 3, "{:?}", map.knots());
+        assert!((map.apply(1.0 / 6.0) - 0.5).abs() < 1e-12);
+        assert!((map.apply(1.0 / 7.0) - 234.0 / 700.0).abs() < 1e-12);
+        assert!((map.apply(0.125) - 0.2).abs() < 1e-12);
     }
 
     #[test]

@@ -15,11 +15,13 @@ mod model_file;
 mod ngram;
 mod train;
 
-pub use calibration::{reliability, Calibration, IsotonicMap, Reliability, ReliabilityBin, RELIABILITY_BINS};
+pub use calibration::{
+    reliability, Calibration, IsotonicMap, Reliability, ReliabilityBin, SourceCalibration, SourceFit, MIN_SOURCE_OBSERVATIONS, RELIABILITY_BINS,
+};
 pub use decode::{AlignedPiece, DecodeOptions, Guess, GuessWarning, Hypothesis};
 pub use em::LatticeBeam;
 pub use graphone::{strip_stress, LetterUnit, SymbolOptions, MAX_UNIT};
 pub use model::Model;
 pub use model_file::{ModelFileError, FORMAT_VERSION, MAGIC, MAX_MODEL_FILE};
 pub use ngram::{Count, Discount, DISCOUNT_CLASSES, MAX_ORDER};
-pub use train::{train, training_pairs, TrainError, TrainOptions, TrainProgress};
+pub use train::{train, train_with_sources, training_pairs, RuleSources, TrainError, TrainOptions, TrainProgress};

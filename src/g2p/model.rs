@@ -3,7 +3,7 @@
 //! decoding in `decode`, the file format in `model_file`; this module only holds the parts
 //! together and answers questions about them.
 
-use super::calibration::Calibration;
+use super::calibration::{Calibration, SourceCalibration};
 use super::graphone::{Inventory, SymbolOptions, SymbolTable};
 use super::ngram::NgramModel;
 
@@ -26,12 +26,16 @@ pub struct Model {
     /// out at training time (`None` for models trained without held-out words or read from
     /// files older than format 3).
     pub(crate) calibration: Option<Calibration>,
+    /// Calibration of the hybrid guesser's rule-based sources, fitted on the same held-out
+    /// words (`None` when training had no language configuration, or for files older than
+    /// format 4).
+    pub(crate) sources: Option<SourceCalibration>,
 }
 
 impl Model {
     /// Assembles a model and its decoding caches.
     pub(crate) fn new(symbols: SymbolOptions, phoneset_id: String, letters: SymbolTable, phones: SymbolTable, inventory: Inventory, ngram: NgramModel) -> Model {
-        let mut model = Model { symbols, phoneset_id, letters, phones, inventory, ngram: NgramModel::uniform(1), bounds: Vec::new(), insertion_bounds: Vec::new(), calibration: None };
+        let mut model = Model { symbols, phoneset_id, letters, phones, inventory, ngram: NgramModel::uniform(1), bounds: Vec::new(), insertion_bounds: Vec::new(), calibration: None, sources: None };
         model.set_ngram(ngram);
         model
     }
@@ -47,6 +51,11 @@ impl Model {
     /// The calibration of the model's scores, if it carries one.
     pub fn calibration(&self) -> Option<&Calibration> {
         self.calibration.as_ref()
+    }
+
+    /// The calibration of the hybrid guesser's rule-based sources, if the model carries one.
+    pub fn source_calibration(&self) -> Option<&SourceCalibration> {
+        self.sources.as_ref()
     }
 
     /// The probability that a hypothesis of 0-based `rank` with `posterior` is right (stress as

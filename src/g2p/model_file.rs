@@ -3,7 +3,7 @@
 //! | bytes | field |
 //! |---|---|
 //! | 8 | magic `b"OEPYG2P\x1a"` |
-//! | 2 | format version (`u16`, currently 3; versions 1 and 2 are still read) |
+//! | 2 | format version (`u16`, currently 4; versions 1 to 3 are still read) |
 //! | 8 | payload length (`u64`) |
 //! | 4 | CRC-32 (IEEE) of the payload |
 //! | … | payload |
@@ -17,8 +17,11 @@
 //! `f32` back-off, `u32` entry count + (`u32` symbol, `f32` log-probability) pairs); from version
 //! 3 on, the score calibration (see [`super::calibration`]): a flag byte (0: none), then for the
 //! top hypothesis and for the lower ranks a `u32` knot count + (`f64` posterior, `f64`
-//! probability) knots. Files of versions 1 and 2 read as models without a calibration, whose
-//! scores are their raw posteriors.
+//! probability) knots; from version 4 on, the calibration of the hybrid guesser's rule-based
+//! sources: a `u32` count of sources, each its name (string), `u32` held-out observations and a
+//! map as above (`u32` knot count + `f64` pairs), names strictly increasing. Files of versions 1
+//! and 2 read as models without a calibration, whose scores are their raw posteriors; files of
+//! version 3 as models without source calibrations.
 //!
 //! Reading never panics and never allocates more than the bytes that remain justify: every
 //! count is checked against the remaining length before anything is allocated. This module
@@ -26,7 +29,7 @@
 
 use std::path::{Path, PathBuf};
 
-use super::calibration::{Calibration, IsotonicMap};
+use super::calibration::{Calibration, IsotonicMap, SourceCalibration, SourceFit};
 use super::graphone::{Graphone, Inventory, LetterUnit, SymbolOptions, SymbolTable};
 use super::model::Model;
 use super::ngram::{Discount, NgramError, NgramModel, StoredContext};
@@ -36,7 +39,7 @@ use crate::support::read::{read_capped, Limit, ReadError, MIB};
 /// First bytes of every model file.
 pub const MAGIC: [u8; 8] = *b"OEPYG2P\x1a";
 /// Format version written by this build. It also reads [`OLDEST_READ_VERSION`] and later.
-pub const FORMAT_VERSION: u16 = 3;
+pub const FORMAT_VERSION: u16 = 4;
 /// The oldest format version this build still reads.
 pub const OLDEST_READ_VERSION: u16 = 1;
 const HEADER_LEN: usize = 8 + 2 + 8 + 4;
@@ -235,12 +238,22 @@ impl Model {
             }
         }
         w.u8(u8::from(self.calibration.is_some()));
-        for map in self.calibration.iter().flat_map(|c| [&c.top, &c.rest]) {
+        let write_map = |w: &mut Writer, map: &IsotonicMap| {
             w.len(map.knots().len());
             map.knots().iter().for_each(|&(x, y)| {
                 w.f64(x);
                 w.f64(y);
             });
+        };
+        for map in self.calibration.iter().flat_map(|c| [&c.top, &c.rest]) {
+            write_map(&mut w, map);
+        }
+        let fits = self.sources.as_ref().map_or(&[][..], |s| s.fits());
+        w.len(fits.len());
+        for fit in fits {
+            w.str(&fit.source);
+            w.u32(fit.observations);
+            write_map(&mut w, &fit.map);
         }
         let payload = w.0;
         let mut out = Vec::with_capacity(HEADER_LEN + payload.len());
@@ -349,22 +362,37 @@ fn decode_payload(r: &mut Reader<'_>, version: u16) -> Result<Model, ModelFileEr
     }
     let ngram = NgramModel::from_parts(order, discounts, unigram, contexts).map_err(|e: NgramError| invalid(at, &e.to_string()))?;
     let calibration = if version >= 3 && r.flag()? { Some(read_calibration(r)?) } else { None };
+    let sources = if version >= 4 { read_sources(r)? } else { None };
     if r.pos != r.data.len() {
         return Err(invalid(r.offset(), "extra bytes after the model"));
     }
     let mut model = Model::new(symbols, phoneset_id, letters, phones, inventory, ngram);
     model.calibration = calibration;
+    model.sources = sources;
     Ok(model)
 }
 
+fn read_map(r: &mut Reader<'_>) -> Read<IsotonicMap> {
+    let at = r.offset();
+    let n = r.count(16)?;
+    let knots = (0..n).map(|_| Ok((r.f64()?, r.f64()?))).collect::<Read<Vec<(f64, f64)>>>()?;
+    IsotonicMap::from_knots(knots).ok_or_else(|| invalid(at, "calibration knots must be in 0..=1, increasing, and at least one"))
+}
+
 fn read_calibration(r: &mut Reader<'_>) -> Read<Calibration> {
-    let mut map = || -> Read<IsotonicMap> {
-        let at = r.offset();
-        let n = r.count(16)?;
-        let knots = (0..n).map(|_| Ok((r.f64()?, r.f64()?))).collect::<Read<Vec<(f64, f64)>>>()?;
-        IsotonicMap::from_knots(knots).ok_or_else(|| invalid(at, "calibration knots must be in 0..=1, increasing, and at least one"))
-    };
-    Ok(Calibration { top: map()?, rest: map()? })
+    Ok(Calibration { top: read_map(r)?, rest: read_map(r)? })
+}
+
+/// The source calibrations; none stored reads as `None`.
+fn read_sources(r: &mut Reader<'_>) -> Read<Option<SourceCalibration>> {
+    let at = r.offset();
+    // Each source: a name's length, the observations, a knot count: at least 12 bytes.
+    let n = r.count(12)?;
+    let fits = (0..n).map(|_| Ok(SourceFit { source: r.str()?, observations: r.u32()?, map: read_map(r)? })).collect::<Read<Vec<SourceFit>>>()?;
+    if fits.is_empty() {
+        return Ok(None);
+    }
+    SourceCalibration::from_fits(fits).map(Some).ok_or_else(|| invalid(at, "source calibrations must be named in increasing order"))
 }
 
 #[cfg(test)]

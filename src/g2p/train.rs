@@ -8,18 +8,26 @@
 //! its order (early stopping). Before a final pass adds the held-out words' evidence, the
 //! model that has not seen them guesses them (N-best) and the score calibration is fitted on
 //! those guesses (see [`super::calibration`]): the calibrated model then differs from the one
-//! the calibration was fitted on only by that 5% more evidence. Reports progress through a
-//! callback; never prints.
+//! the calibration was fitted on only by that 5% more evidence. Given the hybrid guesser's
+//! language configuration ([`RuleSources`], [`train_with_sources`]), the same held-out words
+//! also calibrate its rule-based sources: each is run on them with a lexicon of the other
+//! training words, and a map per source is fitted on its candidates (see
+//! [`super::SourceCalibration`]). Reports progress through a callback; never prints.
 
 use std::collections::HashSet;
 
 use rayon::prelude::*;
 
+use super::calibration::SourceCalibration;
 use super::em::{expectation, Expectation, LatticeBeam, Sample};
+use super::hybrid::{HybridGuesser, LanguageConfig};
+use super::lts::LetterToSoundRules;
 use super::graphone::{Graphone, Inventory, SymbolOptions, SymbolTable, MAX_UNIT};
 use crate::support::hash::FastMap;
 use super::model::Model;
 use super::ngram::{tune_discounts, Discount, Evidence, Key, NgramModel, MAX_ORDER, NONE, START};
+use crate::lexicon::{Entry, HeadwordPolicy, Lexicon};
+use crate::phoneset::Phoneset;
 use crate::support::align::closest;
 use crate::support::split::heldout_bucket;
 
@@ -248,6 +256,53 @@ fn fit_calibration(model: &Model, refs: &References) -> Option<super::calibratio
     super::calibration::Calibration::fit(&observations)
 }
 
+/// What the hybrid guesser's rule-based sources need to be calibrated beside the model: the
+/// phoneset the lexicon is written in, the language configuration and the letter-to-sound rules
+/// (if the project uses any).
+#[derive(Clone, Copy)]
+pub struct RuleSources<'a> {
+    /// The lexicon's phoneset.
+    pub phoneset: &'a Phoneset,
+    /// The language configuration (letter names, suffix rules, configured scores).
+    pub config: &'a LanguageConfig,
+    /// The letter-to-sound rules, if any.
+    pub rules: Option<&'a LetterToSoundRules>,
+}
+
+/// Fits the rule-based sources' calibration on the held-out words: the guesser looks stems and
+/// compound parts up in a lexicon of the other training words (so no candidate uses its own
+/// word's entry), and a candidate is right when it equals one of the word's references as
+/// normalised for the model. `None` when no source has enough candidates.
+fn fit_sources(data: &[(String, Vec<String>)], opts: &TrainOptions, refs: &References, sources: &RuleSources<'_>) -> Option<SourceCalibration> {
+    if refs.is_empty() {
+        return None;
+    }
+    let entries: Vec<Entry> =
+        data.iter().filter(|(word, _)| heldout_bucket(word) >= opts.heldout_percent).map(|(word, phones)| Entry::new(word, &phones.join(" "))).collect();
+    let lexicon = Lexicon::from_entries(entries, HeadwordPolicy { fold_case: opts.symbols.lowercase });
+    let index = lexicon.index();
+    let observations: Vec<(&str, f64, bool)> = refs
+        .par_iter()
+        .flat_map_iter(|(word, variants)| {
+            let guesser = HybridGuesser::new(&lexicon, &index, sources.phoneset, sources.config);
+            let guesser = match sources.rules {
+                Some(rules) => guesser.with_rules(rules),
+                None => guesser,
+            };
+            guesser
+                .source_candidates(word)
+                .into_iter()
+                .map(|c| {
+                    let phones: Vec<String> = c.pronunciation.split(' ').map(|p| opts.symbols.phone(p)).collect();
+                    (c.calibration, c.feature, variants.contains(&phones))
+                })
+                .collect::<Vec<_>>()
+        })
+        .collect();
+    let fitted = SourceCalibration::fit(&observations);
+    (!fitted.is_empty()).then_some(fitted)
+}
+
 /// Interns the training pairs; returns (train samples, held-out samples, held-out references).
 /// A pair that is the same as an earlier one after normalisation (e.g. two variants that differ
 /// only in stress, when stress is stripped) is used once, so it does not weigh twice.
@@ -296,6 +351,18 @@ fn prepare(data: &[(String, Vec<String>)], opts: &TrainOptions, model: &mut Mode
 /// assert_eq!(model.guess("bat", 1).hypotheses[0].phones, ["B", "AE", "T"]);
 /// ```
 pub fn train(data: &[(String, Vec<String>)], opts: &TrainOptions, progress: &mut dyn FnMut(&TrainProgress)) -> Result<Model, TrainError> {
+    train_with_sources(data, opts, None, progress)
+}
+
+/// [`train`], and with `sources` the calibration of the hybrid guesser's rule-based sources
+/// fitted on the same held-out words and stored with the model
+/// ([`Model::source_calibration`]).
+pub fn train_with_sources(
+    data: &[(String, Vec<String>)],
+    opts: &TrainOptions,
+    sources: Option<&RuleSources<'_>>,
+    progress: &mut dyn FnMut(&TrainProgress),
+) -> Result<Model, TrainError> {
     check(opts)?;
     let pool = rayon::ThreadPoolBuilder::new()
         .num_threads(opts.threads)
@@ -369,6 +436,7 @@ pub fn train(data: &[(String, Vec<String>)], opts: &TrainOptions, progress: &mut
         }
     }
     model.calibration = pool.install(|| fit_calibration(&model, &refs));
+    model.sources = sources.and_then(|s| pool.install(|| fit_sources(data, opts, &refs, s)));
     if let Some(mut e) = last.filter(|_| !heldout.is_empty()) {
         // `h` is the held-out evidence under the final model, collected at the final order.
         super::ngram::merge_evidence(&mut e.evidence, h.evidence);

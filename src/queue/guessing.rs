@@ -15,12 +15,12 @@ use crate::workspace::{Workspace, CANDIDATES_PER_WORD};
 
 impl Candidate {
     /// The review form of a guesser's proposal: its sources joined by `+`, its calibrated
-    /// score, and the model's letter↔phone alignment when it has one.
+    /// score, the model's letter↔phone alignment when it has one, and its warnings.
     ///
     /// ```
     /// use orthoepy::g2p::hybrid::{Proposal, Source};
     /// use orthoepy::queue::Candidate;
-    /// let p = Proposal { pronunciation: "F EH1 R IY0 B OW2 T".into(), score: 0.7, alignment: vec![],
+    /// let p = Proposal { pronunciation: "F EH1 R IY0 B OW2 T".into(), score: 0.7, alignment: vec![], warnings: vec![],
     ///                    sources: vec![Source::Compound { parts: vec!["ferry".into(), "boat".into()] }] };
     /// let c = Candidate::from_proposal(&p);
     /// assert_eq!((c.source.as_str(), c.score), ("compound:ferry+boat", Some(0.7)));
@@ -33,6 +33,7 @@ impl Candidate {
             .iter()
             .map(|piece| AlignPair { letters: piece.letters.clone(), phones: piece.phones.join(" ") })
             .collect();
+        candidate.warnings = proposal.warnings.clone();
         candidate
     }
 }

@@ -73,6 +73,11 @@ pub struct Candidate {
     /// Rewrite rules that fired to make it (variants only).
     #[serde(default, skip_serializing_if = "Vec::is_empty")]
     pub rules: Vec<String>,
+    /// What the producer warned about (e.g. letters the model never saw, read as their base
+    /// letter), shown beside the item. Left out of the file when empty, so queue files written
+    /// before warnings were kept read the same.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub warnings: Vec<String>,
 }
 
 impl Candidate {
@@ -91,6 +96,7 @@ impl Candidate {
             score: None,
             alignment: Vec::new(),
             rules: Vec::new(),
+            warnings: Vec::new(),
         }
     }
 }
@@ -156,6 +162,26 @@ impl Item {
         self.origin = origin.to_string();
         self.counts = BTreeMap::from([(origin.to_string(), count)]);
         self.count = count;
+    }
+
+    /// Every distinct warning of the item's candidates, in candidate order.
+    ///
+    /// ```
+    /// use orthoepy::queue::{Candidate, Item};
+    /// let mut item = Item::new_word("café");
+    /// let mut c = Candidate::new("K AE0 F EY1", "model:1");
+    /// c.warnings.push("é read as e".into());
+    /// item.candidates.extend([c.clone(), c]);
+    /// assert_eq!(item.warnings(), ["é read as e"]);
+    /// ```
+    pub fn warnings(&self) -> Vec<&str> {
+        let mut out: Vec<&str> = Vec::new();
+        for w in self.candidates.iter().flat_map(|c| &c.warnings) {
+            if !out.contains(&w.as_str()) {
+                out.push(w);
+            }
+        }
+        out
     }
 
     /// The count from each origin (for items of older files: `count` under `origin`).

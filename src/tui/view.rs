@@ -168,8 +168,8 @@ fn draw_top(frame: &mut Frame, app: &App, t: Theme, area: Rect) {
     }
 }
 
-/// The word panel's lines: the headword first (it is never pushed off), the decision in force
-/// when there is one, then the example line.
+/// The word panel's lines: the headword first (it is never pushed off), the candidates'
+/// warnings, the decision in force when there is one, then the example line.
 fn word_panel(app: &App, t: Theme, w: usize) -> Vec<Line<'static>> {
     let Some(item) = app.current() else {
         let why = if app.items.is_empty() {
@@ -195,6 +195,9 @@ fn word_panel(app: &App, t: Theme, w: usize) -> Vec<Line<'static>> {
         Span::styled(note, t.fg(Color::Yellow)),
     ];
     let mut lines = vec![fit_line(head, w)];
+    for warning in item.warnings() {
+        lines.extend(wrap_text(&format!("⚠ {warning}"), w, 2, t.warn()));
+    }
     if let Some((seq, d)) = app.current_key().and_then(|k| app.ledger().current(k)) {
         let text = format!("decision #{seq}: {} — {}", describe_shown(app, &d.action), if d.note.is_empty() { "no note" } else { &d.note });
         lines.extend(wrap_text(&text, w, 2, t.warn()));

