@@ -14,7 +14,7 @@
 
 use super::entry::{join_phones, Entry, Status};
 use super::index::IndexOptions;
-use super::normalize::{find_control, normalize_key, HeadwordPolicy};
+use super::normalize::{normalize_key, HeadwordPolicy};
 use super::store::MAX_LEXICON;
 use crate::support::located::{origin_of, Located};
 use crate::support::read::{read_capped, Limit, ReadError};
@@ -124,7 +124,11 @@ fn parse_line(content: &str) -> Result<(&str, Option<f64>, &str), (usize, String
     // the store and every export.
     let rest_column = column + head.chars().count();
     for (offset, text) in [(column, head), (rest_column, phones)] {
-        if let Some((at, control)) = find_control(text).filter(|(_, c)| !c.is_whitespace()) {
+        // Every control character is looked at, not only the first: `\x0c\x00` (a form feed,
+        // which is whitespace, then a NUL) let the NUL through (found by the plain_import fuzz
+        // target; input kept in fuzz/regressions/plain_import/).
+        let bad = text.chars().enumerate().find(|(_, c)| c.is_control() && !c.is_whitespace());
+        if let Some((at, control)) = bad {
             let what = if offset == column { "headword" } else { "pronunciation" };
             return Err((offset + at, format!("{what} holds the control character U+{:04X}; remove it", control as u32)));
         }
@@ -360,6 +364,30 @@ mod tests {
         assert_eq!(import.entries.len(), 1);
         let found: Vec<(usize, usize)> = import.rejected.iter().map(|r| (r.line().unwrap_or(0), r.column().unwrap_or(0))).collect();
         assert_eq!(found, [(2, 7), (3, 1), (4, 4)]);
+    }
+
+    #[test]
+    fn a_control_character_after_a_whitespace_one_is_rejected() {
+        let import = read_plain(b"afte\x0c\x00oon AE2 F T ER0 N UW1 N\n", "t.dict", "t");
+        assert!(import.entries.is_empty(), "{:?}", import.entries);
+        assert!(import.rejected[0].message.contains("U+0000"), "{:?}", import.rejected);
+    }
+
+    #[test]
+    fn fuzz_regressions_write_build_lexicons_that_read_back() {
+        // The plain_import fuzz target's property on the inputs it found: what was read, written
+        // as a build lexicon, reads back with no line rejected.
+        let inputs: [&[u8]; 3] = [
+            include_bytes!("../../fuzz/regressions/plain_import/formfeed-then-nul.txt"),
+            include_bytes!("../../fuzz/regressions/plain_import/vertical-tab-then-nul.txt"),
+            include_bytes!("../../fuzz/regressions/plain_import/formfeed-nul-many.txt"),
+        ];
+        for input in inputs {
+            let first = read_plain(input, "fuzz", "fuzz");
+            let written = write_plain(&first.entries, &HeadwordPolicy::default(), &PlainExport::default());
+            let again = read_plain(written.text.as_bytes(), "fuzz", "fuzz");
+            assert!(again.rejected.is_empty(), "{:?}", again.rejected);
+        }
     }
 
     #[test]
