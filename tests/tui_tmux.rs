@@ -6,12 +6,21 @@
 mod common;
 
 use common::tmux::{have_tmux, Session};
-use std::path::Path;
+use std::path::{Path, PathBuf};
 use std::process::Command;
 use std::time::{Duration, Instant};
 
 fn bin() -> &'static str {
     env!("CARGO_BIN_EXE_orthoepy")
+}
+
+/// A fresh copy of the demo project in a temporary folder (kept while the first value lives).
+fn demo_project() -> (tempfile::TempDir, PathBuf) {
+    let tmp = tempfile::tempdir().unwrap();
+    let dir = tmp.path().join("coast");
+    let made = Command::new(bin()).args(["demo", "--no-review"]).arg(&dir).output().unwrap();
+    assert!(made.status.success(), "{}", String::from_utf8_lossy(&made.stderr));
+    (tmp, dir)
 }
 
 fn review_command(dir: &Path) -> String {
@@ -24,10 +33,7 @@ fn decisions_survive_kill_9() {
         eprintln!("SKIPPED decisions_survive_kill_9: tmux is not installed (apt-get install tmux)");
         return;
     }
-    let tmp = tempfile::tempdir().unwrap();
-    let dir = tmp.path().join("coast");
-    let made = Command::new(bin()).args(["demo", "--no-review"]).arg(&dir).output().unwrap();
-    assert!(made.status.success(), "{}", String::from_utf8_lossy(&made.stderr));
+    let (_tmp, dir) = demo_project();
 
     let name = format!("orthoepy-e2e-{}", std::process::id());
     let s = Session::start(&name, &review_command(&dir));
@@ -102,10 +108,7 @@ fn sigterm_and_sighup_restore_the_terminal_and_keep_the_journal_whole() {
         return;
     }
     for signal in ["TERM", "HUP"] {
-        let tmp = tempfile::tempdir().unwrap();
-        let dir = tmp.path().join("coast");
-        let made = Command::new(bin()).args(["demo", "--no-review"]).arg(&dir).output().unwrap();
-        assert!(made.status.success(), "{}", String::from_utf8_lossy(&made.stderr));
+        let (_tmp, dir) = demo_project();
         // The shell stays after the screen closes, to show the terminal's state: `stty -a`
         // prints "icanon" and "echo" (not "-icanon", "-echo") once raw mode is off.
         let command = format!(
@@ -145,10 +148,7 @@ fn a_terminal_that_hangs_up_ends_the_screen() {
         eprintln!("SKIPPED a_terminal_that_hangs_up_ends_the_screen: tmux is not installed (apt-get install tmux)");
         return;
     }
-    let tmp = tempfile::tempdir().unwrap();
-    let dir = tmp.path().join("coast");
-    let made = Command::new(bin()).args(["demo", "--no-review"]).arg(&dir).output().unwrap();
-    assert!(made.status.success(), "{}", String::from_utf8_lossy(&made.stderr));
+    let (_tmp, dir) = demo_project();
     let s = Session::start(&format!("orthoepy-hangup-{}", std::process::id()), &review_command(&dir));
     s.wait_for("Kelport");
     s.keys(&["Enter"]);
