@@ -11,11 +11,13 @@
 //! not sigmoid-shaped (over-confident near 1, roughly right in the middle) and the held-out
 //! part of a lexicon of any useful size has thousands of words, enough for a non-parametric fit
 //! without over-fitting; it keeps the order of the scores (a monotone map), so rankings within
-//! a rank group do not change. The fitted function is the pooled block's share right over the
-//! block's whole range of raw scores (the step function of pool-adjacent-violators) and linear
-//! in the gaps between blocks, so the map is continuous; a block's own scores are not spread
-//! around its mean, which for a feature with few distinct values (one over a word's length)
-//! would move a large block's members towards its neighbours' shares.
+//! a rank group do not change. The model's maps are smoothed ([`IsotonicMap::fit_smoothed`]):
+//! one knot per pooled block at its members' mean posterior, linear between them, since a
+//! posterior is continuous and a wide block's lowest members are right less often than its
+//! highest. The sources' maps are step functions ([`IsotonicMap::fit`]): the pooled block's
+//! share right over the block's whole range of raw scores, linear only in the gaps between
+//! blocks, because their features take few distinct values (one over a word's length) and
+//! interpolating between block means would move a large block towards its neighbours' shares.
 //!
 //! **Sources without a model.** The hybrid guesser's rule-based sources (initialisms,
 //! compounds, derivations, letter-to-sound rules) get a [`SourceCalibration`]: per source one
@@ -58,36 +60,37 @@ impl IsotonicMap {
     /// assert!((map.apply(0.8) - 0.75).abs() < 1e-12); // linear in the gap between blocks
     /// ```
     pub fn fit(observations: &[(f64, bool)]) -> Option<IsotonicMap> {
-        let mut sorted: Vec<(f64, bool)> = observations.iter().copied().filter(|(x, _)| x.is_finite()).collect();
-        sorted.sort_by(|a, b| a.0.total_cmp(&b.0));
-        // Blocks of (right count, observations, lowest and highest raw score); equal raw scores
-        // always share a block, so blocks never overlap.
-        let mut blocks: Vec<(f64, f64, f64, f64)> = Vec::new();
-        for (x, right) in sorted {
-            let y = f64::from(u8::from(right));
-            match blocks.last_mut() {
-                Some(last) if last.3 == x => *last = (last.0 + y, last.1 + 1.0, last.2, x),
-                _ => blocks.push((y, 1.0, x, x)),
-            }
-            while blocks.len() >= 2 {
-                let (b, a) = (blocks[blocks.len() - 1], blocks[blocks.len() - 2]);
-                if a.0 / a.1 < b.0 / b.1 {
-                    break;
-                }
-                blocks.pop();
-                *blocks.last_mut()? = (a.0 + b.0, a.1 + b.1, a.2, b.3);
-            }
-        }
         // The fitted function is the block's share right over the block's whole range of raw
         // scores: a knot at each end of the range (one for a block of equal scores).
-        let mut knots: Vec<(f64, f64)> = Vec::with_capacity(2 * blocks.len());
-        for &(right, n, lo, hi) in &blocks {
-            knots.push((lo, right / n));
-            if hi > lo {
-                knots.push((hi, right / n));
+        let mut knots: Vec<(f64, f64)> = Vec::new();
+        for block in pooled_blocks(observations) {
+            knots.push((block.lowest, block.share_right()));
+            if block.highest > block.lowest {
+                knots.push((block.highest, block.share_right()));
             }
         }
         IsotonicMap::from_knots(knots)
+    }
+
+    /// Fits by pool-adjacent-violators like [`fit`](Self::fit), but places one knot per block at
+    /// the mean raw score of its members and interpolates linearly between block means, the
+    /// smoothed isotonic map for a continuous raw score (a posterior): a wide block's lowest
+    /// members, which are right less often than its highest in unseen data, are no longer all
+    /// given the block's mean share. Use [`fit`](Self::fit) for a feature with few distinct
+    /// values, where interpolating would move a block towards its neighbours' shares.
+    ///
+    /// ```
+    /// use orthoepy::g2p::IsotonicMap;
+    /// // Worked example: blocks {0.2: wrong}, {0.6: right, 0.7: wrong} (pooled, mean raw 0.65,
+    /// // share 1/2) and {0.9: right}.
+    /// let map = IsotonicMap::fit_smoothed(&[(0.2, false), (0.6, true), (0.7, false), (0.9, true)]).unwrap();
+    /// assert_eq!(map.knots().len(), 3);
+    /// assert!((map.apply(0.65) - 0.5).abs() < 1e-12);
+    /// assert!((map.apply(0.6) - 0.5 * 0.4 / 0.45).abs() < 1e-12); // between 0.2 → 0 and 0.65 → 0.5
+    /// assert_eq!(map.apply(0.1), 0.0);
+    /// ```
+    pub fn fit_smoothed(observations: &[(f64, bool)]) -> Option<IsotonicMap> {
+        IsotonicMap::from_knots(pooled_blocks(observations).iter().map(|b| (b.raw_sum / b.count, b.share_right())).collect())
     }
 
     /// A map from stored knots; `None` unless there is at least one knot, every value is in
@@ -114,6 +117,53 @@ impl IsotonicMap {
     }
 }
 
+/// One block of pool-adjacent-violators: observations pooled because their shares right would
+/// otherwise decrease with the raw score.
+#[derive(Clone, Copy)]
+struct Block {
+    right: f64,
+    count: f64,
+    raw_sum: f64,
+    lowest: f64,
+    highest: f64,
+}
+
+impl Block {
+    fn share_right(&self) -> f64 {
+        self.right / self.count
+    }
+}
+
+/// The blocks of pool-adjacent-violators (Zadrozny & Elkan 2002) over (raw score, right)
+/// observations, raw score increasing; equal raw scores always share a block, so blocks never
+/// overlap and their shares right strictly increase.
+fn pooled_blocks(observations: &[(f64, bool)]) -> Vec<Block> {
+    let mut sorted: Vec<(f64, bool)> = observations.iter().copied().filter(|(x, _)| x.is_finite()).collect();
+    sorted.sort_by(|a, b| a.0.total_cmp(&b.0));
+    let mut blocks: Vec<Block> = Vec::new();
+    for (x, right) in sorted {
+        let y = f64::from(u8::from(right));
+        match blocks.last_mut() {
+            Some(last) if last.highest == x => {
+                last.right += y;
+                last.count += 1.0;
+                last.raw_sum += x;
+            }
+            _ => blocks.push(Block { right: y, count: 1.0, raw_sum: x, lowest: x, highest: x }),
+        }
+        while let [.., a, b] = blocks[..] {
+            if a.share_right() < b.share_right() {
+                break;
+            }
+            blocks.pop();
+            if let Some(last) = blocks.last_mut() {
+                *last = Block { right: a.right + b.right, count: a.count + b.count, raw_sum: a.raw_sum + b.raw_sum, lowest: a.lowest, highest: b.highest };
+            }
+        }
+    }
+    blocks
+}
+
 /// Calibration of a model's N-best posteriors: one map for the top hypothesis, one for the
 /// hypotheses below it.
 #[derive(Clone, Debug, PartialEq)]
@@ -129,7 +179,7 @@ impl Calibration {
     /// have observations.
     pub fn fit(observations: &[(usize, f64, bool)]) -> Option<Calibration> {
         let group = |top: bool| observations.iter().filter(|o| (o.0 == 0) == top).map(|o| (o.1, o.2)).collect::<Vec<_>>();
-        Some(Calibration { top: IsotonicMap::fit(&group(true))?, rest: IsotonicMap::fit(&group(false))? })
+        Some(Calibration { top: IsotonicMap::fit_smoothed(&group(true))?, rest: IsotonicMap::fit_smoothed(&group(false))? })
     }
 
     /// The calibrated probability of a hypothesis of 0-based `rank` with `posterior`.
