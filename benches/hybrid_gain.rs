@@ -111,7 +111,7 @@ fn main() {
                 map.push((w, Vec::new()));
                 map.len() - 1
             });
-            map[i].1.push(e.pronunciation.clone());
+            map[i].1.push(e.pronunciation.to_string());
         }
         map
     };

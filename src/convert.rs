@@ -60,7 +60,7 @@ pub fn convert_entries(entries: &[Entry], converter: &Converter<'_>, from: &Phon
         let pron = match entry_phones(entry, from) {
             Ok(p) => p,
             Err(symbol) => {
-                done.unreadable.push((entry.line, entry.word.clone(), symbol));
+                done.unreadable.push((entry.line, entry.word.to_string(), symbol));
                 continue;
             }
         };
@@ -77,12 +77,12 @@ pub fn convert_entries(entries: &[Entry], converter: &Converter<'_>, from: &Phon
                 examples: Vec::new(),
             });
             row.count += 1;
-            if row.examples.len() < EXAMPLES && !row.examples.contains(&entry.word) {
-                row.examples.push(entry.word.clone());
+            if row.examples.len() < EXAMPLES && !row.examples.iter().any(|w| *w == entry.word) {
+                row.examples.push(entry.word.to_string());
             }
         }
         let mut out = entry.clone();
-        out.pronunciation = converted.render(to);
+        out.pronunciation = converted.render(to).into();
         done.entries.push(out);
     }
     done.report = rows.into_values().collect();

@@ -112,10 +112,10 @@ fn plant(entries: &mut Vec<Entry>) -> BTreeSet<Expected> {
     let mut expected = BTreeSet::new();
     let mut counts: HashMap<String, usize> = HashMap::new();
     for e in entries.iter() {
-        *counts.entry(e.word.clone()).or_insert(0) += 1;
+        *counts.entry(e.word.to_string()).or_insert(0) += 1;
     }
     let single = |e: &Entry, vowels: usize| {
-        counts.get(&e.word) == Some(&1) && e.phones().filter(|p| p.ends_with(['0', '1', '2'])).count() >= vowels
+        counts.get(e.word.as_str()) == Some(&1) && e.phones().filter(|p| p.ends_with(['0', '1', '2'])).count() >= vowels
     };
     let mut expect = |check: &str, word: &str, pron: &str| {
         expected.insert((check.to_string(), word.to_string(), pron.to_string()));
@@ -133,7 +133,7 @@ fn plant(entries: &mut Vec<Entry>) -> BTreeSet<Expected> {
     };
     let edit = |entries: &mut Vec<Entry>, i: usize, f: &dyn Fn(&str) -> String| {
         let p = f(&entries[i].pronunciation);
-        entries[i].pronunciation = p.clone();
+        entries[i].pronunciation = p.as_str().into();
         (entries[i].word.clone(), p)
     };
     let first_token = |p: &str, from: &str, to: &str| p.replacen(from, to, 1);
@@ -176,20 +176,20 @@ fn plant(entries: &mut Vec<Entry>) -> BTreeSet<Expected> {
     entries.push(zw);
     // mixed-script: a Cyrillic "а" (U+0430) for a Latin "a".
     let mut cyr = entries[mixed].clone();
-    cyr.word = cyr.word.replacen('a', "а", 1);
+    cyr.word = cyr.word.replacen('a', "а", 1).into();
     expect("mixed-script", &cyr.word, &cyr.pronunciation);
     entries.push(cyr);
     // redundant-variant: a second pronunciation differing only in an unstressed/secondary mark.
     let i = pick(entries, 2, true);
     let mut variant = entries[i].clone();
-    variant.pronunciation = first_token(&variant.pronunciation, "0", "2");
+    variant.pronunciation = first_token(&variant.pronunciation, "0", "2").into();
     expect("redundant-variant", &variant.word, &variant.pronunciation);
     entries.push(variant);
     // New words (after the slice alphabetically, so no twins).
     let mut add = |check: &str, word: &str, pron: &str| {
         expect(check, word, pron);
         entries.push(Entry::new(word, pron));
-        entries.last_mut().unwrap().word = word.to_string();
+        entries.last_mut().unwrap().word = word.into();
     };
     add("empty-pronunciation", "quayage", "");
     add("no-nucleus", "quayst", "K W S T");

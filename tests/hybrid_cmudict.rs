@@ -20,7 +20,7 @@ fn cmudict() -> Lexicon {
 fn pronunciations(lexicon: &Lexicon) -> HashMap<String, Vec<String>> {
     let mut map: HashMap<String, Vec<String>> = HashMap::new();
     for e in lexicon.entries() {
-        map.entry(strip_variant_suffix(&e.word).to_string()).or_default().push(e.pronunciation.clone());
+        map.entry(strip_variant_suffix(&e.word).to_string()).or_default().push(e.pronunciation.to_string());
     }
     map
 }

@@ -91,7 +91,7 @@ fn every_cmudict_pronunciation_survives_a_pls_ipa_round_trip() {
     let back = orthoepy::pls::read_pls(xml.as_bytes(), "cmudict.pls", &set, "pls").unwrap();
     assert!(back.rejected.is_empty(), "{:?}", &back.rejected[..3.min(back.rejected.len())]);
     let as_set = |entries: &[orthoepy::lexicon::Entry]| -> std::collections::BTreeSet<(String, String)> {
-        entries.iter().map(|e| (e.word.clone(), e.pronunciation.clone())).collect()
+        entries.iter().map(|e| (e.word.to_string(), e.pronunciation.to_string())).collect()
     };
     let (want, got) = (as_set(&import.entries), as_set(&back.entries));
     let missing: Vec<_> = want.difference(&got).take(5).collect();

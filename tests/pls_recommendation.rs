@@ -85,7 +85,7 @@ fn aliases_survive_export_and_import() {
         let mut rows: Vec<(String, String, String, String, Status)> = import
             .entries
             .iter()
-            .map(|e| (e.word.clone(), e.pronunciation.clone(), e.source.clone(), e.note.clone(), e.status))
+            .map(|e| (e.word.to_string(), e.pronunciation.to_string(), e.source.to_string(), e.note.to_string(), e.status))
             .collect();
         rows.sort();
         rows

@@ -133,7 +133,7 @@ fn cmudict_without_the_column_reads_exactly_as_written() {
             (word, fields.collect::<Vec<_>>().join(" "))
         })
         .collect();
-    let read: Vec<(String, String)> = import.entries.iter().map(|e| (e.word.clone(), e.pronunciation.clone())).collect();
+    let read: Vec<(String, String)> = import.entries.iter().map(|e| (e.word.to_string(), e.pronunciation.to_string())).collect();
     assert_eq!(read.len(), written.len());
     assert!(read == written, "the first difference: {:?}", read.iter().zip(&written).find(|(a, b)| a != b));
     assert!(import.entries.iter().all(|e| e.score.is_none()));

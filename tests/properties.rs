@@ -92,12 +92,12 @@ fn entry(extra_columns: usize) -> impl Strategy<Value = Entry> {
         proptest::collection::vec(free_text(), extra_columns),
     )
         .prop_map(|(word, pronunciation, status, source, score, note, extra)| Entry {
-            word,
-            pronunciation,
+            word: word.into(),
+            pronunciation: pronunciation.into(),
             status,
-            source,
+            source: source.into(),
             score,
-            note,
+            note: note.into(),
             extra,
             line: 0,
         })
@@ -123,12 +123,12 @@ type Content = (String, String, Status, String, Option<u64>, String, Vec<String>
 
 fn content(e: &Entry) -> Content {
     (
-        e.word.clone(),
-        e.pronunciation.clone(),
+        e.word.to_string(),
+        e.pronunciation.to_string(),
         e.status,
-        e.source.clone(),
+        e.source.to_string(),
         e.score.map(f64::to_bits),
-        e.note.clone(),
+        e.note.to_string(),
         e.extra.clone(),
     )
 }
@@ -142,12 +142,12 @@ fn csv_crate_store(names: &[String], entries: &[Entry]) -> Vec<u8> {
     writer.write_record(&header).expect("in-memory write");
     for e in entries {
         let mut row = vec![
-            e.word.clone(),
-            e.pronunciation.clone(),
+            e.word.to_string(),
+            e.pronunciation.to_string(),
             e.status.as_str().to_string(),
-            e.source.clone(),
+            e.source.to_string(),
             e.score.map(|s| s.to_string()).unwrap_or_default(),
-            e.note.clone(),
+            e.note.to_string(),
         ];
         row.extend(e.extra.iter().cloned());
         writer.write_record(&row).expect("in-memory write");
@@ -259,7 +259,7 @@ fn expected_pls(entries: &[Entry], policy: &HeadwordPolicy) -> Vec<(String, Stri
         while let Some((_, _, e)) = keyed.get(i).filter(|(k, _, _)| k == key) {
             if !seen.contains(&e.pronunciation.as_str()) {
                 seen.push(&e.pronunciation);
-                out.push((first.word.clone(), e.pronunciation.clone()));
+                out.push((first.word.to_string(), e.pronunciation.to_string()));
             }
             i += 1;
         }
@@ -284,7 +284,7 @@ proptest! {
             let import = read_pls(xml.as_bytes(), "round-trip.pls", &set, "pls").map_err(|e| TestCaseError::fail(format!("{e}\n{xml}")))?;
             prop_assert!(import.rejected.is_empty(), "{:?}\n{}", import.rejected, xml);
             let got: Vec<(String, String)> =
-                import.entries.iter().map(|e| (e.word.clone(), e.pronunciation.clone())).collect();
+                import.entries.iter().map(|e| (e.word.to_string(), e.pronunciation.to_string())).collect();
             prop_assert_eq!(&want, &got, "alphabet {:?}\n{}", alphabet, xml);
         }
     }
@@ -468,7 +468,7 @@ proptest! {
             let got: Vec<Vec<String>> = lexicon
                 .entries()
                 .iter()
-                .map(|e| vec![e.word.clone(), e.pronunciation.clone(), e.status.as_str().to_string(), e.source.clone(), String::new(), e.note.clone()])
+                .map(|e| vec![e.word.to_string(), e.pronunciation.to_string(), e.status.as_str().to_string(), e.source.to_string(), String::new(), e.note.to_string()])
                 .collect();
             prop_assert_eq!(&got, &serial, "chunk {}", chunk);
         }

@@ -22,7 +22,7 @@ fn cmudict(words: &[&str]) -> Lexicon {
 /// Pronunciation of `word` in CMUdict (first entry).
 fn cmu(word: &str) -> String {
     let lexicon = cmudict(&[word]);
-    lexicon.entries().first().map(|e| e.pronunciation.clone()).unwrap_or_else(|| panic!("{word} not in CMUdict"))
+    lexicon.entries().first().map(|e| e.pronunciation.to_string()).unwrap_or_else(|| panic!("{word} not in CMUdict"))
 }
 
 /// Every variant the rule set gives for one pronunciation.

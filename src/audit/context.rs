@@ -340,7 +340,7 @@ pub(crate) mod tests {
             .enumerate()
             .map(|(i, (w, p))| {
                 let mut e = Entry::new(w, p);
-                e.word = w.to_string(); // keep the spelling exactly as given
+                e.word = (*w).into(); // keep the spelling exactly as given
                 e.line = i + 2;
                 e
             })

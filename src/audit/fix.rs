@@ -139,23 +139,23 @@ pub fn apply(lexicon: &mut Lexicon) -> Vec<Change> {
     for entry in lexicon.entries_mut().iter_mut() {
         let (after, repairs) = repair_headword(&entry.word);
         if !repairs.is_empty() && !after.is_empty() {
-            let before = std::mem::replace(&mut entry.word, after.clone());
-            changes.push(Change::Headword { line: entry.line, before, after, repairs });
+            let before = std::mem::replace(&mut entry.word, after.as_str().into());
+            changes.push(Change::Headword { line: entry.line, before: before.into(), after, repairs });
         }
     }
     let entries = lexicon.entries_mut();
     let mut first_of: HashMap<(String, String), usize> = HashMap::with_capacity(entries.len());
     let mut drop = vec![false; entries.len()];
     for (i, entry) in entries.iter().enumerate() {
-        let key = (entry.word.clone(), crate::lexicon::join_phones(entry.phones()));
+        let key = (entry.word.to_string(), crate::lexicon::join_phones(entry.phones()));
         match first_of.get(&key) {
             Some(&first) if same_row(&entries[first], entry) => {
                 drop[i] = true;
                 changes.push(Change::DroppedDuplicate {
                     line: entry.line,
                     kept_line: entries[first].line,
-                    word: entry.word.clone(),
-                    pronunciation: entry.pronunciation.clone(),
+                    word: entry.word.to_string(),
+                    pronunciation: entry.pronunciation.to_string(),
                 });
             }
             Some(_) => {}
@@ -188,7 +188,7 @@ mod tests {
             .enumerate()
             .map(|(i, (w, p))| {
                 let mut e = Entry::new(w, p);
-                e.word = w.to_string();
+                e.word = (*w).into();
                 e.line = i + 2;
                 e
             })

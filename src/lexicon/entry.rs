@@ -3,6 +3,7 @@
 //! This module owns [`Entry`] and [`Status`]. It knows nothing about phone symbols beyond the
 //! store's convention that a pronunciation is phone tokens separated by single spaces.
 
+use compact_str::CompactString;
 use std::fmt;
 use std::str::FromStr;
 
@@ -73,17 +74,17 @@ impl FromStr for Status {
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
 pub struct Entry {
     /// The headword exactly as written (the index uses its normalised form).
-    pub word: String,
+    pub word: CompactString,
     /// Phone symbols, stress marks included, separated by single spaces.
-    pub pronunciation: String,
+    pub pronunciation: CompactString,
     /// Workflow status.
     pub status: Status,
     /// Where the pronunciation came from (free text such as `cmudict`, `review`, `g2p`).
-    pub source: String,
+    pub source: CompactString,
     /// An optional confidence or probability.
     pub score: Option<f64>,
     /// A free-text note.
-    pub note: String,
+    pub note: CompactString,
     /// Values of extra columns the store does not know, in the file's header order.
     #[serde(skip_serializing_if = "Vec::is_empty")]
     pub extra: Vec<String>,
@@ -96,12 +97,12 @@ impl Entry {
     /// are folded to single spaces.
     pub fn new(word: &str, pronunciation: &str) -> Entry {
         Entry {
-            word: word.to_string(),
-            pronunciation: join_phones(pronunciation.split_whitespace()),
+            word: CompactString::from(word),
+            pronunciation: join_phones(pronunciation.split_whitespace()).into(),
             status: Status::Accepted,
-            source: String::new(),
+            source: CompactString::default(),
             score: None,
-            note: String::new(),
+            note: CompactString::default(),
             extra: Vec::new(),
             line: 0,
         }

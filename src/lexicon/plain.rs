@@ -93,8 +93,8 @@ pub fn read_plain(bytes: &[u8], origin: &str, source: &str) -> PlainImport {
                 let mut entry = Entry::new(word, phones);
                 entry.score = probability;
                 entry.status = Status::Imported;
-                entry.source = source.to_string();
-                entry.note = comment.to_string();
+                entry.source = source.into();
+                entry.note = comment.into();
                 entry.line = line;
                 import.entries.push(entry);
             }

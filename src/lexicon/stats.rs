@@ -175,7 +175,7 @@ mod tests {
         // Phones of 1 to 9 bytes (IPA with diacritics runs past the seven packed bytes), and
         // sources in runs and interleaved.
         let rows = [("a", "t͡ʃʰ ɑː t", "x"), ("b", "t͡ʃʰː t", "x"), ("c", "t t͡ʃʰ", "y"), ("d", "ɑː", "x"), ("e", "A\u{0} A", "")];
-        let entries = rows.iter().map(|(w, p, s)| Entry { source: s.to_string(), ..Entry::new(w, p) }).collect();
+        let entries = rows.iter().map(|(w, p, s)| Entry { source: (*s).into(), ..Entry::new(w, p) }).collect();
         let stats = LexiconStats::of(&Lexicon::from_entries(entries, HeadwordPolicy::default()));
         let mut expected: BTreeMap<String, usize> = BTreeMap::new();
         for (_, p, _) in rows {

@@ -278,12 +278,12 @@ impl Lexicon {
         let _ = writer.write_record(&row);
         for entry in &self.entries {
             row.clear();
-            row.push(entry.word.clone());
-            row.push(entry.pronunciation.clone());
+            row.push(entry.word.to_string());
+            row.push(entry.pronunciation.to_string());
             row.push(entry.status.as_str().to_string());
-            row.push(entry.source.clone());
+            row.push(entry.source.to_string());
             row.push(entry.score.map(|s| s.to_string()).unwrap_or_default());
-            row.push(entry.note.clone());
+            row.push(entry.note.to_string());
             for i in 0..self.extra_columns.len() {
                 row.push(entry.extra.get(i).cloned().unwrap_or_default());
             }
@@ -456,12 +456,12 @@ impl RowParser<'_> {
                 }
             };
             entries.push(Entry {
-                word: word.to_string(),
-                pronunciation: pronunciation.to_string(),
+                word: word.into(),
+                pronunciation: pronunciation.into(),
                 status,
-                source: field(layout.source).to_string(),
+                source: field(layout.source).into(),
                 score,
-                note: field(layout.note).to_string(),
+                note: field(layout.note).into(),
                 extra: layout.extra.iter().map(|&i| field(i).to_string()).collect(),
                 line,
             });

@@ -37,8 +37,8 @@ pub fn alias_of(entry: &Entry) -> Option<&str> {
 pub(super) fn alias_entry(word: &str, text: &str, line: usize) -> Entry {
     let mut entry = Entry::new(word, "");
     entry.status = Status::Proposed;
-    entry.source = ALIAS_SOURCE.to_string();
-    entry.note = format!("{ALIAS_NOTE}{text}");
+    entry.source = ALIAS_SOURCE.into();
+    entry.note = compact_str::format_compact!("{ALIAS_NOTE}{text}");
     entry.line = line;
     entry
 }
@@ -54,7 +54,7 @@ pub(super) fn resolve(entries: &mut [Entry], aliases: &[(usize, Position)], orig
     for entry in entries.iter().filter(|e| alias_of(e).is_none()) {
         let word = key(&entry.word);
         if wanted.contains(&word) {
-            primary.entry(word).or_insert_with(|| entry.pronunciation.clone());
+            primary.entry(word).or_insert_with(|| entry.pronunciation.to_string());
         }
     }
     let mut notes = Vec::new();
@@ -62,7 +62,7 @@ pub(super) fn resolve(entries: &mut [Entry], aliases: &[(usize, Position)], orig
         let Some(entry) = entries.get_mut(i) else { continue };
         let Some(text) = alias_of(entry).map(str::to_string) else { continue };
         match primary.get(&key(&text)) {
-            Some(pronunciation) => entry.pronunciation.clone_from(pronunciation),
+            Some(pronunciation) => entry.pronunciation = pronunciation.as_str().into(),
             None => notes.push(Located::new(
                 origin,
                 Some(place),

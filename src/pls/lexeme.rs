@@ -239,7 +239,7 @@ impl Context<'_> {
         }
         let mut entry = Entry::new(word, &reading.value);
         entry.status = Status::Imported;
-        entry.source = self.source.to_string();
+        entry.source = self.source.into();
         entry.line = reading.line;
         entry
     }

@@ -114,7 +114,7 @@ pub fn entry_phones(entry: &Entry, set: &Phoneset) -> Result<Pronunciation, Stri
 
 fn transcribe(entry: &Entry, set: &Phoneset, alphabet: Alphabet, onsets: &Onsets) -> Result<String, PlsError> {
     let pron = entry_phones(entry, set).map_err(|symbol| PlsError::UnknownPhone {
-        word: entry.word.clone(),
+        word: entry.word.to_string(),
         symbol,
         phoneset: set.id().to_string(),
     })?;
@@ -159,9 +159,9 @@ mod tests {
             let xml = write_pls(&entries, &HeadwordPolicy::default(), &set, alphabet, "en-GB").unwrap();
             let back = read_pls(xml.as_bytes(), "t.pls", &set, "pls").unwrap();
             assert!(back.rejected.is_empty(), "{:?}", back.rejected);
-            let mut got: Vec<(String, String)> = back.entries.into_iter().map(|e| (e.word, e.pronunciation)).collect();
+            let mut got: Vec<(String, String)> = back.entries.into_iter().map(|e| (e.word.to_string(), e.pronunciation.to_string())).collect();
             got.sort();
-            let mut want: Vec<(String, String)> = entries.iter().map(|e| (e.word.clone(), e.pronunciation.clone())).collect();
+            let mut want: Vec<(String, String)> = entries.iter().map(|e| (e.word.to_string(), e.pronunciation.to_string())).collect();
             want.sort();
             assert_eq!(got, want, "{alphabet:?}");
         }

@@ -194,16 +194,16 @@ fn apply_one(lexicon: &mut Lexicon, by_word: &mut HashMap<String, Vec<usize>>, q
     let policy = *lexicon.policy();
     let key = normalize_key(item.word.trim(), &policy).into_owned();
     let ids: Vec<usize> = by_word.get(&key).cloned().unwrap_or_default();
-    let existing: Vec<String> = ids.iter().filter_map(|&i| lexicon.entries().get(i)).map(|e| e.pronunciation.clone()).collect();
+    let existing: Vec<String> = ids.iter().filter_map(|&i| lexicon.entries().get(i)).map(|e| e.pronunciation.to_string()).collect();
     let has = |p: &str| existing.iter().any(|e| e == p);
     if has(pronunciation) && !matches!(item.kind, ItemKind::Audit { .. }) {
         return Outcome::Unchanged { word, reason: "already in the lexicon".into() };
     }
     let mut entry = Entry::new(&item.word, pronunciation);
     entry.status = Status::Accepted;
-    entry.source = if *edited { "review".to_string() } else { source.clone() };
+    entry.source = if *edited { "review".into() } else { source.as_str().into() };
     entry.score = *score;
-    entry.note = d.note.clone();
+    entry.note = d.note.as_str().into();
     match &item.kind {
         ItemKind::NewWord if !existing.is_empty() => Outcome::Conflict {
             seq,
@@ -228,7 +228,7 @@ fn apply_one(lexicon: &mut Lexicon, by_word: &mut HashMap<String, Vec<usize>>, q
             let target = at.and_then(|i| lexicon.entries_mut().get_mut(i));
             match target {
                 Some(e) => {
-                    e.pronunciation = pronunciation.clone();
+                    e.pronunciation = pronunciation.as_str().into();
                     e.status = Status::Accepted;
                     e.source = entry.source;
                     e.note = entry.note;

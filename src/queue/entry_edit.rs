@@ -48,11 +48,11 @@ pub(super) fn apply_entry_edit(
             (None, None) => gone(from),
             (Some(i), None) => {
                 let e = lexicon.entries_mut().get_mut(i)?;
-                e.pronunciation = pronunciation.clone();
+                e.pronunciation = pronunciation.as_str().into();
                 e.status = Status::Accepted;
                 e.source = "review".into();
                 e.score = None;
-                e.note = d.note.clone();
+                e.note = d.note.as_str().into();
                 Outcome::Replaced { word, old: from.clone(), new: pronunciation.clone() }
             }
         },
@@ -70,7 +70,7 @@ pub(super) fn apply_entry_edit(
             let mut entry = Entry::new(&first.word, pronunciation);
             entry.status = Status::Accepted;
             entry.source = "review".into();
-            entry.note = d.note.clone();
+            entry.note = d.note.as_str().into();
             by_word.entry(key).or_default().push(lexicon.entries().len());
             lexicon.push(entry);
             Outcome::Added { word, pronunciation: pronunciation.clone() }
@@ -83,7 +83,7 @@ pub(super) fn apply_entry_edit(
                     return Some(Outcome::Unchanged { word, reason: "already deprecated".into() });
                 }
                 e.status = Status::Deprecated;
-                e.note = d.note.clone();
+                e.note = d.note.as_str().into();
                 Outcome::Deprecated { word, pronunciation: pronunciation.clone() }
             }
         },

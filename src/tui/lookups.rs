@@ -56,7 +56,7 @@ impl Lookups {
     }
 
     fn word_pron(&self, id: EntryId) -> Option<WordPron> {
-        self.lexicon.entries().get(id).map(|e| WordPron { word: e.word.clone(), pronunciation: e.pronunciation.clone() })
+        self.lexicon.entries().get(id).map(|e| WordPron { word: e.word.to_string(), pronunciation: e.pronunciation.to_string() })
     }
 
     fn expand(&self, found: Vec<(String, Vec<EntryId>)>, skip: &str, limit: usize) -> Vec<WordPron> {

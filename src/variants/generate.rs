@@ -204,7 +204,7 @@ impl<'a> Generator<'a> {
                 }
                 Err(err) => {
                     known.insert(e.phones().collect::<Vec<_>>().join(" "));
-                    out.skipped.push(Skipped { word: e.word.clone(), line: e.line, message: err.to_string() });
+                    out.skipped.push(Skipped { word: e.word.to_string(), line: e.line, message: err.to_string() });
                 }
             }
         }

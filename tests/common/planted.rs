@@ -35,7 +35,7 @@ pub fn plant(entries: &mut [Entry], every: usize) -> HashSet<usize> {
             _ => {}
         }
         if changed != phones && !changed.is_empty() {
-            entries[i].pronunciation = changed.join(" ");
+            entries[i].pronunciation = changed.join(" ").into();
             planted.insert(i);
         }
     }
