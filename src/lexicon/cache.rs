@@ -1,8 +1,9 @@
 //! The persisted index: the FST index of a store saved in a hidden folder beside it, so that a
 //! command that looks a few words up opens it by memory map instead of parsing the whole store.
 //!
-//! [`IndexedStore::open`] reads the store, takes its key (length and CRC-32 of every byte, the
-//! headword policy, the stress marks) and opens `.orthoepy-index/NAME.idx` beside it; the
+//! [`IndexedStore::open`] checksums the store in one streamed pass (`store_file`), takes its key
+//! (length and CRC-32 of every byte, the headword policy, the stress marks) and opens
+//! `.orthoepy-index/NAME.idx` beside it; the
 //! sounds-like maps live in `NAME.sounds` and are read (or built and saved) only when a
 //! sounds-like query first asks, since they are two thirds of the index. The cache is
 //! never trusted blindly: its magic, version, length, a CRC-32 over all its bytes and the key must
@@ -13,11 +14,13 @@
 //! the index it just built, and [`CacheState::Unsaved`] says why.
 //!
 //! Each headword's value in the FST leads to its entry ids, and a row table gives each entry's
-//! byte offset and line in the store, so [`IndexedStore::entries`] parses only the rows asked for
-//! (the store's header and those rows, through the store's own parser).
+//! byte offset and line in the store, so [`IndexedStore::entries`] reads and parses only the rows
+//! asked for (the store's header and those rows, by byte range, through the store's own parser);
+//! the whole store is read only when the cache must be rebuilt or a command needs every entry.
 //!
 //! The key hashes the whole store on every open instead of trusting its size and modification
-//! time: a CRC-32 runs at several GB/s (≈ 1 ms for CMUdict's 3.5 MiB, ≈ 15 ms for 55 MiB), which
+//! time: a CRC-32 streamed through a small buffer runs at several GB/s (≈ 1 ms for CMUdict's
+//! 3.5 MiB, ≈ 20 ms for the 112 MB of a 2,000,000-entry store), which
 //! is cheap next to the parse it saves, and it cannot be fooled by an edit that keeps the size
 //! and the time stamp (a copy with `cp -p`, a clock set back, a coarse file system clock). Two
 //! stores of the same length share a CRC-32 by accident with odds of 1 in 2³²; the same key
@@ -25,13 +28,13 @@
 //!
 //! The cache is replaced only by rename, never written in place; a process that truncates it in
 //! place while another has it mapped can make that reader fail, which is why the store itself is
-//! read, not mapped. This module writes nothing but the cache file and its folder.
+//! read, not mapped. This module writes nothing but the cache files and their folder.
 
 use super::entry::Entry;
 use super::index::{read_u32, Section, SoundLoader, SoundMaps, SOUND_PARTS, WORD_PARTS};
-use super::store::{LoadMode, MAX_LEXICON};
+use super::store::LoadMode;
+use super::store_file::StoreFile;
 use super::{EntryId, HeadwordPolicy, IndexOptions, Lexicon, LexiconError, LexiconIndex};
-use crate::support::read::read_capped;
 use std::fmt;
 use std::path::{Path, PathBuf};
 use std::sync::{Arc, OnceLock};
@@ -46,8 +49,9 @@ const MAGIC: &[u8; 8] = b"OEPYIDX\x1a";
 const SOUNDS_MAGIC: &[u8; 8] = b"OEPYSND\x1a";
 
 /// The cache format written and read; a file of another version is rebuilt. Version 2 moved
-/// the sounds-like maps into a file of their own, read only when a sounds-like query asks.
-const VERSION: u32 = 2;
+/// the sounds-like maps into a file of their own, read only when a sounds-like query asks;
+/// version 3 holds the headwords in [`WORD_FSTS`](super::index::WORD_FSTS) FSTs by key range.
+const VERSION: u32 = 3;
 
 /// Parts of the headword file: the index's own, the row table and the stress marks.
 const PARTS: usize = WORD_PARTS + 2;
@@ -137,9 +141,9 @@ struct StoreKey {
 }
 
 impl StoreKey {
-    fn of(bytes: &[u8], policy: HeadwordPolicy, options: &IndexOptions) -> StoreKey {
+    fn of(store: &StoreFile, policy: HeadwordPolicy, options: &IndexOptions) -> StoreKey {
         let marks = options.stress_suffixes.join("\n").into_bytes();
-        StoreKey { length: bytes.len() as u64, crc: crc32fast::hash(bytes), fold_case: policy.fold_case, marks }
+        StoreKey { length: store.length(), crc: store.crc(), fold_case: policy.fold_case, marks }
     }
 }
 
@@ -158,8 +162,7 @@ impl StoreKey {
 /// assert_eq!(rows.iter().map(|e| (e.pronunciation.as_str(), e.line)).collect::<Vec<_>>(), [("K IY1", 2), ("K EY1", 3)]);
 /// ```
 pub struct IndexedStore {
-    path: PathBuf,
-    bytes: Arc<Vec<u8>>,
+    store: Arc<StoreFile>,
     policy: HeadwordPolicy,
     index: LexiconIndex,
     rows: Option<Section>,
@@ -174,16 +177,15 @@ impl IndexedStore {
     /// from a full (strict) parse and saved to the cache. Errors are the store's own (unreadable,
     /// malformed); a cache that cannot be used or written is never an error.
     pub fn open(path: &Path, policy: HeadwordPolicy) -> Result<IndexedStore, LexiconError> {
-        let bytes = Arc::new(read_capped(path, MAX_LEXICON)?);
+        let store = Arc::new(StoreFile::open(path)?);
         let options = IndexOptions::default();
-        let key = StoreKey::of(&bytes, policy, &options);
+        let key = StoreKey::of(&store, policy, &options);
         let cache = cache_path(path);
-        let loader = sound_loader(Arc::clone(&bytes), path, &key, policy, &options);
+        let loader = sound_loader(Arc::clone(&store), &key, policy, &options);
         let stale = match open_cache(&cache, &key, policy, &options, Arc::clone(&loader)) {
             Ok(opened) => {
                 let store = IndexedStore {
-                    path: path.to_path_buf(),
-                    bytes,
+                    store,
                     policy,
                     index: opened.index,
                     rows: opened.rows,
@@ -196,6 +198,7 @@ impl IndexedStore {
             }
             Err(stale) => stale,
         };
+        let bytes = store.whole()?;
         let lexicon = Lexicon::from_file_bytes(&bytes, path, policy, LoadMode::Strict)?;
         // The FST build (the longest step) and the row table need only the parsed entries.
         let (index, table) = rayon::join(
@@ -216,8 +219,7 @@ impl IndexedStore {
             Err(reason) => CacheState::Unsaved { stale, reason: reason.to_string() },
         };
         Ok(IndexedStore {
-            path: path.to_path_buf(),
-            bytes,
+            store,
             policy,
             entry_count: lexicon.entries().len(),
             index,
@@ -240,7 +242,7 @@ impl IndexedStore {
 
     /// The store's file.
     pub fn path(&self) -> &Path {
-        &self.path
+        self.store.path()
     }
 
     /// Rows in the store.
@@ -253,7 +255,7 @@ impl IndexedStore {
     /// parsed once in full instead.
     pub fn entries(&self, ids: &[EntryId]) -> Result<Vec<Entry>, LexiconError> {
         if let Some(rows) = &self.rows {
-            if let Some(found) = ids.iter().filter(|&&id| id < self.entry_count).map(|&id| self.row(rows, id)).collect() {
+            if let Some(found) = self.rows_alone(rows, ids)? {
                 return Ok(found);
             }
         }
@@ -265,7 +267,7 @@ impl IndexedStore {
     pub fn into_parts(self) -> Result<(Lexicon, LexiconIndex), LexiconError> {
         let lexicon = match self.parsed.into_inner() {
             Some(lexicon) => lexicon,
-            None => Lexicon::from_file_bytes(&self.bytes, &self.path, self.policy, LoadMode::Strict)?,
+            None => Lexicon::from_file_bytes(&self.store.whole()?, self.store.path(), self.policy, LoadMode::Strict)?,
         };
         Ok((lexicon, self.index))
     }
@@ -274,20 +276,36 @@ impl IndexedStore {
         if let Some(lexicon) = self.parsed.get() {
             return Ok(lexicon);
         }
-        let lexicon = Lexicon::from_file_bytes(&self.bytes, &self.path, self.policy, LoadMode::Strict)?;
+        let lexicon = Lexicon::from_file_bytes(&self.store.whole()?, self.store.path(), self.policy, LoadMode::Strict)?;
         Ok(self.parsed.get_or_init(|| lexicon))
     }
 
-    /// Entry `id` parsed from its row alone; `None` when the row does not give exactly one
-    /// entry whose headword leads back to `id` in the index.
-    fn row(&self, rows: &Section, id: EntryId) -> Option<Entry> {
+    /// The entries `ids` (unknown ids skipped) parsed from their rows alone, read by byte range
+    /// with the store's header; `None` unless every row gives exactly one entry whose headword
+    /// leads back to its id in the index.
+    fn rows_alone(&self, rows: &Section, ids: &[EntryId]) -> Result<Option<Vec<Entry>>, LexiconError> {
         let table = rows.as_ref();
-        let start = read_u32(table, id * ROW_BYTES) as usize;
-        let line = read_u32(table, id * ROW_BYTES + 4) as usize;
-        let end = if id + 1 < self.entry_count { read_u32(table, (id + 1) * ROW_BYTES) as usize } else { self.bytes.len() };
-        let mut entry = parse_row(&self.bytes, self.header_len, start, end, &self.path, self.policy)?;
-        entry.line = line;
-        self.index.lookup(&entry.word).contains(&id).then_some(entry)
+        let ids: Vec<EntryId> = ids.iter().copied().filter(|&id| id < self.entry_count).collect();
+        let mut ranges = vec![(0, self.header_len as u64)];
+        let mut lines = Vec::with_capacity(ids.len());
+        for &id in &ids {
+            let start = u64::from(read_u32(table, id * ROW_BYTES));
+            let end = if id + 1 < self.entry_count { u64::from(read_u32(table, (id + 1) * ROW_BYTES)) } else { self.store.length() };
+            ranges.push((start, end));
+            lines.push(read_u32(table, id * ROW_BYTES + 4) as usize);
+        }
+        let records = self.store.ranges(&ranges)?;
+        let (header, records) = records.split_first().expect("the header range is always read");
+        let mut found = Vec::with_capacity(ids.len());
+        for ((record, &id), line) in records.iter().zip(&ids).zip(lines) {
+            let Some(mut entry) = parse_row(header, record, self.store.path(), self.policy) else { return Ok(None) };
+            if !self.index.lookup(&entry.word).contains(&id) {
+                return Ok(None);
+            }
+            entry.line = line;
+            found.push(entry);
+        }
+        Ok(Some(found))
     }
 }
 
@@ -339,7 +357,7 @@ fn row_table(bytes: &[u8], entries: &[Entry], path: &Path, policy: HeadwordPolic
     let end_of = |id: usize| starts.get(id + 1).copied().unwrap_or(bytes.len());
     let sample = (0..entries.len()).step_by(entries.len() / 64 + 1).chain(entries.len().checked_sub(1));
     for id in sample {
-        let mut alone = parse_row(bytes, header_len, starts[id], end_of(id), path, policy)?;
+        let mut alone = parse_row(&bytes[..header_len], &bytes[starts[id]..end_of(id)], path, policy)?;
         alone.line = entries[id].line;
         if alone != entries[id] {
             return None;
@@ -353,10 +371,10 @@ fn row_table(bytes: &[u8], entries: &[Entry], path: &Path, policy: HeadwordPolic
     Some((table, header_len))
 }
 
-/// The one entry of the record `start..end` of the store `bytes`, parsed after the store's
-/// header; `None` unless it gives exactly one entry.
-fn parse_row(bytes: &[u8], header_len: usize, start: usize, end: usize, path: &Path, policy: HeadwordPolicy) -> Option<Entry> {
-    let text = [bytes.get(..header_len)?, bytes.get(start..end)?].concat();
+/// The one entry of the store's `record`, parsed after the store's `header`; `None` unless it
+/// gives exactly one entry.
+fn parse_row(header: &[u8], record: &[u8], path: &Path, policy: HeadwordPolicy) -> Option<Entry> {
+    let text = [header, record].concat();
     let mut parsed = Lexicon::parse(&text, path, policy, LoadMode::Strict).ok()?;
     let mut one = std::mem::take(parsed.entries_mut());
     one.pop().filter(|_| one.is_empty())
@@ -397,19 +415,20 @@ fn sounds_path(cache: &Path) -> PathBuf {
     cache.with_extension("sounds")
 }
 
-/// Where an index opened for the store `bytes` (at `path`) gets its sounds-like maps when a
-/// query first asks: the sounds cache when it matches the store, else built from a parse of the
-/// bytes already read and saved to that cache.
-fn sound_loader(bytes: Arc<Vec<u8>>, path: &Path, key: &StoreKey, policy: HeadwordPolicy, options: &IndexOptions) -> SoundLoader {
-    let (path, key, options) = (path.to_path_buf(), key.clone(), options.clone());
+/// Where an index opened for `store` gets its sounds-like maps when a query first asks: the
+/// sounds cache when it matches the store, else built from a parse of the store's bytes (read
+/// then, if they were not already) and saved to that cache.
+fn sound_loader(store: Arc<StoreFile>, key: &StoreKey, policy: HeadwordPolicy, options: &IndexOptions) -> SoundLoader {
+    let (key, options) = (key.clone(), options.clone());
     Arc::new(move || {
-        let cache = sounds_path(&cache_path(&path));
+        let cache = sounds_path(&cache_path(store.path()));
         if let Ok(maps) = open_sounds(&cache, &key) {
             return maps;
         }
-        // The headword cache matched these very bytes or they were just parsed, so a parse
-        // failure here cannot happen short of memory running out; no maps then, no panic.
-        let Ok(lexicon) = Lexicon::parse(&bytes, &path, policy, LoadMode::Strict) else {
+        // The headword cache matched these very bytes (checked against their checksum when read)
+        // or they were just parsed, so a failure here means the file changed in place meanwhile
+        // or memory ran out; no maps then, no panic.
+        let Ok(lexicon) = store.whole().and_then(|bytes| Lexicon::parse(&bytes, store.path(), policy, LoadMode::Strict)) else {
             return SoundMaps::empty();
         };
         let maps = SoundMaps::build(&lexicon, &options);
@@ -587,6 +606,29 @@ mod tests {
         let homophones = index.sounds_like_unstressed("W ER D");
         assert_eq!(homophones.len(), 43);
         assert!(homophones.iter().all(|&id| lexicon.entries()[id].pronunciation == "W ER1 D"));
+    }
+
+    #[test]
+    fn a_reused_cache_reads_rows_from_the_store_it_checked() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = store(dir.path(), &sample());
+        IndexedStore::open(&path, HeadwordPolicy::default()).unwrap();
+        let opened = IndexedStore::open(&path, HeadwordPolicy::default()).unwrap();
+        assert_eq!(opened.state(), &CacheState::Reused);
+        // Another process saves by rename meanwhile: this command still sees the store it checked.
+        let renamed = dir.path().join("saved.csv");
+        std::fs::write(&renamed, format!("{HEADER_LINE}word001,X,imported,,,\n")).unwrap();
+        std::fs::rename(&renamed, &path).unwrap();
+        let rows = opened.entries(opened.index().lookup("word001")).unwrap();
+        assert_eq!(rows.iter().map(|e| e.pronunciation.as_str()).collect::<Vec<_>>(), ["W ER1 D 1"]);
+        // Written in place instead (same inode, other length): an error, not a mixture.
+        IndexedStore::open(&path, HeadwordPolicy::default()).unwrap(); // rebuilds for the new content
+        let opened = IndexedStore::open(&path, HeadwordPolicy::default()).unwrap();
+        assert_eq!(opened.state(), &CacheState::Reused);
+        std::fs::OpenOptions::new().append(true).open(&path).and_then(|mut f| std::io::Write::write_all(&mut f, b"word999,X,imported,,,\n")).unwrap();
+        let err = opened.entries(opened.index().lookup("word001")).unwrap_err();
+        assert!(matches!(err, LexiconError::ChangedWhileRead { .. }), "{err}");
+        assert!(err.to_string().ends_with("changed on disk while it was being read; run the command again"), "{err}");
     }
 
     #[test]

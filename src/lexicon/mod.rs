@@ -12,6 +12,7 @@ pub mod plain;
 mod query;
 mod stats;
 mod store;
+mod store_file;
 
 pub use cache::{cache_path, CacheState, IndexedStore, Stale, CACHE_FOLDER};
 pub use entry::{join_phones, Entry, Status, UnknownStatus};

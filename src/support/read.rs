@@ -1,5 +1,6 @@
 //! The one size-capped file read. Every file reader of the library reads through
-//! [`read_capped`] (or [`read_capped_string`]), so a file that is far too large for its format
+//! [`read_capped`] (or [`read_capped_string`], [`read_capped_from`] for a file already open, or
+//! [`checksum_capped`], which hashes a file without keeping it), so a file that is far too large for its format
 //! — or no file at all, such as `/dev/zero` or a pipe that never ends — is refused after at
 //! most `limit + 1` bytes with an error naming the file and the limit, instead of exhausting
 //! memory.
@@ -13,7 +14,7 @@
 
 use std::fmt;
 use std::fs::File;
-use std::io::{self, Read};
+use std::io::{self, Read, Seek, SeekFrom};
 use std::path::{Path, PathBuf};
 
 use super::located::{origin_of, Located};
@@ -111,20 +112,101 @@ impl ReadError {
 /// assert!(err.to_string().ends_with("small.txt: larger than 4 bytes, the most accepted for a test file; check that this is the right file"));
 /// ```
 pub fn read_capped(path: &Path, limit: Limit) -> Result<Vec<u8>, ReadError> {
+    let file = File::open(path).map_err(|reason| ReadError::Io { path: path.to_path_buf(), reason })?;
+    read_rest(&file, path, limit)
+}
+
+/// [`read_capped`] of a file already open (read from its start), so that the bytes come from
+/// the very file that was opened, even if another has been renamed over its path since.
+/// `path` only names it in errors.
+///
+/// ```
+/// use orthoepy::support::read::{read_capped_from, Limit};
+/// let dir = tempfile::tempdir().unwrap();
+/// let path = dir.path().join("store.csv");
+/// std::fs::write(&path, b"old\n").unwrap();
+/// let file = std::fs::File::open(&path).unwrap();
+/// std::fs::write(dir.path().join("new"), b"new\n").unwrap();
+/// std::fs::rename(dir.path().join("new"), &path).unwrap();
+/// assert_eq!(read_capped_from(&file, &path, Limit { bytes: 10, what: "test" }).unwrap(), b"old\n");
+/// ```
+pub fn read_capped_from(file: &File, path: &Path, limit: Limit) -> Result<Vec<u8>, ReadError> {
+    let mut reader = file;
+    reader.seek(SeekFrom::Start(0)).map_err(|reason| ReadError::Io { path: path.to_path_buf(), reason })?;
+    read_rest(file, path, limit)
+}
+
+/// The rest of `file` from where it stands (a pipe or a device cannot seek), capped at `limit`.
+fn read_rest(file: &File, path: &Path, limit: Limit) -> Result<Vec<u8>, ReadError> {
     let io = |reason| ReadError::Io { path: path.to_path_buf(), reason };
-    let too_large = || ReadError::TooLarge { path: path.to_path_buf(), limit };
-    let file = File::open(path).map_err(io)?;
-    let reported = file.metadata().ok().filter(|m| m.is_file()).map(|m| m.len());
-    if reported.is_some_and(|len| len > limit.bytes) {
-        return Err(too_large());
-    }
-    let hint = reported.unwrap_or(0).min(limit.bytes);
+    let hint = reported_length(file, path, limit)?;
+    let reader = file;
     let mut bytes = Vec::with_capacity(usize::try_from(hint).unwrap_or(0));
-    file.take(limit.bytes.saturating_add(1)).read_to_end(&mut bytes).map_err(io)?;
+    reader.take(limit.bytes.saturating_add(1)).read_to_end(&mut bytes).map_err(io)?;
     if bytes.len() as u64 > limit.bytes {
-        return Err(too_large());
+        return Err(ReadError::TooLarge { path: path.to_path_buf(), limit });
     }
     Ok(bytes)
+}
+
+/// The length a regular file reports, refused at once when over `limit` (0 for other files).
+fn reported_length(file: &File, path: &Path, limit: Limit) -> Result<u64, ReadError> {
+    let reported = file.metadata().ok().filter(|m| m.is_file()).map(|m| m.len());
+    if reported.is_some_and(|len| len > limit.bytes) {
+        return Err(ReadError::TooLarge { path: path.to_path_buf(), limit });
+    }
+    Ok(reported.unwrap_or(0))
+}
+
+/// The length and CRC-32 (ISO-HDLC, as in zlib and PNG) of a file, and the file itself, open.
+#[derive(Debug)]
+pub struct Checksummed {
+    /// The file, open for reading (at its end).
+    pub file: File,
+    /// Bytes read.
+    pub length: u64,
+    /// CRC-32 of those bytes.
+    pub crc: u32,
+}
+
+/// Opens the file at `path` and checksums it in one pass through a small buffer, holding none of
+/// it in memory; refused like [`read_capped`] once more than `limit.bytes` bytes have come.
+/// The checksum equals `crc32fast::hash` of what [`read_capped`] returns.
+///
+/// ```
+/// use orthoepy::support::read::{checksum_capped, Limit};
+/// let dir = tempfile::tempdir().unwrap();
+/// let path = dir.path().join("check.txt");
+/// std::fs::write(&path, b"123456789").unwrap();
+/// let sum = checksum_capped(&path, Limit { bytes: 100, what: "test" }).unwrap();
+/// // The CRC-32 check value of "123456789" (Williams, "A Painless Guide to CRC Error Detection
+/// // Algorithms", 1993, the CRC-32 parameter model).
+/// assert_eq!((sum.length, sum.crc), (9, 0xCBF4_3926));
+/// ```
+pub fn checksum_capped(path: &Path, limit: Limit) -> Result<Checksummed, ReadError> {
+    /// Small enough to stay in the processor's cache, large enough to need few reads.
+    const CHUNK: usize = 256 * 1024;
+    let io = |reason| ReadError::Io { path: path.to_path_buf(), reason };
+    let file = File::open(path).map_err(io)?;
+    reported_length(&file, path, limit)?;
+    let mut hasher = crc32fast::Hasher::new();
+    let mut length = 0u64;
+    let mut buffer = vec![0u8; CHUNK];
+    let mut reader = &file;
+    loop {
+        let got = match reader.read(&mut buffer) {
+            Ok(0) => break,
+            Ok(got) => got,
+            Err(err) if err.kind() == io::ErrorKind::Interrupted => continue,
+            Err(err) => return Err(io(err)),
+        };
+        hasher.update(&buffer[..got]);
+        length += got as u64;
+        if length > limit.bytes {
+            return Err(ReadError::TooLarge { path: path.to_path_buf(), limit });
+        }
+    }
+    Ok(Checksummed { file, length, crc: hasher.finalize() })
 }
 
 /// [`read_capped`], then checked to be UTF-8; a bad byte is reported at its line and column.
@@ -158,6 +240,23 @@ mod tests {
             assert!(matches!(err, ReadError::TooLarge { .. }), "{err}");
             assert_eq!(err.to_string(), "/dev/zero: larger than 4 KiB, the most accepted for a lexicon; check that this is the right file");
         }
+    }
+
+    #[test]
+    fn a_pipe_is_read_from_where_it_stands() {
+        // A pipe cannot seek (POSIX lseek: ESPIPE); `orthoepy queue add --words /dev/stdin` reads one.
+        let mut ends = [0; 2];
+        // SAFETY: pipe(2) fills the two descriptors of the array it is given.
+        assert_eq!(unsafe { libc::pipe(ends.as_mut_ptr()) }, 0);
+        // SAFETY: the write end was just opened by pipe(2) and is owned here alone.
+        let mut writer = unsafe { <File as std::os::fd::FromRawFd>::from_raw_fd(ends[1]) };
+        std::io::Write::write_all(&mut writer, b"quay\nkey\n").unwrap();
+        drop(writer);
+        let path = PathBuf::from(format!("/proc/self/fd/{}", ends[0]));
+        let read = read_capped(&path, Limit { bytes: 100, what: "word list" });
+        // SAFETY: the read end is ours and no longer used after this.
+        unsafe { libc::close(ends[0]) };
+        assert_eq!(read.unwrap(), b"quay\nkey\n");
     }
 
     #[test]
