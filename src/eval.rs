@@ -304,11 +304,13 @@ pub fn group_references(pairs: &[(String, Vec<String>)]) -> Vec<(String, Vec<Vec
     grouped.into_values().collect()
 }
 
-/// Decodes every test word with `model` (top hypothesis, in parallel on the current rayon
-/// pool) and scores it against all its variants. References are normalised like the model's
-/// training data (stress stripped if the model was trained without stress).
+/// Decodes every test word with `model` (in parallel on the current rayon pool) and scores its
+/// top hypothesis against all its variants. References are normalised like the model's
+/// training data (stress stripped if the model was trained without stress). The search is the
+/// default one, N-best list included, so the top's score is the one a guess shows (calibrated
+/// over its list, [`crate::g2p::Calibration::apply_nbest`]).
 pub fn evaluate_model(model: &Model, test: &[(String, Vec<String>)]) -> Evaluation {
-    evaluate_model_with(model, test, &DecodeOptions { nbest: 1, ..DecodeOptions::default() })
+    evaluate_model_with(model, test, &DecodeOptions::default())
 }
 
 /// [`evaluate_model`] with explicit search settings (e.g. a wider beam, to measure how many

@@ -104,7 +104,7 @@ fn format_version_3_files_read_without_source_calibrations() {
     // Format 4 appended the source calibrations to format 3's payload, so this fixture is a
     // model trained with held-out words (`train --order 2 --heldout-percent 50` on twelve
     // invented demo words) whose payload ends before that section: version 3 with a posterior
-    // calibration, as the demo model (demo-lexicon/model.g2p) was written.
+    // calibration, as the demo model (demo-lexicon/model.g2p) was written until 2026-12-04.
     let bytes = std::fs::read(concat!(env!("CARGO_MANIFEST_DIR"), "/tests/fixtures/g2p-model-format-3.g2p")).expect("fixture present");
     assert_eq!(u16::from_le_bytes([bytes[8], bytes[9]]), 3);
     let model = Model::from_bytes(&bytes).expect("version 3 reads");

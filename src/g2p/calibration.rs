@@ -186,6 +186,43 @@ impl Calibration {
     pub fn apply(&self, rank: usize, posterior: f64) -> f64 {
         if rank == 0 { &self.top } else { &self.rest }.apply(posterior)
     }
+
+    /// The calibrated probabilities of one word's N-best list (`posteriors` best first): each
+    /// hypothesis through the map of its rank, then made non-increasing down the list by pooling
+    /// adjacent violators (the same PAV step as the fit, Zadrozny & Elkan 2002), so a hypothesis
+    /// the model ranks lower is never scored above one it ranks higher. The two maps are fitted
+    /// apart and can cross where one of them is thin (a second guess at posterior 0.45 read
+    /// above a first guess at 0.50); pooling replaces each such run by its mean, which keeps the
+    /// list's total and the model's order.
+    ///
+    /// ```
+    /// use orthoepy::g2p::{Calibration, IsotonicMap};
+    /// let top = IsotonicMap::from_knots(vec![(0.0, 0.0), (1.0, 0.8)]).unwrap();
+    /// let rest = IsotonicMap::from_knots(vec![(0.0, 0.0), (1.0, 1.0)]).unwrap();
+    /// let calibration = Calibration { top, rest };
+    /// assert!((calibration.apply(0, 0.5) - 0.4).abs() < 1e-12);
+    /// assert!((calibration.apply(1, 0.45) - 0.45).abs() < 1e-12); // above the first: crossed
+    /// let list = calibration.apply_nbest(&[0.5, 0.45, 0.05]);
+    /// assert!((list[0] - 0.425).abs() < 1e-12 && (list[1] - 0.425).abs() < 1e-12);
+    /// assert!((list[2] - 0.05).abs() < 1e-12);
+    /// ```
+    pub fn apply_nbest(&self, posteriors: &[f64]) -> Vec<f64> {
+        // Blocks of (sum, count), means non-increasing from left to right.
+        let mut blocks: Vec<(f64, usize)> = Vec::with_capacity(posteriors.len());
+        for (rank, &posterior) in posteriors.iter().enumerate() {
+            blocks.push((self.apply(rank, posterior), 1));
+            while let [.., (left_sum, left_count), (right_sum, right_count)] = blocks[..] {
+                if left_sum / left_count as f64 >= right_sum / right_count as f64 {
+                    break;
+                }
+                blocks.pop();
+                if let Some(last) = blocks.last_mut() {
+                    *last = (left_sum + right_sum, left_count + right_count);
+                }
+            }
+        }
+        blocks.into_iter().flat_map(|(sum, count)| std::iter::repeat_n(sum / count as f64, count)).collect()
+    }
 }
 
 /// The fewest held-out candidates a source needs for a fitted map: below this the share right

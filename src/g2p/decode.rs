@@ -251,8 +251,9 @@ impl Model {
             guess.warnings.push(GuessWarning::NoPronunciation);
         }
         guess.hypotheses = finals.into_iter().take(opts.nbest.max(1)).collect();
-        for (rank, h) in guess.hypotheses.iter_mut().enumerate() {
-            h.score = self.calibrated(rank, h.posterior);
+        let posteriors: Vec<f64> = guess.hypotheses.iter().map(|h| h.posterior).collect();
+        for (h, score) in guess.hypotheses.iter_mut().zip(self.calibrated_nbest(&posteriors)) {
+            h.score = score;
         }
         guess
     }

@@ -58,10 +58,11 @@ impl Model {
         self.sources.as_ref()
     }
 
-    /// The probability that a hypothesis of 0-based `rank` with `posterior` is right (stress as
-    /// written): the calibrated value when the model carries a calibration, else the posterior.
-    pub fn calibrated(&self, rank: usize, posterior: f64) -> f64 {
-        self.calibration.as_ref().map_or(posterior, |c| c.apply(rank, posterior))
+    /// The probabilities that the hypotheses of one N-best list (`posteriors`, best first) are
+    /// right (stress as written): [`Calibration::apply_nbest`] when the model carries a
+    /// calibration, else the posteriors themselves.
+    pub fn calibrated_nbest(&self, posteriors: &[f64]) -> Vec<f64> {
+        self.calibration.as_ref().map_or_else(|| posteriors.to_vec(), |c| c.apply_nbest(posteriors))
     }
 
     /// Identifier of the phone set the pronunciations were written in (e.g. `en-arpa`).
