@@ -221,7 +221,7 @@ impl Calibration {
                 }
             }
         }
-        blocks.into_iter().flat_map(|(sum, count)| std::iter::repeat_n(sum / count as f64, count)).collect()
+        blocks.into_iter().flat_map(|(sum, count)| std::iter::repeat(sum / count as f64).take(count)).collect()
     }
 }
 
