@@ -15,9 +15,11 @@
 use super::entry::{join_phones, Entry, Status};
 use super::index::IndexOptions;
 use super::normalize::{normalize_key, HeadwordPolicy};
+use super::order::HeadwordGroups;
 use super::store::MAX_LEXICON;
 use crate::support::located::{origin_of, Located};
 use crate::support::read::{read_capped, Limit, ReadError};
+use std::borrow::Cow;
 use std::collections::BTreeSet;
 use std::path::Path;
 
@@ -241,7 +243,11 @@ impl BuildLexicon {
         self.text.push_str(phones);
         self.text.push('\n');
         self.lines += 1;
-        self.phones.extend(phones.split(' ').map(str::to_string));
+        for phone in phones.split(' ') {
+            if !self.phones.contains(phone) {
+                self.phones.insert(phone.to_string());
+            }
+        }
     }
 }
 
@@ -269,30 +275,42 @@ impl BuildLexicon {
 /// assert_eq!(build.text, "ferry\t1.0000\tF EH1 R IY0\nquay\t0.5000\tK IY1\nquay\t0.5000\tK IY0\n");
 /// ```
 pub fn write_plain(entries: &[Entry], policy: &HeadwordPolicy, options: &PlainExport) -> BuildLexicon {
-    let mut rows: Vec<(String, usize, String, f64)> = entries
-        .iter()
-        .enumerate()
-        .filter(|(_, e)| e.status != Status::Deprecated && !e.pronunciation.trim().is_empty())
-        .map(|(i, e)| {
-            let phones = if options.strip_stress {
-                options.index_options.strip_stress(&e.pronunciation)
-            } else {
-                join_phones(e.pronunciation.split_whitespace())
-            };
-            (normalize_key(e.word.trim(), policy).into_owned(), i, phones, weight(e))
-        })
-        .collect();
-    rows.sort_by(|a, b| (&a.0, a.1).cmp(&(&b.0, b.1)));
+    let groups = HeadwordGroups::new(entries, policy, |e| e.status != Status::Deprecated && !e.pronunciation.trim().is_empty());
     let mut build = BuildLexicon { text: String::new(), phones: BTreeSet::new(), lines: 0 };
-    for word in rows.chunk_by(|a, b| a.0 == b.0) {
-        let lines = merged(word);
+    let mut rows: Vec<(Cow<'_, str>, f64)> = Vec::new();
+    for group in groups.iter() {
+        rows.clear();
+        rows.extend(group.iter().map(|&id| {
+            let entry = &entries[id];
+            let phones = if options.strip_stress {
+                Cow::Owned(options.index_options.strip_stress(&entry.pronunciation))
+            } else {
+                single_spaced(&entry.pronunciation)
+            };
+            (phones, weight(entry))
+        }));
+        let lines = merged(&rows);
         let units = options.probability.then(|| shares(&lines.iter().map(|l| l.1).collect::<Vec<_>>()));
+        let word = normalize_key(entries[group[0]].word.trim(), policy);
         for (rank, (phones, _)) in lines.iter().enumerate() {
             let share = units.as_ref().and_then(|u| u.get(rank).copied());
-            build.push_line(&word[0].0, rank, share, phones, options.variant_suffix);
+            build.push_line(&word, rank, share, phones, options.variant_suffix);
         }
     }
     build
+}
+
+/// The phones of `pronunciation` joined by single spaces; borrowed when they already are.
+fn single_spaced(pronunciation: &str) -> Cow<'_, str> {
+    let tidy = !pronunciation.starts_with(' ')
+        && !pronunciation.ends_with(' ')
+        && !pronunciation.contains("  ")
+        && !pronunciation.chars().any(|c| c.is_whitespace() && c != ' ');
+    if tidy {
+        Cow::Borrowed(pronunciation)
+    } else {
+        Cow::Owned(join_phones(pronunciation.split_whitespace()))
+    }
 }
 
 /// The weight of an entry's pronunciation: its score (at least 0), else 1.
@@ -301,10 +319,10 @@ fn weight(entry: &Entry) -> f64 {
 }
 
 /// One word's distinct phone strings in order, each with the sum of its rows' weights.
-fn merged(rows: &[(String, usize, String, f64)]) -> Vec<(&str, f64)> {
+fn merged<'r>(rows: &'r [(Cow<'_, str>, f64)]) -> Vec<(&'r str, f64)> {
     let mut lines: Vec<(&str, f64)> = Vec::new();
-    for (_, _, phones, weight) in rows {
-        match lines.iter_mut().find(|(p, _)| p == phones) {
+    for (phones, weight) in rows {
+        match lines.iter_mut().find(|(p, _)| *p == phones.as_ref()) {
             Some(line) => line.1 += weight,
             None => lines.push((phones, *weight)),
         }
