@@ -21,6 +21,7 @@ use crate::support::located::{origin_of, Located};
 use crate::support::read::{read_capped, Limit, ReadError};
 use std::borrow::Cow;
 use std::collections::BTreeSet;
+use rayon::prelude::*;
 use std::path::Path;
 
 /// The result of reading a plain-text lexicon.
@@ -68,10 +69,51 @@ pub fn read_plain_file(path: &Path, source: &str) -> Result<PlainImport, ReadErr
 /// assert_eq!((with.entries[1].pronunciation.as_str(), with.entries[1].score), ("K EY1", Some(0.25)));
 /// ```
 pub fn read_plain(bytes: &[u8], origin: &str, source: &str) -> PlainImport {
-    let mut import = PlainImport::default();
     let body = bytes.strip_prefix(b"\xEF\xBB\xBF").unwrap_or(bytes);
-    for (number, raw) in body.split(|&b| b == b'\n').enumerate() {
-        let line = number + 1;
+    // Cut after line feeds into pieces of about PIECE_BYTES, read in parallel; each piece knows
+    // the number of its first line, so the result is that of one pass over the file.
+    let mut pieces = Vec::new();
+    let mut start = 0;
+    while start < body.len() {
+        let end = (start + PIECE_BYTES).min(body.len());
+        let end = body[end..].iter().position(|&b| b == b'\n').map_or(body.len(), |at| end + at + 1);
+        pieces.push(&body[start..end]);
+        start = end;
+    }
+    let newlines: Vec<usize> = pieces.par_iter().map(|piece| piece.iter().filter(|&&b| b == b'\n').count()).collect();
+    let mut first_line = 1;
+    let starts: Vec<usize> = newlines
+        .iter()
+        .map(|n| {
+            let line = first_line;
+            first_line += n;
+            line
+        })
+        .collect();
+    let parts: Vec<PlainImport> =
+        pieces.par_iter().zip(starts).map(|(piece, first_line)| read_piece(piece, first_line, origin, source)).collect();
+    let mut import = PlainImport {
+        entries: Vec::with_capacity(parts.iter().map(|p| p.entries.len()).sum()),
+        ..PlainImport::default()
+    };
+    for part in parts {
+        import.entries.extend(part.entries);
+        import.rejected.extend(part.rejected);
+        import.content_lines += part.content_lines;
+    }
+    import
+}
+
+/// Bytes of the plain layout one parallel task reads.
+const PIECE_BYTES: usize = 1 << 20;
+
+/// Reads `piece`, whole lines of a plain-layout file, the first of which is line `first_line`.
+fn read_piece(piece: &[u8], first_line: usize, origin: &str, source: &str) -> PlainImport {
+    let mut import = PlainImport::default();
+    // A piece ends with its line feed; the empty text after it is no line of the file.
+    let piece = piece.strip_suffix(b"\n").unwrap_or(piece);
+    for (number, raw) in piece.split(|&b| b == b'\n').enumerate() {
+        let line = first_line + number;
         let raw = raw.strip_suffix(b"\r").unwrap_or(raw);
         let text = match std::str::from_utf8(raw) {
             Ok(t) => t,
@@ -374,6 +416,28 @@ mod tests {
         assert_eq!(import.entries[1].line, 4);
         assert_eq!(import.content_lines, 2);
         assert!(import.rejected.is_empty());
+    }
+
+    #[test]
+    fn pieces_read_in_parallel_keep_file_lines() {
+        // More than one piece of PIECE_BYTES: line numbers, rejected lines and entry order must
+        // be those of one pass.
+        let mut text = String::from("\u{feff}");
+        for i in 0..150_000 {
+            match i {
+                90_000 => text.push_str("lonely\n"),
+                120_000 => text.push_str("\n# a comment\r\n"),
+                _ => text.push_str(&format!("w{i:06} K IY1\r\n")),
+            }
+        }
+        assert!(text.len() > 2 * PIECE_BYTES);
+        let import = read_plain(text.as_bytes(), "t.dict", "t");
+        assert_eq!(import.entries.len(), 149_998);
+        assert_eq!(import.content_lines, 149_999);
+        assert_eq!(import.rejected.iter().map(|r| r.line()).collect::<Vec<_>>(), [Some(90_001)]);
+        let last = &import.entries[149_997];
+        assert_eq!((last.word.as_str(), last.line), ("w149999", 150_001));
+        assert!(import.entries.windows(2).all(|w| w[0].line < w[1].line));
     }
 
     #[test]
