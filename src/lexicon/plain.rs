@@ -318,7 +318,9 @@ impl BuildLexicon {
 /// ```
 pub fn write_plain(entries: &[Entry], policy: &HeadwordPolicy, options: &PlainExport) -> BuildLexicon {
     let groups = HeadwordGroups::new(entries, policy, |e| e.status != Status::Deprecated && !e.pronunciation.trim().is_empty());
-    let mut build = BuildLexicon { text: String::new(), phones: BTreeSet::new(), lines: 0 };
+    // Reserved once (see write_pls): word, phones, and room for a suffix or probability column.
+    let room: usize = groups.iter().flatten().map(|&id| entries[id].word.len() + entries[id].pronunciation.len() + 16).sum();
+    let mut build = BuildLexicon { text: String::with_capacity(room), phones: BTreeSet::new(), lines: 0 };
     let mut rows: Vec<(Cow<'_, str>, f64)> = Vec::new();
     for group in groups.iter() {
         rows.clear();
