@@ -201,7 +201,7 @@ fn plant(entries: &mut Vec<Entry>) -> BTreeSet<Expected> {
 }
 
 fn as_expected(report: &Report) -> BTreeSet<Expected> {
-    report.findings.iter().map(|f| (f.check.clone(), f.word.clone(), f.pronunciation.clone())).collect()
+    report.findings.iter().map(|f| (f.check.to_string(), f.word.to_string(), f.pronunciation.to_string())).collect()
 }
 
 #[test]

@@ -98,7 +98,7 @@ fn entry(extra_columns: usize) -> impl Strategy<Value = Entry> {
             source: source.into(),
             score,
             note: note.into(),
-            extra,
+            extra: extra.into(),
             line: 0,
         })
 }
@@ -129,7 +129,7 @@ fn content(e: &Entry) -> Content {
         e.source.to_string(),
         e.score.map(f64::to_bits),
         e.note.to_string(),
-        e.extra.clone(),
+        e.extra.to_vec(),
     )
 }
 

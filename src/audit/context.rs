@@ -11,13 +11,12 @@ use crate::audit::StressPolicy;
 use crate::support::hash::FnvMap;
 use rayon::prelude::*;
 use std::borrow::Cow;
-use std::ops::Range;
 
 /// Entries per parallel work item (small enough to balance, large enough to amortise).
 const CHUNK: usize = 4096;
 
 /// One phone token of a pronunciation as the phoneset reads it.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+#[derive(Debug, Clone, Copy, Default, PartialEq, Eq, Hash)]
 pub struct Token {
     /// The phone, when the token is a symbol of the phoneset (with or without a declared mark).
     pub phone: Option<PhoneId>,
@@ -25,11 +24,74 @@ pub struct Token {
     pub stress: Option<StressLevel>,
 }
 
+/// Phonesets of at most this many phones have their tokens stored in two bytes each.
+const PACKED_PHONES: usize = (u16::MAX as usize + 1) / 4 - 1;
+
+/// A token in two bytes: `(phone + 1 or 0) * 4 + stress code`; phone ids below [`PACKED_PHONES`].
+fn pack(token: Token) -> u16 {
+    let phone = token.phone.map_or(0, |p| p + 1);
+    let stress = match token.stress {
+        None => 0,
+        Some(StressLevel::Primary) => 1,
+        Some(StressLevel::Secondary) => 2,
+        Some(StressLevel::Unstressed) => 3,
+    };
+    phone * 4 + stress
+}
+
+/// The token [`pack`] wrote as `code`.
+fn unpack(code: u16) -> Token {
+    let stress = match code % 4 {
+        0 => None,
+        1 => Some(StressLevel::Primary),
+        2 => Some(StressLevel::Secondary),
+        _ => Some(StressLevel::Unstressed),
+    };
+    Token { phone: (code / 4).checked_sub(1), stress }
+}
+
+/// Every token of a run: two bytes each (see [`pack`]) unless the phoneset is too large for that.
+enum TokenStore {
+    Packed(Vec<u16>),
+    Wide(Vec<Token>),
+}
+
+/// The tokens of one pronunciation, in order, as stored in the context.
+#[derive(Debug, Clone, Copy)]
+pub struct Tokens<'c> {
+    // One of the two is empty.
+    packed: &'c [u16],
+    wide: &'c [Token],
+}
+
+impl<'c> Tokens<'c> {
+    /// Number of tokens.
+    pub fn len(&self) -> usize {
+        self.packed.len() + self.wide.len()
+    }
+
+    /// True when the pronunciation has no token.
+    pub fn is_empty(&self) -> bool {
+        self.len() == 0
+    }
+
+    /// The tokens in order.
+    pub fn iter(&self) -> impl Iterator<Item = Token> + 'c {
+        self.packed.iter().map(|&code| unpack(code)).chain(self.wide.iter().copied())
+    }
+}
+
+impl PartialEq for Tokens<'_> {
+    fn eq(&self, other: &Tokens<'_>) -> bool {
+        self.len() == other.len() && self.iter().eq(other.iter())
+    }
+}
+
 /// The reading of one entry's pronunciation, borrowed from the context.
 #[derive(Debug, Clone, Copy)]
 pub struct ParsedEntry<'c> {
     /// The tokens, in order.
-    pub tokens: &'c [Token],
+    pub tokens: Tokens<'c>,
     /// What the phoneset's per-token check says is wrong (unknown symbols, undeclared or
     /// misplaced marks, missing required marks); empty for a clean pronunciation.
     pub problems: &'c [TokenProblem],
@@ -50,7 +112,7 @@ impl ParsedEntry<'_> {
     /// `out` unspecified, when a token is unknown.
     pub fn fill_pronunciation(&self, out: &mut Pronunciation) -> bool {
         out.phones.clear();
-        for t in self.tokens {
+        for t in self.tokens.iter() {
             let Some(phone) = t.phone else { return false };
             out.phones.push(PhoneToken { phone, stress: t.stress });
         }
@@ -64,30 +126,51 @@ pub struct Context<'a> {
     policy: HeadwordPolicy,
     phoneset: &'a Phoneset,
     stress: &'a StressPolicy,
-    keys: Vec<Cow<'a, str>>,
+    /// The spelling keys that differ from the headword as written, by entry id.
+    keys: Vec<(EntryId, Box<str>)>,
     order: Vec<EntryId>,
-    groups: Vec<Range<usize>>,
-    tokens: Vec<Token>,
-    spans: Vec<Range<usize>>,
+    /// Where each group ends in `order`.
+    group_ends: Vec<usize>,
+    tokens: TokenStore,
+    /// Where each entry's tokens end in `tokens`.
+    token_ends: Vec<usize>,
     problems: Vec<(EntryId, Vec<TokenProblem>)>,
 }
 
 impl<'a> Context<'a> {
     /// Prepares `entries` for auditing.
     pub fn new(entries: &'a [Entry], policy: HeadwordPolicy, phoneset: &'a Phoneset, stress: &'a StressPolicy) -> Context<'a> {
+        Context::with_store(entries, policy, phoneset, stress, phoneset.phones().len() <= PACKED_PHONES)
+    }
+
+    /// [`new`](Self::new) with the tokens packed in two bytes (`packed`) or not.
+    fn with_store(entries: &'a [Entry], policy: HeadwordPolicy, phoneset: &'a Phoneset, stress: &'a StressPolicy, packed: bool) -> Context<'a> {
         let keys: Vec<Cow<'a, str>> = entries.par_iter().with_min_len(CHUNK).map(|e| spelling_key(&e.word, &policy)).collect();
         let mut order: Vec<EntryId> = (0..entries.len()).collect();
         // Stable: within a group, entries keep file order.
         order.par_sort_by(|&a, &b| keys[a].cmp(&keys[b]));
-        let mut groups = Vec::new();
-        let mut start = 0;
-        for i in 1..=order.len() {
-            if i == order.len() || keys[order[i]] != keys[order[start]] {
-                groups.push(start..i);
-                start = i;
-            }
+        let mut group_ends: Vec<usize> = (1..order.len()).filter(|&i| keys[order[i - 1]] != keys[order[i]]).collect();
+        if !order.is_empty() {
+            group_ends.push(order.len());
         }
-        let (tokens, spans, flagged) = parse_all(entries, phoneset);
+        // Only the keys that differ from their headword are kept (most are the headword itself).
+        let mut keys: Vec<(EntryId, Box<str>)> = keys
+            .into_iter()
+            .enumerate()
+            .filter_map(|(id, key)| match key {
+                Cow::Borrowed(_) => None,
+                Cow::Owned(key) => Some((id, key.into_boxed_str())),
+            })
+            .collect();
+        // The collect reuses the dense list's allocation (same element size); give it back.
+        keys.shrink_to_fit();
+        let (tokens, token_ends, flagged) = if packed {
+            let (tokens, ends, flagged) = parse_all(entries, phoneset, pack);
+            (TokenStore::Packed(tokens), ends, flagged)
+        } else {
+            let (tokens, ends, flagged) = parse_all(entries, phoneset, |token| token);
+            (TokenStore::Wide(tokens), ends, flagged)
+        };
         let problems = flagged
             .into_par_iter()
             .map(|id| {
@@ -97,7 +180,7 @@ impl<'a> Context<'a> {
             })
             .filter(|(_, found)| !found.is_empty())
             .collect();
-        Context { entries, policy, phoneset, stress, keys, order, groups, tokens, spans, problems }
+        Context { entries, policy, phoneset, stress, keys, order, group_ends, tokens, token_ends, problems }
     }
 
     /// The entries under audit.
@@ -122,12 +205,20 @@ impl<'a> Context<'a> {
 
     /// The spelling key of entry `id` (see [`spelling_key`]).
     pub fn key(&self, id: EntryId) -> &str {
-        self.keys.get(id).map(|k| k.as_ref()).unwrap_or("")
+        match self.keys.binary_search_by_key(&id, |(i, _)| *i) {
+            Ok(at) => &self.keys[at].1,
+            Err(_) => self.entries.get(id).map_or("", |e| e.word.as_str()),
+        }
     }
 
     /// The parsed pronunciation of entry `id`.
     pub fn parsed(&self, id: EntryId) -> ParsedEntry<'_> {
-        let tokens = self.spans.get(id).and_then(|r| self.tokens.get(r.clone())).unwrap_or(&[]);
+        let start = if id == 0 { 0 } else { self.token_ends.get(id - 1).copied().unwrap_or(0) };
+        let end = self.token_ends.get(id).copied().unwrap_or(start);
+        let tokens = match &self.tokens {
+            TokenStore::Packed(all) => Tokens { packed: all.get(start..end).unwrap_or(&[]), wide: &[] },
+            TokenStore::Wide(all) => Tokens { packed: &[], wide: all.get(start..end).unwrap_or(&[]) },
+        };
         let problems = match self.problems.binary_search_by_key(&id, |(i, _)| *i) {
             Ok(at) => self.problems[at].1.as_slice(),
             Err(_) => &[],
@@ -142,7 +233,13 @@ impl<'a> Context<'a> {
 
     /// The groups of entries sharing a spelling key (one per word), each in file order.
     pub fn groups(&self) -> impl Iterator<Item = &[EntryId]> + '_ {
-        self.groups.iter().map(|r| &self.order[r.clone()])
+        (0..self.group_ends.len()).map(|n| self.group(n))
+    }
+
+    /// Group `n` (see [`groups`](Self::groups)).
+    fn group(&self, n: usize) -> &[EntryId] {
+        let start = if n == 0 { 0 } else { self.group_ends[n - 1] };
+        &self.order[start..self.group_ends[n]]
     }
 
     /// Runs `visit` on every entry in parallel and gathers what it pushes.
@@ -150,7 +247,8 @@ impl<'a> Context<'a> {
     where
         F: Fn(EntryId, &'a Entry, &mut Vec<crate::audit::Finding>) + Sync,
     {
-        self.entries
+        let parts: Vec<Vec<crate::audit::Finding>> = self
+            .entries
             .par_iter()
             .enumerate()
             .with_min_len(CHUNK)
@@ -158,7 +256,8 @@ impl<'a> Context<'a> {
                 visit(id, entry, &mut out);
                 out
             })
-            .reduce(Vec::new, concat)
+            .collect();
+        gather(parts)
     }
 
     /// Runs `visit` on every word group of at least `min_len` entries, in parallel.
@@ -166,63 +265,79 @@ impl<'a> Context<'a> {
     where
         F: Fn(&[EntryId], &mut Vec<crate::audit::Finding>) + Sync,
     {
-        self.groups
-            .par_iter()
+        let parts: Vec<Vec<crate::audit::Finding>> = (0..self.group_ends.len())
+            .into_par_iter()
             .with_min_len(CHUNK)
-            .filter(|r| r.len() >= min_len)
-            .fold(Vec::new, |mut out, r| {
-                visit(&self.order[r.clone()], &mut out);
+            .map(|n| self.group(n))
+            .filter(|group| group.len() >= min_len)
+            .fold(Vec::new, |mut out, group| {
+                visit(group, &mut out);
                 out
             })
-            .reduce(Vec::new, concat)
+            .collect();
+        gather(parts)
     }
 }
 
-fn concat<T>(mut a: Vec<T>, mut b: Vec<T>) -> Vec<T> {
-    a.append(&mut b);
-    a
+/// The findings of the parallel parts, in order, in one list allocated once (appending the parts
+/// pairwise would allocate and free a list at every level of the split).
+pub(crate) fn gather<T>(parts: Vec<Vec<T>>) -> Vec<T> {
+    let mut all = Vec::with_capacity(parts.iter().map(Vec::len).sum());
+    for part in parts {
+        all.extend(part);
+    }
+    all
 }
 
-/// Reads every pronunciation, in parallel chunks, into one flat token list with a span per
-/// entry, and lists the entries that need the phoneset's detailed per-token check.
-fn parse_all(entries: &[Entry], phoneset: &Phoneset) -> (Vec<Token>, Vec<Range<usize>>, Vec<EntryId>) {
+/// Reads every pronunciation, in parallel chunks, into one flat token list (each token as `store`
+/// keeps it) with where each entry's tokens end, and lists the entries that need the phoneset's
+/// detailed per-token check.
+fn parse_all<T: Copy + Default + Send + Sync>(
+    entries: &[Entry],
+    phoneset: &Phoneset,
+    store: impl Fn(Token) -> T + Sync,
+) -> (Vec<T>, Vec<usize>, Vec<EntryId>) {
     let table = TokenTable::new(phoneset);
-    let pieces: Vec<(Vec<Token>, Vec<usize>, Vec<EntryId>)> = entries
+    // Counted first, so each chunk writes its tokens straight into its part of the one list.
+    let mut token_ends: Vec<usize> =
+        entries.par_iter().with_min_len(CHUNK).map(|e| e.pronunciation.split_whitespace().count()).collect();
+    let mut total = 0;
+    for end in &mut token_ends {
+        total += *end;
+        *end = total;
+    }
+    let mut tokens = vec![T::default(); total];
+    let mut parts: Vec<&mut [T]> = Vec::with_capacity(entries.len().div_ceil(CHUNK));
+    let (mut rest, mut start) = (tokens.as_mut_slice(), 0);
+    for ends in token_ends.chunks(CHUNK) {
+        let end = ends.last().copied().unwrap_or(start);
+        let (part, tail) = std::mem::take(&mut rest).split_at_mut(end - start);
+        parts.push(part);
+        (rest, start) = (tail, end);
+    }
+    let flagged = entries
         .par_chunks(CHUNK)
+        .zip(parts)
         .enumerate()
-        .map(|(chunk_no, chunk)| {
-            let mut tokens = Vec::with_capacity(chunk.len() * 8);
-            let mut ends = Vec::with_capacity(chunk.len());
+        .flat_map_iter(|(chunk_no, (chunk, part))| {
+            let mut slots = part.iter_mut();
             let mut flagged = Vec::new();
             for (i, entry) in chunk.iter().enumerate() {
                 let mut clean = true;
-                for text in entry.pronunciation.split_whitespace() {
+                // The text first: zip asks it first, so no slot is taken past the entry's last token.
+                for (text, slot) in entry.pronunciation.split_whitespace().zip(slots.by_ref()) {
                     let (token, ok) = table.read(phoneset, text);
                     clean &= ok;
-                    tokens.push(token);
+                    *slot = store(token);
                 }
-                ends.push(tokens.len());
                 if !clean {
                     flagged.push(chunk_no * CHUNK + i);
                 }
             }
-            (tokens, ends, flagged)
+            flagged
         })
         .collect();
-    let mut tokens = Vec::with_capacity(pieces.iter().map(|p| p.0.len()).sum());
-    let mut spans = Vec::with_capacity(entries.len());
-    let mut flagged = Vec::new();
-    for (piece, ends, bad) in pieces {
-        let base = tokens.len();
-        let mut start = base;
-        for end in ends {
-            spans.push(start..base + end);
-            start = base + end;
-        }
-        tokens.extend(piece);
-        flagged.extend(bad);
-    }
-    (tokens, spans, flagged)
+    (tokens, token_ends, flagged)
 }
 
 /// Every well-formed token of a phoneset (each symbol bare and with each declared mark), read
@@ -370,7 +485,7 @@ pub(crate) mod tests {
         with(&rows, |c| {
             let car = c.parsed(0);
             assert_eq!(car.tokens.len(), 3);
-            assert_eq!(car.tokens[1].stress, Some(StressLevel::Primary));
+            assert_eq!(car.tokens.iter().nth(1).and_then(|t| t.stress), Some(StressLevel::Primary));
             assert_eq!(car.primary_count(), 1);
             assert!(car.problems.is_empty());
             assert!(matches!(c.parsed(1).problems[0].kind, TokenProblemKind::UndeclaredMark { .. }));

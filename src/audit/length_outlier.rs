@@ -77,31 +77,39 @@ impl Check for LengthOutlier {
     }
     fn run(&self, context: &Context<'_>) -> Vec<Finding> {
         let entries = context.entries();
-        // (entry, letters, phones) of every measurable entry.
-        let measured: Vec<(usize, usize, usize)> = entries
-            .par_iter()
-            .enumerate()
+        // (letters, phones) of a measurable entry; recomputed where needed rather than held.
+        let measure = |id: usize| {
+            let parsed = context.parsed(id);
+            let letters = entries[id].word.chars().filter(|c| c.is_alphabetic()).count();
+            (letters > 0 && !parsed.tokens.is_empty() && parsed.problems.is_empty()).then(|| (letters, parsed.tokens.len()))
+        };
+        let ratio = |(letters, phones): (usize, usize)| phones as f64 / letters as f64;
+        let no_classes = || vec![Vec::new(); LONG_WORD + 1];
+        let classes: Vec<Vec<f64>> = (0..entries.len())
+            .into_par_iter()
             .with_min_len(4096)
-            .filter_map(|(id, entry)| {
-                let parsed = context.parsed(id);
-                let letters = entry.word.chars().filter(|c| c.is_alphabetic()).count();
-                (letters > 0 && !parsed.tokens.is_empty() && parsed.problems.is_empty()).then_some((id, letters, parsed.tokens.len()))
+            .fold(no_classes, |mut classes, id| {
+                if let Some(m) = measure(id) {
+                    classes[m.0.min(LONG_WORD)].push(ratio(m));
+                }
+                classes
             })
-            .collect();
-        let ratio = |&(_, letters, phones): &(usize, usize, usize)| phones as f64 / letters as f64;
-        let Some(overall) = Spread::of(&mut measured.iter().map(ratio).collect::<Vec<_>>()) else { return Vec::new() };
-        let mut classes = vec![Vec::new(); LONG_WORD + 1];
-        for m in &measured {
-            classes[m.1.min(LONG_WORD)].push(ratio(m));
-        }
+            .reduce(no_classes, |mut all, part| {
+                for (class, more) in all.iter_mut().zip(part) {
+                    class.extend(more);
+                }
+                all
+            });
+        // Medians and MADs depend on the values only, not their order.
+        let Some(overall) = Spread::of(&mut classes.concat()) else { return Vec::new() };
         let spreads: Vec<Spread> = classes.into_iter().map(|mut c| Spread::of(&mut c).unwrap_or(overall)).collect();
-        let mut out = Vec::new();
-        for m in &measured {
-            let (id, letters, phones) = *m;
+        context.each_entry(|id, entry, out| {
+            let Some(m) = measure(id) else { return };
+            let (letters, phones) = m;
             let spread = spreads[letters.min(LONG_WORD)];
-            let Some(z) = spread.z(ratio(m)) else { continue };
+            let Some(z) = spread.z(ratio(m)) else { return };
             if z.abs() <= THRESHOLD {
-                continue;
+                return;
             }
             let class = if letters >= LONG_WORD { format!("{LONG_WORD}+") } else { letters.to_string() };
             let message = format!(
@@ -115,9 +123,8 @@ impl Check for LengthOutlier {
             } else {
                 "check for missing phones (a truncated or wrongly pasted pronunciation)"
             };
-            out.push(Finding::new(self.id(), self.severity(), id, &entries[id], message).suggest(hint));
-        }
-        out
+            out.push(Finding::new(self.id(), self.severity(), id, entry, message).suggest(hint));
+        })
     }
 }
 

@@ -20,7 +20,7 @@
 //! let stress = StressPolicy::default();
 //! let context = Context::new(&entries, HeadwordPolicy::default(), &phoneset, &stress);
 //! let report = audit::run(&context, &audit::all_checks(), None);
-//! let checks: Vec<&str> = report.findings.iter().map(|f| f.check.as_str()).collect();
+//! let checks: Vec<&str> = report.findings.iter().map(|f| &*f.check).collect();
 //! assert_eq!(checks, ["unknown-phone", "duplicate-entry"]);
 //! assert_eq!(report.count_at_least(Severity::Error), 2);
 //! ```
@@ -45,14 +45,16 @@ mod report;
 mod unknown_phone;
 mod unlikely;
 
-pub use context::{spelling_key, Context, ParsedEntry, Token};
+pub use context::{spelling_key, Context, ParsedEntry, Token, Tokens};
 pub use invisible_character::{invisible_characters, Invisible, InvisibleChar};
 pub use mixed_script::is_mixed_script;
 pub use policy::{PrimaryStressPolicy, StressPolicy};
 pub use report::{CheckSummary, Report, Summary};
 pub use unlikely::{unlikely_cache_folder, unlikely_pronunciations, UnlikelyError, UnlikelyOptions, UnlikelyPronunciation, UNLIKELY_PRONUNCIATION};
 
+use compact_str::CompactString;
 use crate::lexicon::{Entry, EntryId};
+use std::borrow::Cow;
 use std::fmt;
 use std::str::FromStr;
 
@@ -111,23 +113,25 @@ impl FromStr for Severity {
 /// A plain value (serialisable both ways) so findings can be stored or queued for review.
 #[derive(Debug, Clone, PartialEq, serde::Serialize, serde::Deserialize)]
 pub struct Finding {
-    /// The stable kebab-case id of the check, e.g. `unknown-phone`.
-    pub check: String,
+    /// The stable kebab-case id of the check, e.g. `unknown-phone` (borrowed from the check, owned
+    /// when read back).
+    pub check: Cow<'static, str>,
     /// How bad it is.
     pub severity: Severity,
     /// Index of the entry in [`Lexicon::entries`](crate::lexicon::Lexicon::entries).
     pub entry: EntryId,
     /// The headword as written.
-    pub word: String,
+    pub word: CompactString,
     /// The 1-based line of the entry in its file (0 when not read from a file).
     pub line: usize,
     /// The pronunciation as written.
-    pub pronunciation: String,
+    pub pronunciation: CompactString,
     /// What is wrong, in a sentence.
     pub message: String,
     /// The repair to make, when the check knows one.
+    /// (Borrowed when it is a fixed text, as the suggestions of most checks are.)
     #[serde(default, skip_serializing_if = "Option::is_none")]
-    pub suggestion: Option<String>,
+    pub suggestion: Option<Cow<'static, str>>,
     /// Other entries involved (the earlier duplicate, the other spelling, ...).
     #[serde(default, skip_serializing_if = "Vec::is_empty")]
     pub related: Vec<EntryId>,
@@ -135,14 +139,14 @@ pub struct Finding {
 
 impl Finding {
     /// A finding about `entries[id]` with no suggestion.
-    pub fn new(check: &str, severity: Severity, id: EntryId, entry: &Entry, message: String) -> Finding {
+    pub fn new(check: &'static str, severity: Severity, id: EntryId, entry: &Entry, message: String) -> Finding {
         Finding {
-            check: check.to_string(),
+            check: Cow::Borrowed(check),
             severity,
             entry: id,
-            word: entry.word.to_string(),
+            word: entry.word.clone(),
             line: entry.line,
-            pronunciation: entry.pronunciation.to_string(),
+            pronunciation: entry.pronunciation.clone(),
             message,
             suggestion: None,
             related: Vec::new(),
@@ -150,7 +154,7 @@ impl Finding {
     }
 
     /// The same finding with a suggested repair.
-    pub fn suggest(mut self, suggestion: impl Into<String>) -> Finding {
+    pub fn suggest(mut self, suggestion: impl Into<Cow<'static, str>>) -> Finding {
         self.suggestion = Some(suggestion.into());
         self
     }
@@ -252,10 +256,10 @@ pub fn select_checks(ids: &[&str]) -> Result<Vec<Box<dyn Check>>, AuditError> {
     Ok(all.into_iter().filter(|c| ids.contains(&c.id())).collect())
 }
 
-/// Runs `checks` over the prepared context (in parallel) and gathers the report. `file` names the
+/// Runs `checks` over the prepared context (each in parallel) and gathers the report. `file` names the
 /// lexicon in text output.
 pub fn run(context: &Context<'_>, checks: &[Box<dyn Check>], file: Option<&str>) -> Report {
-    use rayon::prelude::*;
-    let per_check: Vec<Vec<Finding>> = checks.par_iter().map(|check| check.run(context)).collect();
-    Report::new(file, context.entries().len(), checks, per_check)
+    // One check at a time (each runs on all cores itself), its findings moved into the report
+    // before the next runs: only one check's working memory is held beside the findings so far.
+    Report::new(file, context.entries().len(), checks, checks.iter().map(|check| check.run(context)))
 }

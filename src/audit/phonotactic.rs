@@ -2,6 +2,7 @@
 //! such as a word-initial velar nasal in English. The constraints, their messages and sources live
 //! in the phoneset; this check only applies them to every fully known pronunciation.
 
+use super::context::gather;
 use super::{Check, Context, Finding, Severity};
 use crate::lexicon::{Entry, EntryId};
 use crate::phoneset::{PhonotacticViolation, Pronunciation};
@@ -26,7 +27,7 @@ impl Check for Phonotactic {
             return Vec::new();
         }
         // One pronunciation buffer per work item, reused across its entries.
-        context
+        let parts: Vec<Vec<Finding>> = context
             .entries()
             .par_iter()
             .enumerate()
@@ -43,10 +44,8 @@ impl Check for Phonotactic {
                 },
             )
             .map(|(out, _)| out)
-            .reduce(Vec::new, |mut a, mut b| {
-                a.append(&mut b);
-                a
-            })
+            .collect::<Vec<_>>();
+        gather(parts)
     }
 }
 

@@ -7,7 +7,7 @@
 //! synthesis and redundant only for builds that strip stress, so that is reported as info. Exact
 //! copies are `duplicate-entry`'s. Each later variant is reported against the first it repeats.
 
-use super::{Check, Context, Finding, Severity, Token};
+use super::{Check, Context, Finding, Severity, Token, Tokens};
 use crate::phoneset::{Phoneset, StressLevel};
 use std::collections::HashMap;
 
@@ -29,7 +29,7 @@ impl Check for RedundantVariant {
         let free = FreeVariation::new(phoneset, &context.stress().free_variation);
         let entries = context.entries();
         context.each_group(2, |group, out| {
-            let variants: Vec<Option<&[Token]>> = group
+            let variants: Vec<Option<Tokens<'_>>> = group
                 .iter()
                 .map(|&id| {
                     let parsed = context.parsed(id);
@@ -68,23 +68,23 @@ enum Redundancy {
 
 /// How `later` repeats `earlier`, if it does (exact copies are not this check's). Both are
 /// fully known pronunciations.
-fn compare(free: &FreeVariation<'_>, earlier: &[Token], later: &[Token]) -> Option<Redundancy> {
+fn compare(free: &FreeVariation<'_>, earlier: Tokens<'_>, later: Tokens<'_>) -> Option<Redundancy> {
     if earlier == later || earlier.is_empty() || earlier.len() != later.len() {
         return None;
     }
-    let pairs = || earlier.iter().zip(later);
+    let pairs = || earlier.iter().zip(later.iter());
     if pairs().all(|(a, b)| a.phone == b.phone) {
         let primary = |t: &Token| t.stress == Some(StressLevel::Primary);
-        let same_primaries = pairs().all(|(a, b)| primary(a) == primary(b));
+        let same_primaries = pairs().all(|(a, b)| primary(&a) == primary(&b));
         return Some(if same_primaries { Redundancy::MinorStress } else { Redundancy::StressShift });
     }
     if free.is_empty() {
         return None;
     }
-    if pairs().all(|(a, b)| free.fold(*a) == free.fold(*b)) {
+    if pairs().all(|(a, b)| free.fold(a) == free.fold(b)) {
         return Some(Redundancy::Free);
     }
-    pairs().all(|(a, b)| free.fold(*a).phone == free.fold(*b).phone).then_some(Redundancy::FreeAndStress)
+    pairs().all(|(a, b)| free.fold(a).phone == free.fold(b).phone).then_some(Redundancy::FreeAndStress)
 }
 
 /// The project's free-variation groups, read into tokens: token → representative of its group.

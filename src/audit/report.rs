@@ -6,7 +6,6 @@
 
 use super::{Check, Finding, Severity};
 use std::collections::BTreeMap;
-use std::fmt::Write as _;
 
 /// Per-check figures of a report.
 #[derive(Debug, Clone, PartialEq, Eq, serde::Serialize, serde::Deserialize)]
@@ -44,8 +43,9 @@ pub struct Report {
 }
 
 impl Report {
-    /// Gathers the findings of `checks` (`per_check[i]` belongs to `checks[i]`).
-    pub fn new(file: Option<&str>, entries: usize, checks: &[Box<dyn Check>], per_check: Vec<Vec<Finding>>) -> Report {
+    /// Gathers the findings of `checks` (the `i`-th list of `per_check` belongs to `checks[i]`), each
+    /// list moved in as it comes, so a lazy `per_check` runs one check at a time.
+    pub fn new(file: Option<&str>, entries: usize, checks: &[Box<dyn Check>], per_check: impl IntoIterator<Item = Vec<Finding>>) -> Report {
         let mut summaries = Vec::with_capacity(checks.len());
         let mut findings = Vec::new();
         for (check, mut found) in checks.iter().zip(per_check) {
@@ -88,10 +88,18 @@ impl Report {
     /// assert!(text.contains("lexicon.csv:7: pier [P IH1 XR]: `XR`"));
     /// ```
     pub fn to_text(&self) -> String {
+        let mut out = Vec::new();
+        // Writing into a Vec cannot fail, and every piece written is text.
+        let _ = self.write_text(&mut out);
+        String::from_utf8(out).unwrap_or_else(|err| String::from_utf8_lossy(err.as_bytes()).into_owned())
+    }
+
+    /// Writes [`to_text`](Self::to_text)'s text to `out` as it goes, so a report of many findings
+    /// is never held twice.
+    pub fn write_text(&self, out: &mut impl std::io::Write) -> std::io::Result<()> {
         let file = self.summary.file.as_deref().unwrap_or("(lexicon)");
         let count = |s: &str| self.summary.by_severity.get(s).copied().unwrap_or(0);
-        let mut out = String::new();
-        let _ = writeln!(
+        writeln!(
             out,
             "{file}: {} entries, {} checks: {} errors, {} warnings, {} notes",
             self.summary.entries,
@@ -99,7 +107,7 @@ impl Report {
             count("error"),
             count("warning"),
             count("info")
-        );
+        )?;
         let mut rest = self.findings.as_slice();
         for check in &self.summary.checks {
             let (mine, later) = rest.split_at(check.findings.min(rest.len()));
@@ -107,16 +115,16 @@ impl Report {
             if mine.is_empty() {
                 continue;
             }
-            let _ = writeln!(out, "\n{} ({}, {}): {}", check.id, check.severity, mine.len(), check.description);
+            writeln!(out, "\n{} ({}, {}): {}", check.id, check.severity, mine.len(), check.description)?;
             for f in mine {
                 let severity = if f.severity == check.severity { String::new() } else { format!(" ({})", f.severity) };
-                let _ = writeln!(out, "  {file}:{}: {} [{}]: {}{severity}", f.line, f.word, f.pronunciation, f.message);
+                writeln!(out, "  {file}:{}: {} [{}]: {}{severity}", f.line, f.word, f.pronunciation, f.message)?;
                 if let Some(s) = &f.suggestion {
-                    let _ = writeln!(out, "      fix: {s}");
+                    writeln!(out, "      fix: {s}")?;
                 }
             }
         }
-        out
+        Ok(())
     }
 }
 

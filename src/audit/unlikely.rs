@@ -208,7 +208,7 @@ fn findings(entries: &[Entry], mut scored: Vec<Scored>, opts: &UnlikelyOptions) 
                 s.best, s.best_posterior
             );
             let mut finding = Finding::new(UNLIKELY_PRONUNCIATION, Severity::Warning, s.entry, entry, message);
-            finding.suggestion = Some(s.best);
+            finding.suggestion = Some(s.best.into());
             finding
         })
         .collect()

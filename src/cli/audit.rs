@@ -4,6 +4,7 @@ use super::{DataFormat, ProjectArgs};
 use anyhow::Context as _;
 use orthoepy::audit::{self, fix, Context, Report, Severity};
 use orthoepy::lexicon::{Lexicon, LoadMode};
+use std::io::Write as _;
 use std::path::PathBuf;
 use std::process::ExitCode;
 
@@ -113,6 +114,9 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     let context = Context::new(lexicon.entries(), policy, &phoneset, &stress);
     let file = path.display().to_string();
     let report = audit::run(&context, &checks, Some(&file));
+    // The report owns what it prints: the lexicon and the prepared context go first.
+    drop(context);
+    drop(lexicon);
     match args.format {
         DataFormat::Json => super::print_json(&Output { report: &report, fixes: args.fix.then_some(changes.as_slice()) })?,
         DataFormat::Text => {
@@ -125,7 +129,8 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
                     n => println!("{n} safe repairs saved to {file} (previous version in {})\n", orthoepy::safe_io::backup_path(&path).display()),
                 }
             }
-            print!("{}", report.to_text());
+            let mut out = std::io::BufWriter::new(std::io::stdout().lock());
+            report.write_text(&mut out).and_then(|()| out.flush()).context("cannot write the report")?;
         }
     }
     let failing = report.count_at_least(args.fail_on.into());

@@ -4,6 +4,7 @@ use anyhow::Context;
 use orthoepy::lexicon::plain::read_plain_file;
 use orthoepy::lexicon::Lexicon;
 use orthoepy::project::Project;
+use rayon::prelude::*;
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
@@ -117,7 +118,9 @@ pub fn run(args: Args) -> anyhow::Result<ExitCode> {
     }
     let policy = orthoepy::lexicon::HeadwordPolicy { fold_case: args.fold_case };
     let mut lexicon = Lexicon::from_entries(read.entries, policy);
-    let outside = lexicon.entries().iter().filter(|e| phoneset.parse(&e.pronunciation).is_err()).count();
+    let outside = lexicon.entries().par_iter().filter(|e| phoneset.parse(&e.pronunciation).is_err()).count();
+    // Sorted first (in parallel; saving keeps the order), so the count of headwords needs no sort.
+    lexicon.sort();
     let words = lexicon.headword_count();
     lexicon.save_as(&args.output).context("cannot write the lexicon")?;
     eprintln!(

@@ -30,7 +30,7 @@ use anyhow::Context;
 use orthoepy::lexicon::{HeadwordPolicy, Lexicon};
 use orthoepy::lock::ProjectLock;
 use orthoepy::project::Project;
-use std::io::IsTerminal;
+use std::io::{IsTerminal, Write as _};
 use std::path::{Path, PathBuf};
 
 /// How data output is written.
@@ -166,7 +166,9 @@ fn styled_bar(len: u64, label: &str, template: &str) -> indicatif::ProgressBar {
 
 /// Writes a JSON document and a newline to stdout.
 pub fn print_json<T: serde::Serialize>(value: &T) -> anyhow::Result<()> {
-    let text = serde_json::to_string_pretty(value).context("cannot encode JSON")?;
-    println!("{text}");
+    // Written as it is encoded: a large report is never held as one string.
+    let mut out = std::io::BufWriter::new(std::io::stdout().lock());
+    serde_json::to_writer_pretty(&mut out, value).context("cannot write JSON")?;
+    writeln!(out).and_then(|()| out.flush()).context("cannot write JSON")?;
     Ok(())
 }

@@ -85,9 +85,10 @@ pub struct Entry {
     pub score: Option<f64>,
     /// A free-text note.
     pub note: CompactString,
-    /// Values of extra columns the store does not know, in the file's header order.
-    #[serde(skip_serializing_if = "Vec::is_empty")]
-    pub extra: Vec<String>,
+    /// Values of extra columns the store does not know, in the file's header order. A boxed
+    /// slice (two words, no allocation when empty, as it almost always is) rather than a `Vec`.
+    #[serde(skip_serializing_if = "<[String]>::is_empty")]
+    pub extra: Box<[String]>,
     /// The 1-based line of the file this entry was read from; 0 when it was not read from a file.
     pub line: usize,
 }
@@ -103,7 +104,7 @@ impl Entry {
             source: CompactString::default(),
             score: None,
             note: CompactString::default(),
-            extra: Vec::new(),
+            extra: Box::default(),
             line: 0,
         }
     }

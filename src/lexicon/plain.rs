@@ -15,10 +15,13 @@
 use super::entry::{join_phones, Entry, Status};
 use super::index::IndexOptions;
 use super::normalize::{normalize_key, HeadwordPolicy};
+use super::order::HeadwordGroups;
 use super::store::MAX_LEXICON;
 use crate::support::located::{origin_of, Located};
 use crate::support::read::{read_capped, Limit, ReadError};
+use std::borrow::Cow;
 use std::collections::BTreeSet;
+use rayon::prelude::*;
 use std::path::Path;
 
 /// The result of reading a plain-text lexicon.
@@ -66,10 +69,51 @@ pub fn read_plain_file(path: &Path, source: &str) -> Result<PlainImport, ReadErr
 /// assert_eq!((with.entries[1].pronunciation.as_str(), with.entries[1].score), ("K EY1", Some(0.25)));
 /// ```
 pub fn read_plain(bytes: &[u8], origin: &str, source: &str) -> PlainImport {
-    let mut import = PlainImport::default();
     let body = bytes.strip_prefix(b"\xEF\xBB\xBF").unwrap_or(bytes);
-    for (number, raw) in body.split(|&b| b == b'\n').enumerate() {
-        let line = number + 1;
+    // Cut after line feeds into pieces of about PIECE_BYTES, read in parallel; each piece knows
+    // the number of its first line, so the result is that of one pass over the file.
+    let mut pieces = Vec::new();
+    let mut start = 0;
+    while start < body.len() {
+        let end = (start + PIECE_BYTES).min(body.len());
+        let end = body[end..].iter().position(|&b| b == b'\n').map_or(body.len(), |at| end + at + 1);
+        pieces.push(&body[start..end]);
+        start = end;
+    }
+    let newlines: Vec<usize> = pieces.par_iter().map(|piece| piece.iter().filter(|&&b| b == b'\n').count()).collect();
+    let mut first_line = 1;
+    let starts: Vec<usize> = newlines
+        .iter()
+        .map(|n| {
+            let line = first_line;
+            first_line += n;
+            line
+        })
+        .collect();
+    let parts: Vec<PlainImport> =
+        pieces.par_iter().zip(starts).map(|(piece, first_line)| read_piece(piece, first_line, origin, source)).collect();
+    let mut import = PlainImport {
+        entries: Vec::with_capacity(parts.iter().map(|p| p.entries.len()).sum()),
+        ..PlainImport::default()
+    };
+    for part in parts {
+        import.entries.extend(part.entries);
+        import.rejected.extend(part.rejected);
+        import.content_lines += part.content_lines;
+    }
+    import
+}
+
+/// Bytes of the plain layout one parallel task reads.
+const PIECE_BYTES: usize = 1 << 20;
+
+/// Reads `piece`, whole lines of a plain-layout file, the first of which is line `first_line`.
+fn read_piece(piece: &[u8], first_line: usize, origin: &str, source: &str) -> PlainImport {
+    let mut import = PlainImport::default();
+    // A piece ends with its line feed; the empty text after it is no line of the file.
+    let piece = piece.strip_suffix(b"\n").unwrap_or(piece);
+    for (number, raw) in piece.split(|&b| b == b'\n').enumerate() {
+        let line = first_line + number;
         let raw = raw.strip_suffix(b"\r").unwrap_or(raw);
         let text = match std::str::from_utf8(raw) {
             Ok(t) => t,
@@ -241,7 +285,11 @@ impl BuildLexicon {
         self.text.push_str(phones);
         self.text.push('\n');
         self.lines += 1;
-        self.phones.extend(phones.split(' ').map(str::to_string));
+        for phone in phones.split(' ') {
+            if !self.phones.contains(phone) {
+                self.phones.insert(phone.to_string());
+            }
+        }
     }
 }
 
@@ -269,30 +317,44 @@ impl BuildLexicon {
 /// assert_eq!(build.text, "ferry\t1.0000\tF EH1 R IY0\nquay\t0.5000\tK IY1\nquay\t0.5000\tK IY0\n");
 /// ```
 pub fn write_plain(entries: &[Entry], policy: &HeadwordPolicy, options: &PlainExport) -> BuildLexicon {
-    let mut rows: Vec<(String, usize, String, f64)> = entries
-        .iter()
-        .enumerate()
-        .filter(|(_, e)| e.status != Status::Deprecated && !e.pronunciation.trim().is_empty())
-        .map(|(i, e)| {
+    let groups = HeadwordGroups::new(entries, policy, |e| e.status != Status::Deprecated && !e.pronunciation.trim().is_empty());
+    // Reserved once (see write_pls): word, phones, and room for a suffix or probability column.
+    let room: usize = groups.iter().flatten().map(|&id| entries[id].word.len() + entries[id].pronunciation.len() + 16).sum();
+    let mut build = BuildLexicon { text: String::with_capacity(room), phones: BTreeSet::new(), lines: 0 };
+    let mut rows: Vec<(Cow<'_, str>, f64)> = Vec::new();
+    for group in groups.iter() {
+        rows.clear();
+        rows.extend(group.iter().map(|&id| {
+            let entry = &entries[id];
             let phones = if options.strip_stress {
-                options.index_options.strip_stress(&e.pronunciation)
+                Cow::Owned(options.index_options.strip_stress(&entry.pronunciation))
             } else {
-                join_phones(e.pronunciation.split_whitespace())
+                single_spaced(&entry.pronunciation)
             };
-            (normalize_key(e.word.trim(), policy).into_owned(), i, phones, weight(e))
-        })
-        .collect();
-    rows.sort_by(|a, b| (&a.0, a.1).cmp(&(&b.0, b.1)));
-    let mut build = BuildLexicon { text: String::new(), phones: BTreeSet::new(), lines: 0 };
-    for word in rows.chunk_by(|a, b| a.0 == b.0) {
-        let lines = merged(word);
+            (phones, weight(entry))
+        }));
+        let lines = merged(&rows);
         let units = options.probability.then(|| shares(&lines.iter().map(|l| l.1).collect::<Vec<_>>()));
+        let word = normalize_key(entries[group[0]].word.trim(), policy);
         for (rank, (phones, _)) in lines.iter().enumerate() {
             let share = units.as_ref().and_then(|u| u.get(rank).copied());
-            build.push_line(&word[0].0, rank, share, phones, options.variant_suffix);
+            build.push_line(&word, rank, share, phones, options.variant_suffix);
         }
     }
     build
+}
+
+/// The phones of `pronunciation` joined by single spaces; borrowed when they already are.
+fn single_spaced(pronunciation: &str) -> Cow<'_, str> {
+    let tidy = !pronunciation.starts_with(' ')
+        && !pronunciation.ends_with(' ')
+        && !pronunciation.contains("  ")
+        && !pronunciation.chars().any(|c| c.is_whitespace() && c != ' ');
+    if tidy {
+        Cow::Borrowed(pronunciation)
+    } else {
+        Cow::Owned(join_phones(pronunciation.split_whitespace()))
+    }
 }
 
 /// The weight of an entry's pronunciation: its score (at least 0), else 1.
@@ -301,10 +363,10 @@ fn weight(entry: &Entry) -> f64 {
 }
 
 /// One word's distinct phone strings in order, each with the sum of its rows' weights.
-fn merged(rows: &[(String, usize, String, f64)]) -> Vec<(&str, f64)> {
+fn merged<'r>(rows: &'r [(Cow<'_, str>, f64)]) -> Vec<(&'r str, f64)> {
     let mut lines: Vec<(&str, f64)> = Vec::new();
-    for (_, _, phones, weight) in rows {
-        match lines.iter_mut().find(|(p, _)| p == phones) {
+    for (phones, weight) in rows {
+        match lines.iter_mut().find(|(p, _)| *p == phones.as_ref()) {
             Some(line) => line.1 += weight,
             None => lines.push((phones, *weight)),
         }
@@ -356,6 +418,28 @@ mod tests {
         assert_eq!(import.entries[1].line, 4);
         assert_eq!(import.content_lines, 2);
         assert!(import.rejected.is_empty());
+    }
+
+    #[test]
+    fn pieces_read_in_parallel_keep_file_lines() {
+        // More than one piece of PIECE_BYTES: line numbers, rejected lines and entry order must
+        // be those of one pass.
+        let mut text = String::from("\u{feff}");
+        for i in 0..150_000 {
+            match i {
+                90_000 => text.push_str("lonely\n"),
+                120_000 => text.push_str("\n# a comment\r\n"),
+                _ => text.push_str(&format!("w{i:06} K IY1\r\n")),
+            }
+        }
+        assert!(text.len() > 2 * PIECE_BYTES);
+        let import = read_plain(text.as_bytes(), "t.dict", "t");
+        assert_eq!(import.entries.len(), 149_998);
+        assert_eq!(import.content_lines, 149_999);
+        assert_eq!(import.rejected.iter().map(|r| r.line()).collect::<Vec<_>>(), [Some(90_001)]);
+        let last = &import.entries[149_997];
+        assert_eq!((last.word.as_str(), last.line), ("w149999", 150_001));
+        assert!(import.entries.windows(2).all(|w| w[0].line < w[1].line));
     }
 
     #[test]

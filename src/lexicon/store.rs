@@ -14,6 +14,7 @@ use crate::safe_io::{self, Fingerprint};
 use crate::support::located::{line_column, origin_of, Located, Position};
 use crate::support::read::{read_capped, Limit, ReadError, MIB};
 use rayon::prelude::*;
+use std::borrow::Cow;
 use std::fmt;
 use std::path::{Path, PathBuf};
 
@@ -267,7 +268,30 @@ impl Lexicon {
     /// which a word's rows stand now). Saving does this too.
     pub fn sort(&mut self) {
         let policy = self.policy;
-        self.entries.sort_by_cached_key(|e| normalize_key(e.word.trim(), &policy).into_owned());
+        let keys: Vec<Cow<'_, str>> = self.entries.par_iter().map(|e| normalize_key(e.word.trim(), &policy)).collect();
+        // A loaded store is in order already: one pass, nothing moved.
+        if keys.par_windows(2).all(|pair| pair[0] <= pair[1]) {
+            return;
+        }
+        // By key, then by position: the order of a stable sort by key.
+        let mut order: Vec<usize> = (0..keys.len()).collect();
+        order.par_sort_unstable_by(|&a, &b| keys[a].cmp(&keys[b]).then(a.cmp(&b)));
+        drop(keys);
+        // Entry k takes the entry at order[k]: each cycle of the permutation is walked once with
+        // swaps, so no second list of entries is held.
+        let mut placed = vec![false; order.len()];
+        for start in 0..order.len() {
+            let mut at = start;
+            while !placed[at] {
+                placed[at] = true;
+                let from = order[at];
+                if from == start {
+                    break;
+                }
+                self.entries.swap(at, from);
+                at = from;
+            }
+        }
     }
 
     /// The bytes [`save`](Self::save) would write: header, then rows in store order.
@@ -580,6 +604,25 @@ mod tests {
         let mut lexicon = parse(&text).unwrap();
         let out = String::from_utf8(lexicon.to_csv_bytes()).unwrap();
         assert_eq!(out, format!("{HEADER}Ferry,F EH1 R IY0,imported,,,\nquay,K IY1,imported,,,\nquay,K EY1,imported,,,\n"));
+    }
+
+    #[test]
+    fn sort_is_a_stable_sort_by_key() {
+        // Keys in a scrambled order with repeats (several cycles in the permutation, and
+        // variants whose relative order must be kept); checked against the standard library's
+        // stable sort.
+        let entries: Vec<Entry> = (0..500u32)
+            .map(|i| {
+                let mut entry = Entry::new(&format!("w{}", (i * 7919) % 97), "K IY1");
+                entry.note = i.to_string().into();
+                entry
+            })
+            .collect();
+        let mut expected = entries.clone();
+        expected.sort_by_key(|e| e.word.clone());
+        let mut lexicon = Lexicon::from_entries(entries, HeadwordPolicy::default());
+        lexicon.sort();
+        assert_eq!(lexicon.entries(), expected.as_slice());
     }
 
     #[test]

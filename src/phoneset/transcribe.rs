@@ -143,8 +143,15 @@ impl Onsets {
             .take_while(|&id| set.get(id).is_some_and(|p| !p.is_nucleus()))
             .collect();
         for len in 1..=cluster.len() {
-            self.0.insert(cluster[..len].to_vec());
+            if !self.0.contains(&cluster[..len]) {
+                self.0.insert(cluster[..len].to_vec());
+            }
         }
+    }
+
+    /// Adds every cluster of `other`: the onsets of two parts of a lexicon are those of the whole.
+    pub fn merge(&mut self, other: Onsets) {
+        self.0.extend(other.0);
     }
 
     fn allows(&self, cluster: &[PhoneId]) -> bool {

@@ -2,8 +2,9 @@
 //! aliases in store order, the first marked `prefer="true"` when there are several.
 
 use super::{alias_of, Alphabet, PlsError, PLS_NAMESPACE};
-use crate::lexicon::{join_phones, normalize_key, Entry, HeadwordPolicy, Status};
+use crate::lexicon::{join_phones, Entry, HeadwordGroups, HeadwordPolicy, Status};
 use crate::phoneset::{Onsets, PhoneToken, Phoneset, Pronunciation};
+use rayon::prelude::*;
 
 /// Writes entries as a PLS document. Deprecated entries and empty pronunciations are left out;
 /// lexemes are sorted by normalised headword and keep the order of their pronunciations (the
@@ -26,26 +27,43 @@ pub fn write_pls(
     lang: &str,
 ) -> Result<String, PlsError> {
     let onsets = lexicon_onsets(entries, set);
-    let mut rows: Vec<(String, usize, &Entry)> = entries
-        .iter()
-        .enumerate()
-        .filter(|(_, e)| e.status != Status::Deprecated)
-        .map(|(i, e)| (normalize_key(e.word.trim(), policy).into_owned(), i, e))
-        .collect();
-    rows.sort_by(|a, b| (&a.0, a.1).cmp(&(&b.0, b.1)));
+    let groups = HeadwordGroups::new(entries, policy, |e| e.status != Status::Deprecated);
     let mut out = header(set, alphabet, lang);
-    for lexeme in rows.chunk_by(|a, b| a.0 == b.0) {
-        let words: Vec<&Entry> = lexeme.iter().map(|row| row.2).collect();
-        let elements = elements(&words, set, alphabet, &onsets)?;
-        if let Some(first) = words.first().filter(|_| !elements.is_empty()) {
-            write_lexeme(&mut out, first.word.trim(), &elements);
+    // Reserved once, generously (pages never written cost nothing): a document grown by doubling
+    // may leave its last smaller copy in the heap, which at 2,000,000 entries is 64 MB.
+    out.reserve(groups.iter().flatten().map(|&id| entries[id].word.len() + 2 * entries[id].pronunciation.len() + 64).sum());
+    // Lexemes are written in parallel, a wave of pieces at a time, so the pieces waiting to be
+    // appended stay a small part of the document; the first error in document order is returned.
+    let pieces: Vec<usize> = (0..groups.len()).step_by(LEXEMES_PER_PIECE).collect();
+    for wave in pieces.chunks(PIECES_PER_WAVE) {
+        let written: Vec<Result<String, PlsError>> = wave
+            .par_iter()
+            .map(|&first| {
+                let mut piece = String::new();
+                for n in first..(first + LEXEMES_PER_PIECE).min(groups.len()) {
+                    let words: Vec<&Entry> = groups.group(n).iter().map(|&id| &entries[id]).collect();
+                    let elements = elements(&words, set, alphabet, &onsets)?;
+                    if let Some(first) = words.first().filter(|_| !elements.is_empty()) {
+                        write_lexeme(&mut piece, first.word.trim(), &elements);
+                    }
+                }
+                Ok(piece)
+            })
+            .collect();
+        for piece in written {
+            out.push_str(&piece?);
         }
     }
     out.push_str("</lexicon>\n");
     Ok(out)
 }
 
-/// The XML declaration and the `<lexicon>` start tag.
+/// Lexemes one parallel task writes.
+const LEXEMES_PER_PIECE: usize = 2048;
+
+/// Pieces written before they are appended to the document.
+const PIECES_PER_WAVE: usize = 32;
+
 fn header(set: &Phoneset, alphabet: Alphabet, lang: &str) -> String {
     let alphabet_name = match alphabet {
         Alphabet::Symbols => format!("x-orthoepy-{}", set.id()),
@@ -91,11 +109,18 @@ fn write_lexeme(out: &mut String, grapheme: &str, elements: &[(&str, String)]) {
 /// stress marks by. Pass them to [`Phoneset::render_with`] to show a pronunciation as the export
 /// writes it.
 pub fn lexicon_onsets(entries: &[Entry], set: &Phoneset) -> Onsets {
-    let mut onsets = Onsets::new();
-    for pron in entries.iter().filter_map(|e| entry_phones(e, set).ok()) {
-        onsets.add_word_start(set, &pron);
-    }
-    onsets
+    entries
+        .par_iter()
+        .with_min_len(4096)
+        .filter_map(|e| entry_phones(e, set).ok())
+        .fold(Onsets::new, |mut onsets, pron| {
+            onsets.add_word_start(set, &pron);
+            onsets
+        })
+        .reduce(Onsets::new, |mut all, part| {
+            all.merge(part);
+            all
+        })
 }
 
 /// The entry's phones, leniently (stress as written, no phonotactic or stress-rule check), as the

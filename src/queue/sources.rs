@@ -242,8 +242,8 @@ fn audit_items(workspace: &Workspace, model_check: bool) -> Result<Vec<Item>, In
             None => finding.message.clone(),
         };
         item.kind = ItemKind::Audit {
-            check: finding.check.clone(),
-            current: finding.pronunciation.clone(),
+            check: finding.check.to_string(),
+            current: finding.pronunciation.to_string(),
             message,
             line: finding.line,
         };
