@@ -198,13 +198,14 @@ impl IndexedStore {
             }
             Err(stale) => stale,
         };
-        let bytes = store.whole()?;
+        // Read for this build only, not kept: the parsed lexicon answers every later question.
+        // The row table is made first so that the bytes (112 MB at 2,000,000 entries) are gone
+        // before the FST build, which runs on every core itself (two FSTs side by side).
+        let bytes = store.read_whole()?;
         let lexicon = Lexicon::from_file_bytes(&bytes, path, policy, LoadMode::Strict)?;
-        // The FST build (the longest step) and the row table need only the parsed entries.
-        let (index, table) = rayon::join(
-            || LexiconIndex::build_words(&lexicon, options, loader),
-            || row_table(&bytes, lexicon.entries(), path, policy),
-        );
+        let table = row_table(&bytes, lexicon.entries(), path, policy);
+        drop(bytes);
+        let index = LexiconIndex::build_words(&lexicon, options, loader);
         let (rows, header_len) = match table {
             Some((rows, header_len)) => (Some(rows), header_len),
             None => (None, 0),

@@ -59,6 +59,12 @@ impl StoreFile {
         if let Some(bytes) = self.whole.get() {
             return Ok(Arc::clone(bytes));
         }
+        let bytes = self.read_whole()?;
+        Ok(Arc::clone(self.whole.get_or_init(|| Arc::new(bytes))))
+    }
+
+    /// All the file's bytes, checked against the checksum, for the caller alone (not kept).
+    pub(super) fn read_whole(&self) -> Result<Vec<u8>, LexiconError> {
         let bytes = {
             let file = self.file.lock().unwrap_or_else(|poisoned| poisoned.into_inner());
             read_capped_from(&file, &self.path, MAX_LEXICON)?
@@ -66,7 +72,7 @@ impl StoreFile {
         if bytes.len() as u64 != self.length || crc32fast::hash(&bytes) != self.crc {
             return Err(self.changed());
         }
-        Ok(Arc::clone(self.whole.get_or_init(|| Arc::new(bytes))))
+        Ok(bytes)
     }
 
     /// The bytes `start..end` of each range, in order, read from the file (or from the whole
