@@ -35,6 +35,14 @@ fn planted_errors_are_found_and_untouched_entries_rarely_flagged() {
     println!("planted {} found {found} (recall {recall:.3}); untouched flagged {untouched_flagged} of {} ({untouched_rate:.4})", planted.len(), entries.len() - planted.len());
     for f in findings.iter().filter(|f| planted.contains(&f.entry)).take(3) {
         assert!(f.suggestion.is_some() && f.message.contains("never saw"), "{f:?}");
+        // Both pronunciations' calibrated chances are in the message, the guess's above the listed one's.
+        let chance = |after: &str| -> f64 {
+            let rest = &f.message[f.message.find(after).unwrap_or_else(|| panic!("{after:?} in {}", f.message)) + after.len()..];
+            rest.trim_start_matches("at most ").split([' ', ',']).next().and_then(|n| n.parse().ok()).unwrap_or_else(|| panic!("{}", f.message))
+        };
+        let (guess, listed) = (chance("/ a "), chance("listed pronunciation "));
+        assert!((0.0..=1.0).contains(&guess) && (0.0..=1.0).contains(&listed) && guess > listed, "{}", f.message);
+        assert!(f.message.contains("chance of being right") && f.message.contains("posteriors"), "{}", f.message);
     }
     // Bounds from a measured run of this exact setting (recall 0.323, 3.77% of the untouched
     // entries flagged, on about 9,000 entries, 3 folds of order-4 models trained on about 6,000)

@@ -7,7 +7,10 @@
 //! the model's best guess for the word: the listed pronunciation's posterior (read from the
 //! N-best list, or bounded above by the probability mass the N-best list leaves over) is at most
 //! [`UnlikelyOptions::ratio`] times the best guess's, while the best guess is itself confident
-//! (posterior at least [`UnlikelyOptions::min_best`]). By default the models are trained and
+//! (posterior at least [`UnlikelyOptions::min_best`]). The finding's message gives both as
+//! calibrated probabilities of being right (the fold model's own calibration, fitted on words it
+//! held out, so on the scale of every other score) beside their posteriors, and the best guess
+//! as the suggestion. By default the models are trained and
 //! compare without stress marks, so the check looks at the phones; stress is the stress checks'
 //! job. Words with another listed pronunciation
 //! equal to the best guess are left alone: a less likely variant beside the likely one is what
@@ -88,6 +91,10 @@ struct Scored {
     listed_posterior: f64,
     /// Whether `listed_posterior` is exact (`false`: an upper bound).
     exact: bool,
+    /// The best guess's calibrated probability of being right (the fold model's calibration).
+    best_chance: f64,
+    /// The listed pronunciation's calibrated probability (an upper bound when not `exact`).
+    listed_chance: f64,
     /// Whether the best guess is one of the word's listed pronunciations.
     best_is_listed: bool,
 }
@@ -174,8 +181,12 @@ fn score_fold(
         .par_iter()
         .flat_map_iter(|(_, ids)| {
             let guess = model.guess_with(&entries[ids[0]].word, &search);
-            let hypotheses: Vec<(String, f64)> = guess.hypotheses.iter().map(|h| (h.phones.join(" "), h.posterior)).collect();
-            let left_over = (1.0 - hypotheses.iter().map(|(_, p)| p).sum::<f64>()).max(0.0);
+            let hypotheses: Vec<(String, f64, f64)> = guess.hypotheses.iter().map(|h| (h.phones.join(" "), h.posterior, h.score)).collect();
+            let left_over = (1.0 - hypotheses.iter().map(|(_, p, _)| p).sum::<f64>()).max(0.0);
+            // A pronunciation below the list is at best the next rank with all the mass left over.
+            let mut with_rest: Vec<f64> = hypotheses.iter().map(|(_, p, _)| *p).collect();
+            with_rest.push(left_over);
+            let rest_chance = model.calibrated_nbest(&with_rest).last().copied().unwrap_or(left_over);
             let listed = |i: usize| -> String {
                 entries[i].phones().map(|p| symbols.phone(p)).filter(|p| !p.is_empty()).collect::<Vec<_>>().join(" ")
             };
@@ -183,10 +194,12 @@ fn score_fold(
             ids.iter()
                 .zip(&all_listed)
                 .filter_map(|(&i, mine)| {
-                    let (best, best_posterior) = hypotheses.first()?.clone();
-                    let found = hypotheses.iter().find(|(p, _)| p == mine).map(|(_, q)| *q);
+                    let (best, best_posterior, best_chance) = hypotheses.first()?.clone();
+                    let found = hypotheses.iter().find(|(p, _, _)| p == mine).map(|(_, q, chance)| (*q, *chance));
                     let best_is_listed = all_listed.contains(&best);
-                    Some(Scored { entry: i, best, best_posterior, listed_posterior: found.unwrap_or(left_over), exact: found.is_some(), best_is_listed })
+                    let (listed_posterior, listed_chance) = found.unwrap_or((left_over, rest_chance));
+                    let exact = found.is_some();
+                    Some(Scored { entry: i, best, best_posterior, listed_posterior, exact, best_chance, listed_chance, best_is_listed })
                 })
                 .collect::<Vec<_>>()
         })
@@ -202,10 +215,10 @@ fn findings(entries: &[Entry], mut scored: Vec<Scored>, opts: &UnlikelyOptions) 
         .filter(|s| !s.best_is_listed && s.best_posterior >= opts.min_best && s.listed_posterior <= opts.ratio * s.best_posterior)
         .map(|s| {
             let entry = &entries[s.entry];
-            let listed = if s.exact { format!("{:.3}", s.listed_posterior) } else { format!("below {:.3}", s.listed_posterior) };
+            let bound = if s.exact { "" } else { "at most " };
             let message = format!(
-                "a model that never saw this word gives /{}/ {:.3} and the listed pronunciation {listed}; check it",
-                s.best, s.best_posterior
+                "a model that never saw this word gives /{}/ a {:.2} chance of being right and the listed pronunciation {bound}{:.2} (posteriors {:.3} and {bound}{:.3}); check it",
+                s.best, s.best_chance, s.listed_chance, s.best_posterior, s.listed_posterior
             );
             let mut finding = Finding::new(UNLIKELY_PRONUNCIATION, Severity::Warning, s.entry, entry, message);
             finding.suggestion = Some(s.best.into());

@@ -16,7 +16,7 @@ mod ngram;
 mod train;
 
 pub use calibration::{
-    reliability, Calibration, IsotonicMap, Reliability, ReliabilityBin, SourceCalibration, SourceFit, MIN_SOURCE_OBSERVATIONS, RELIABILITY_BINS,
+    reliability, Calibration, IsotonicMap, Reliability, ReliabilityBin, SourceCalibration, SourceFit, MIN_MODEL_OBSERVATIONS, MIN_SOURCE_OBSERVATIONS, RELIABILITY_BINS,
 };
 pub use decode::{AlignedPiece, DecodeOptions, Guess, GuessWarning, Hypothesis};
 pub use em::LatticeBeam;
