@@ -470,9 +470,9 @@ pub(crate) mod tests {
         let stress = StressPolicy::default();
         let packed = Context::with_store(&rows, HeadwordPolicy::default(), &phoneset, &stress, true);
         let wide = Context::with_store(&rows, HeadwordPolicy::default(), &phoneset, &stress, false);
-        for id in 0..rows.len() {
+        for (id, row) in rows.iter().enumerate() {
             assert_eq!(packed.parsed(id).tokens, wide.parsed(id).tokens, "entry {id}");
-            assert_eq!(packed.parsed(id).tokens.len(), rows[id].phones().count());
+            assert_eq!(packed.parsed(id).tokens.len(), row.phones().count());
         }
         let levels = [None, Some(StressLevel::Primary), Some(StressLevel::Secondary), Some(StressLevel::Unstressed)];
         for phone in [None, Some(0), Some(PACKED_PHONES as PhoneId - 1)] {
