@@ -6,7 +6,7 @@
 # Needs a release build (`cargo build --release`), python3 and /usr/bin/time (GNU time, for the
 # peak resident set size). The lexicon comes from benches/synthetic_lexicon.py (deterministic),
 # is imported into a store, and then stats, audit, find (cold: the cache is built; then warm,
-# median of 7) and export run on it, each as its own process.
+# median of 7) and export (plain, then PLS) run on it, each as its own process.
 set -euo pipefail
 ENTRIES=${1:-2000000}
 ROOT=$(cd "$(dirname "$0")/.." && pwd)
@@ -33,4 +33,5 @@ WORD=$(sed -n '1000000p' "$WORK/synthetic.dict" | cut -d' ' -f1)
 measure "find (cold: builds cache)" "$BIN" find --lexicon "$STORE" "$WORD"
 for _ in 1 2 3 4 5 6 7; do measure "find (warm)" "$BIN" find --lexicon "$STORE" "$WORD"; done
 measure "export plain" "$BIN" export "$STORE" --format plain -o "$WORK/out.txt"
+measure "export pls" "$BIN" export "$STORE" --format pls -o "$WORK/out.pls"
 echo "cache file: $(wc -c < "$WORK/.orthoepy-index/synthetic.csv.idx") bytes"
