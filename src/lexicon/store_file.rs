@@ -13,7 +13,7 @@
 //! index cache still checks that each row parsed alone leads back to its entry.)
 
 use super::store::{LexiconError, MAX_LEXICON};
-use crate::support::read::{checksum_capped, read_capped_from};
+use crate::support::read::{checksum_capped, read_capped_from, read_capped_rest};
 use std::fs::File;
 use std::io::{Read, Seek, SeekFrom};
 use std::path::{Path, PathBuf};
@@ -33,7 +33,17 @@ pub(super) struct StoreFile {
 
 impl StoreFile {
     /// Opens the store at `path` and checksums it (refused over [`MAX_LEXICON`] like a full read).
+    /// A store that is not a regular file (a pipe such as `/dev/stdin`) cannot be read twice,
+    /// so it is read whole at once and every later read is served from those bytes.
     pub(super) fn open(path: &Path) -> Result<StoreFile, LexiconError> {
+        let regular = std::fs::metadata(path).map(|m| m.is_file()).unwrap_or(true);
+        if !regular {
+            let file = File::open(path).map_err(|reason| LexiconError::Io { path: path.to_path_buf(), reason })?;
+            let bytes = read_capped_rest(&file, path, MAX_LEXICON)?;
+            let (length, crc) = (bytes.len() as u64, crc32fast::hash(&bytes));
+            let whole = OnceLock::from(Arc::new(bytes));
+            return Ok(StoreFile { path: path.to_path_buf(), file: Mutex::new(file), length, crc, modified: None, whole });
+        }
         let sum = checksum_capped(path, MAX_LEXICON)?;
         let modified = sum.file.metadata().and_then(|m| m.modified()).ok();
         Ok(StoreFile { path: path.to_path_buf(), file: Mutex::new(sum.file), length: sum.length, crc: sum.crc, modified, whole: OnceLock::new() })
@@ -65,6 +75,9 @@ impl StoreFile {
 
     /// All the file's bytes, checked against the checksum, for the caller alone (not kept).
     pub(super) fn read_whole(&self) -> Result<Vec<u8>, LexiconError> {
+        if let Some(bytes) = self.whole.get() {
+            return Ok(bytes.to_vec());
+        }
         let bytes = {
             let file = self.file.lock().unwrap_or_else(|poisoned| poisoned.into_inner());
             read_capped_from(&file, &self.path, MAX_LEXICON)?
@@ -135,6 +148,27 @@ mod tests {
         // From the whole bytes now: the same answers.
         assert_eq!(file.ranges(&[(19, 23)]).unwrap(), [b"quay".to_vec()]);
         assert!(matches!(file.ranges(&[(19, 99)]), Err(LexiconError::ChangedWhileRead { .. })));
+    }
+
+    #[test]
+    fn a_pipe_is_read_once_and_served_from_its_bytes() {
+        // A pipe cannot be read twice nor seek (POSIX lseek: ESPIPE): `find --lexicon /dev/stdin`.
+        let body = b"word,pronunciation\nquay,K IY1\n";
+        let mut ends = [0; 2];
+        // SAFETY: pipe(2) fills the two descriptors of the array it is given.
+        assert_eq!(unsafe { libc::pipe(ends.as_mut_ptr()) }, 0);
+        // SAFETY: the write end was just opened by pipe(2) and is owned here alone.
+        let mut writer = unsafe { <File as std::os::fd::FromRawFd>::from_raw_fd(ends[1]) };
+        std::io::Write::write_all(&mut writer, body).unwrap();
+        drop(writer);
+        let opened = StoreFile::open(Path::new(&format!("/proc/self/fd/{}", ends[0])));
+        // SAFETY: the read end is ours; StoreFile opened its own descriptor for it.
+        unsafe { libc::close(ends[0]) };
+        let file = opened.unwrap();
+        assert_eq!((file.length(), file.crc()), (body.len() as u64, crc32fast::hash(body)));
+        assert_eq!(file.ranges(&[(19, 23)]).unwrap(), [b"quay".to_vec()]);
+        assert_eq!(file.read_whole().unwrap(), body);
+        assert_eq!(file.whole().unwrap().as_slice(), body);
     }
 
     #[test]

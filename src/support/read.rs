@@ -113,7 +113,7 @@ impl ReadError {
 /// ```
 pub fn read_capped(path: &Path, limit: Limit) -> Result<Vec<u8>, ReadError> {
     let file = File::open(path).map_err(|reason| ReadError::Io { path: path.to_path_buf(), reason })?;
-    read_rest(&file, path, limit)
+    read_capped_rest(&file, path, limit)
 }
 
 /// [`read_capped`] of a file already open (read from its start), so that the bytes come from
@@ -133,11 +133,12 @@ pub fn read_capped(path: &Path, limit: Limit) -> Result<Vec<u8>, ReadError> {
 pub fn read_capped_from(file: &File, path: &Path, limit: Limit) -> Result<Vec<u8>, ReadError> {
     let mut reader = file;
     reader.seek(SeekFrom::Start(0)).map_err(|reason| ReadError::Io { path: path.to_path_buf(), reason })?;
-    read_rest(file, path, limit)
+    read_capped_rest(file, path, limit)
 }
 
-/// The rest of `file` from where it stands (a pipe or a device cannot seek), capped at `limit`.
-fn read_rest(file: &File, path: &Path, limit: Limit) -> Result<Vec<u8>, ReadError> {
+/// The rest of a file already open, from where it stands (a pipe or a device cannot seek),
+/// capped like [`read_capped`]; `path` only names it in errors.
+pub fn read_capped_rest(file: &File, path: &Path, limit: Limit) -> Result<Vec<u8>, ReadError> {
     let io = |reason| ReadError::Io { path: path.to_path_buf(), reason };
     let hint = reported_length(file, path, limit)?;
     let reader = file;
